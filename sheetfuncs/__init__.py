@@ -1,0 +1,37 @@
+"""sheetfuncs: exact one-way analysis of variance for spreadsheet users.
+
+The core is pure functions on numbers returning frozen result objects; the worksheet functions
+(:mod:`sheetfuncs.udfs`), the report writer (:mod:`sheetfuncs.report`) and the command line only
+convert arguments in and shape results out.
+"""
+
+from .errors import InputError
+from .groups import CellNote, Groups, as_groups, groups_from_long, groups_from_range
+from .fdist import f_critical, f_tail
+from .oneway import OneWayResult, oneway, oneway_from_summary
+from .linear import ContrastResult, LinearTestResult, contrast, linear_test
+from .describe import DescribeResult, GroupSummary, describe
+
+__version__ = "0.1.0"
+
+__all__ = [
+    "InputError",
+    "CellNote",
+    "Groups",
+    "as_groups",
+    "groups_from_range",
+    "groups_from_long",
+    "f_tail",
+    "f_critical",
+    "OneWayResult",
+    "oneway",
+    "oneway_from_summary",
+    "LinearTestResult",
+    "ContrastResult",
+    "linear_test",
+    "contrast",
+    "DescribeResult",
+    "GroupSummary",
+    "describe",
+    "__version__",
+]

@@ -1,0 +1,287 @@
+"""Per-group moments, computed exactly for the decimal value of every cell, or accurately in floats.
+
+Decimal-exact path
+    Every value is read as its shortest round-trip decimal. When each of those has at most 15
+    significant digits (anything typed into a spreadsheet does), every value equals
+    ``N_i / 10**D`` for integers ``N_i`` and one scale ``D``. The integers are centred by one
+    integer offset ``c`` and the counts, sums ``S = sum(N_i - c)`` and sums of squares
+    ``Q = sum((N_i - c)**2)`` are accumulated exactly: int64 in chunks short enough that no sum
+    can overflow, Python integers for the totals (and for chunks whose values are too wide for
+    int64 squares). Sums of squares are then exact rationals, rounded once at the end.
+
+    The scaling is vectorised. For a value ``x`` and scale ``10**D`` (``D <= 22``, so the power
+    is exact), ``r = rint(x * 10**D)`` is accepted when the correctly rounded quotient
+    ``r / 10**D`` gives back ``x`` and ``r`` has at most 15 significant digits: then
+    ``r * 10**-D`` is a decimal of at most 15 digits that rounds to ``x``, and such a decimal
+    is unique (DBL_DIG = 15), so it is the shortest round-trip decimal. Values that fail this
+    check are read one by one through ``repr`` (exact), which also settles whether the exact
+    path applies at all.
+
+Floating-point path
+    Per group, two passes with the corrected-sum term (Chan, Golub & LeVeque 1983):
+    ``m = mean(x)``, ``M2 = sum((x - m)**2) - (sum(x - m))**2 / n``.
+"""
+
+from __future__ import annotations
+
+import decimal
+import math
+from dataclasses import dataclass
+from fractions import Fraction
+from collections.abc import Sequence
+
+import numpy as np
+
+from .errors import InputError
+from .groups import Groups
+
+__all__ = ["ExactMoments", "FloatMoments", "compute_moments", "decimal_parts"]
+
+_CHUNK = 32768
+_TWO53 = 9007199254740992.0
+_TWO53_INT = 1 << 53
+_INT64_MAX = (1 << 63) - 1
+_SAMPLE_PER_GROUP = 64
+MAX_DIGITS = 15
+
+
+def decimal_parts(x: float) -> tuple[int, int, int]:
+    """``(integer, exponent, significant digits)`` of the shortest round-trip decimal of x."""
+    d = decimal.Decimal(repr(float(x)))
+    if d == 0:
+        return 0, 0, 1
+    sign, digits, exp = d.as_tuple()
+    # strip trailing zeros
+    n = len(digits)
+    while n > 1 and digits[n - 1] == 0:
+        n -= 1
+        exp += 1
+    mant = int("".join(map(str, digits[:n])))
+    return (-mant if sign else mant), int(exp), n
+
+
+@dataclass(frozen=True)
+class ExactMoments:
+    """Exact integer moments: value ``= (offset + m) / 10**scale`` for the centred integers m."""
+
+    scale: int
+    offset: int
+    n: tuple[int, ...]
+    s: tuple[int, ...]
+    q: tuple[int, ...]
+
+    exact = True
+
+    @property
+    def denom(self) -> int:
+        return 10 ** self.scale
+
+    def mean(self, g: int) -> Fraction:
+        return (self.offset + Fraction(self.s[g], self.n[g])) / self.denom
+
+    def means(self) -> tuple[Fraction, ...]:
+        return tuple(self.mean(g) for g in range(len(self.n)))
+
+    def ss_within_parts(self, parts: Sequence[Sequence[int]]) -> Fraction:
+        """Sum of squares about the part means, the groups of each part sharing one mean."""
+        total = Fraction(0)
+        for p in parts:
+            n = sum(self.n[g] for g in p)
+            s = sum(self.s[g] for g in p)
+            q = sum(self.q[g] for g in p)
+            total += q - Fraction(s * s, n)
+        return total / (self.denom * self.denom)
+
+    def ss_group(self, g: int) -> Fraction:
+        return self.ss_within_parts([[g]])
+
+
+@dataclass(frozen=True)
+class FloatMoments:
+    """Floating-point moments: count, mean and sum of squared deviations per group."""
+
+    n: tuple[int, ...]
+    mean_: tuple[float, ...]
+    m2: tuple[float, ...]
+
+    exact = False
+
+    def means(self) -> tuple[float, ...]:
+        return self.mean_
+
+    def mean(self, g: int) -> float:
+        return self.mean_[g]
+
+    def ss_within_parts(self, parts: Sequence[Sequence[int]]) -> float:
+        total = 0.0
+        for p in parts:
+            n = sum(self.n[g] for g in p)
+            m = math.fsum(self.n[g] * self.mean_[g] for g in p) / n
+            total += math.fsum([self.m2[g] for g in p] + [self.n[g] * (self.mean_[g] - m) ** 2 for g in p])
+        return total
+
+    def ss_group(self, g: int) -> float:
+        return self.m2[g]
+
+
+# --------------------------------------------------------------------------------------------
+
+
+def _float_moments(arrays: Sequence[np.ndarray]) -> FloatMoments:
+    ns, means, m2s = [], [], []
+    for a in arrays:
+        n = a.size
+        m0 = float(np.mean(a))
+        sd = 0.0
+        sq = 0.0
+        buf = np.empty(min(n, _CHUNK))
+        for i in range(0, n, _CHUNK):
+            x = a[i : i + _CHUNK]
+            d = buf[: x.size]
+            np.subtract(x, m0, out=d)
+            sd += float(d.sum())
+            sq += float(np.dot(d, d))
+        ns.append(int(n))
+        means.append(m0 + sd / n)
+        m2s.append(max(sq - sd * sd / n, 0.0))
+    return FloatMoments(tuple(ns), tuple(means), tuple(m2s))
+
+
+class _NotExact(Exception):
+    def __init__(self, value: float, group: int, digits: int) -> None:
+        super().__init__(value)
+        self.value, self.group, self.digits = value, group, digits
+
+
+def _sample(arrays: Sequence[np.ndarray]) -> list[tuple[int, float]]:
+    out = []
+    for g, a in enumerate(arrays):
+        step = max(1, a.size // _SAMPLE_PER_GROUP)
+        for v in a[::step][:_SAMPLE_PER_GROUP].tolist():
+            out.append((g, v))
+        if a.size:
+            out.append((g, float(a[-1])))
+    return out
+
+
+def _exact_sums(r: np.ndarray, offset: int, hi: float, lo: float) -> tuple[int, int]:
+    """Exact ``sum(r - offset)`` and ``sum((r - offset)**2)`` of integer-valued floats.
+
+    ``r`` holds integers below 2**53 in size, ``hi``/``lo`` its extremes. Sums run in float64
+    while every partial sum stays below 2**53 (then float addition is exact), else in int64
+    sub-chunks short enough not to overflow, else in Python integers.
+    """
+    big = int(max(hi - offset, offset - lo, 0.0)) + 2  # a safe bound on |r - offset|
+    n = r.size
+    if n * big * big < _TWO53_INT:
+        m = r - offset  # exact: both are integers below 2**53 and so is the difference
+        return int(m.sum()), int(np.dot(m, m))
+    m = r.astype(np.int64)
+    m -= offset
+    step = _INT64_MAX // (big * big)
+    if step >= 1024:
+        s = q = 0
+        for j in range(0, n, step):
+            part = m[j : j + step]
+            s += int(part.sum())
+            q += int(np.dot(part, part))
+        return s, q
+    vals = [int(v) for v in m.tolist()]
+    return sum(vals), sum(v * v for v in vals)
+
+
+def _exact_moments(arrays: Sequence[np.ndarray]) -> ExactMoments:
+    sample = _sample(arrays)
+    parts = []
+    for g, v in sample:
+        mant, exp, nd = decimal_parts(v)
+        if nd > MAX_DIGITS:
+            raise _NotExact(v, g, nd)
+        parts.append((mant, exp))
+    scale = max(0, max(-e for _, e in parts))
+    vector = scale <= 22
+    if vector:
+        ints = sorted(m * 10 ** (e + scale) for m, e in parts)
+        offset = ints[len(ints) // 2]
+        if abs(offset) >= 2**53:
+            offset = 0
+    else:
+        offset = 0
+    ns: list[int] = []
+    ss: list[int] = []
+    qs: list[int] = []
+    fallbacks: list[list[float]] = []
+    p10 = 10.0**scale if vector else 1.0
+    for g, a in enumerate(arrays):
+        s_tot = 0
+        q_tot = 0
+        fb: list[float] = []
+        if not vector:
+            fb = a.tolist()
+        else:
+            for i in range(0, a.size, _CHUNK):
+                x = a[i : i + _CHUNK]
+                r = x * p10
+                np.rint(r, out=r)
+                ok = r / p10 == x
+                hi, lo = float(r.max()), float(r.min())
+                if max(hi, -lo) >= 1e15:
+                    # 16-digit scaled values are exact only with trailing zeros
+                    ar = np.abs(r)
+                    ok &= (ar < 1e15) | ((ar < _TWO53) & (np.fmod(r, 10.0) == 0.0))
+                if not ok.all():
+                    fb.extend(x[~ok].tolist())
+                    r = r[ok]
+                    if r.size == 0:
+                        continue
+                    hi, lo = float(r.max()), float(r.min())
+                s, q = _exact_sums(r, offset, hi, lo)
+                s_tot += s
+                q_tot += q
+        ns.append(int(a.size))
+        ss.append(s_tot)
+        qs.append(q_tot)
+        fallbacks.append(fb)
+
+    # values the vectorised check could not settle: read them one by one
+    if any(fallbacks):
+        decoded: list[list[tuple[int, int]]] = []
+        new_scale = scale if vector else 0
+        for g, fb in enumerate(fallbacks):
+            row = []
+            for v in fb:
+                mant, exp, nd = decimal_parts(v)
+                if nd > MAX_DIGITS:
+                    raise _NotExact(v, g, nd)
+                row.append((mant, exp))
+                new_scale = max(new_scale, -exp)
+            decoded.append(row)
+        grow = 10 ** (new_scale - scale) if vector else 1
+        offset *= grow
+        for g, row in enumerate(decoded):
+            s_tot = ss[g] * grow
+            q_tot = qs[g] * grow * grow
+            for mant, exp in row:
+                v = mant * 10 ** (exp + new_scale) - offset
+                s_tot += v
+                q_tot += v * v
+            ss[g], qs[g] = s_tot, q_tot
+        scale = new_scale
+    return ExactMoments(scale, offset, tuple(ns), tuple(ss), tuple(qs))
+
+
+def compute_moments(groups: Groups, exact: bool | None = None) -> ExactMoments | FloatMoments:
+    """Moments of every group: decimal-exact when possible (``exact=None``), demanded
+    (``exact=True``, an :class:`InputError` when impossible) or floating point (``False``)."""
+    if exact is False:
+        return _float_moments(groups.arrays)
+    try:
+        return _exact_moments(groups.arrays)
+    except _NotExact as e:
+        if exact:
+            raise InputError(
+                f"sheetfuncs: the exact path needs every value to have at most {MAX_DIGITS} "
+                f"significant digits, but {e.value!r} in group \"{groups.labels[e.group]}\" has "
+                f"{e.digits}; round the data or use exact=False"
+            ) from None
+        return _float_moments(groups.arrays)
