@@ -1,0 +1,12 @@
+import sys
+from pathlib import Path
+
+from hypothesis import HealthCheck, settings
+
+sys.path.insert(0, str(Path(__file__).parent))
+
+# Property tests repeat exactly from run to run (no flaky CI) and have no per-example deadline.
+settings.register_profile(
+    "sheetfuncs", derandomize=True, deadline=None, suppress_health_check=[HealthCheck.too_slow]
+)
+settings.load_profile("sheetfuncs")
