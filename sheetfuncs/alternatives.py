@@ -257,13 +257,14 @@ def brown_forsythe(groups: Any, *, exact: bool | None = None) -> BrownForsytheRe
         df2_x = denom * denom / sum((c * c / (n - 1) for c, n in zip(parts, ns)), Fraction(0))
         f, df2 = float(f_x), float(df2_x)
     else:
-        parts_f = [(n_tot - n) / n_tot * (float(mom.ss_group(i)) / (n - 1)) for i, n in enumerate(ns)]
+        # centred means and variances in a common unit (F* and df2 do not depend on it)
+        dev, var = centred_group_stats(g, mom)
+        parts_f = [(n_tot - n) / n_tot * v for n, v in zip(ns, var)]
         denom_f = math.fsum(parts_f)
         if denom_f == 0:
             raise _all_zero_error()
-        means = mom.means()
-        grand = math.fsum(n * m for n, m in zip(ns, means)) / n_tot
-        ssb_f = math.fsum(n * (m - grand) ** 2 for n, m in zip(ns, means))
+        grand = math.fsum(n * d for n, d in zip(ns, dev)) / n_tot
+        ssb_f = math.fsum(n * (d - grand) ** 2 for n, d in zip(ns, dev))
         f = ssb_f / denom_f
         df2 = denom_f * denom_f / math.fsum(c * c / (n - 1) for c, n in zip(parts_f, ns))
     p = f_tail(f, g.k - 1, df2) if f > 0 else 1.0
