@@ -35,3 +35,14 @@ __all__ = [
     "describe",
     "__version__",
 ]
+
+from .alternatives import BrownForsytheResult, KruskalResult, WelchResult, brown_forsythe, kruskal, welch  # noqa: E402
+from .assumptions import (  # noqa: E402
+    BartlettResult, ChecksResult, LeveneResult, NormalityResult, bartlett, checks, levene, shapiro_residuals,
+)
+
+__all__ += [
+    "WelchResult", "BrownForsytheResult", "KruskalResult", "welch", "brown_forsythe", "kruskal",
+    "LeveneResult", "BartlettResult", "NormalityResult", "ChecksResult",
+    "levene", "bartlett", "shapiro_residuals", "checks",
+]
