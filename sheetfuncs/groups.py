@@ -260,7 +260,9 @@ def _as_rows(cells: Any) -> list[tuple]:
         return [(v,) for v in rows]
     out = []
     for r in rows:
-        if isinstance(r, str) or not isinstance(r, (Sequence, np.ndarray)):
+        if type(r) is tuple or type(r) is list:  # the usual case, without the slower ABC checks
+            out.append(tuple(r))
+        elif isinstance(r, str) or not isinstance(r, (Sequence, np.ndarray)):
             out.append((r,))
         else:
             out.append(tuple(r))
