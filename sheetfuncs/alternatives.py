@@ -38,7 +38,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from fractions import Fraction
-from typing import Any
+from typing import Any, ClassVar
 
 import numpy as np
 from scipy import stats
@@ -59,6 +59,7 @@ __all__ = [
     "centred_group_stats",
     "require_variances",
     "unit_free_moments",
+    "prepare_with_variances",
 ]
 
 _HEADER_F = ("Test", "Statistic", "df1", "df2", "p")
@@ -66,6 +67,17 @@ _HEADER_F = ("Test", "Statistic", "df1", "df2", "p")
 
 # --------------------------------------------------------------------------------------------
 # shared per-group quantities
+
+
+def prepare_with_variances(
+    groups: Any, method: str, exact: bool | None
+) -> tuple[Groups, ExactMoments | FloatMoments]:
+    """The groups and their unit-free moments for a ``method`` that needs every group's
+    variance: at least two groups, each of two or more values (else InputError)."""
+    g = as_groups(groups)
+    require_two_groups(g)
+    require_variances(g, method)
+    return unit_free_moments(g, exact)
 
 
 def require_variances(g: Groups, method: str) -> None:
@@ -152,7 +164,24 @@ def centred_group_stats(
 
 
 @dataclass(frozen=True)
-class WelchResult:
+class _HeteroscedasticF:
+    """Fields shared by the F tests for means that allow unequal variances."""
+
+    statistic: float
+    df1: int
+    df2: float
+    p: float
+    exact: bool = False
+
+    name: ClassVar[str] = ""
+
+    def table(self) -> list[list[Any]]:
+        """Header row, then one row for the test."""
+        return [list(_HEADER_F), [self.name, self.statistic, self.df1, self.df2, self.p]]
+
+
+@dataclass(frozen=True)
+class WelchResult(_HeteroscedasticF):
     """Welch's (1951) test of equal means without assuming equal variances.
 
     Fields: ``statistic`` (Welch's F), ``df1 = k - 1``, ``df2`` (Welch's approximate
@@ -163,15 +192,7 @@ class WelchResult:
     Source: Welch, B. L. (1951), *Biometrika* 38, 330–336.
     """
 
-    statistic: float
-    df1: int
-    df2: float
-    p: float
-    exact: bool = False
-
-    def table(self) -> list[list[Any]]:
-        """Header row, then one row for the test."""
-        return [list(_HEADER_F), ["Welch", self.statistic, self.df1, self.df2, self.p]]
+    name: ClassVar[str] = "Welch"
 
 
 def welch(groups: Any, *, exact: bool | None = None) -> WelchResult:
@@ -180,10 +201,7 @@ def welch(groups: Any, *, exact: bool | None = None) -> WelchResult:
     Every group needs two or more values and a non-zero variance (the test weights each group
     by ``n_i / s_i^2``). See the module docstring for the formula.
     """
-    g = as_groups(groups)
-    require_two_groups(g)
-    require_variances(g, "Welch's test")
-    g, mom = unit_free_moments(g, exact)
+    g, mom = prepare_with_variances(groups, "Welch's test", exact)
     dev, var = centred_group_stats(g, mom)
     k = g.k
     ns = g.counts
@@ -212,7 +230,7 @@ def welch(groups: Any, *, exact: bool | None = None) -> WelchResult:
 
 
 @dataclass(frozen=True)
-class BrownForsytheResult:
+class BrownForsytheResult(_HeteroscedasticF):
     """Brown & Forsythe's (1974) F* test of equal means for unequal variances.
 
     Fields: ``statistic`` (F*), ``df1 = k - 1`` (the 1974 numerator df), ``df2``
@@ -223,15 +241,7 @@ class BrownForsytheResult:
     Satterthwaite, F. E. (1946), *Biometrics Bulletin* 2, 110–114.
     """
 
-    statistic: float
-    df1: int
-    df2: float
-    p: float
-    exact: bool = False
-
-    def table(self) -> list[list[Any]]:
-        """Header row, then one row for the test."""
-        return [list(_HEADER_F), ["Brown-Forsythe F*", self.statistic, self.df1, self.df2, self.p]]
+    name: ClassVar[str] = "Brown-Forsythe F*"
 
 
 def brown_forsythe(groups: Any, *, exact: bool | None = None) -> BrownForsytheResult:
@@ -240,10 +250,7 @@ def brown_forsythe(groups: Any, *, exact: bool | None = None) -> BrownForsytheRe
 
     Every group needs two or more values; single groups may have zero variance, but not all.
     """
-    g = as_groups(groups)
-    require_two_groups(g)
-    require_variances(g, "the Brown-Forsythe F* test")
-    g, mom = unit_free_moments(g, exact)
+    g, mom = prepare_with_variances(groups, "the Brown-Forsythe F* test", exact)
     n_tot = g.n_total
     ns = g.counts
     every, each = [list(range(g.k))], [[i] for i in range(g.k)]

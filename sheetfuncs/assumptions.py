@@ -47,7 +47,7 @@ from .alternatives import (
     KruskalResult,
     WelchResult,
     kruskal,
-    require_variances,
+    prepare_with_variances,
     unit_free_moments,
     welch,
 )
@@ -225,11 +225,8 @@ def levene(groups: Any, center: str = "median", *, exact: bool | None = None) ->
     (Brown & Forsythe 1974), ``"mean"`` from its group mean (Levene 1960). Every group needs two
     or more values.
     """
-    g = as_groups(groups)
-    require_two_groups(g)
     c = _parse_center(center)
-    require_variances(g, "Levene's test")
-    g, mom = unit_free_moments(g, exact)
+    g, mom = prepare_with_variances(groups, "Levene's test", exact)
     dev = _Deviations(g, mom)
     # F is unchanged by a common unit, so the deviations stay in the exact integer unit
     z = [dev.abs_from_median(i) if c == "median" else dev.abs_from_mean(i) for i in range(g.k)]
@@ -293,10 +290,7 @@ def bartlett(groups: Any, *, exact: bool | None = None) -> BartlettResult:
     Every group needs two or more values and a non-zero variance (the test takes logarithms of
     the variances).
     """
-    g = as_groups(groups)
-    require_two_groups(g)
-    require_variances(g, "Bartlett's test")
-    g, mom = unit_free_moments(g, exact)
+    g, mom = prepare_with_variances(groups, "Bartlett's test", exact)
     k = g.k
     ns = g.counts
     dfw = g.n_total - k
@@ -552,31 +546,28 @@ class ChecksResult:
             "kruskal": "Kruskal-Wallis, alongside the one-way F",
         }[self.read]
 
-    def _why(self, test: str) -> str:
-        for name, reason in self.not_available:
-            if name == test:
-                return "not available: " + reason
-        return "not available"
+    def _row(self, check: str, result: Any, cells: Any, reading: Any) -> list[Any]:
+        """One table row: ``cells()`` gives (statistic, df, p) and ``reading()`` the words, or
+        the row says why the test is not available."""
+        if result is None:
+            why = dict(self.not_available).get(check)
+            return [check, None, None, None, "not available: " + why if why else "not available"]
+        return [check, *cells(), reading()]
 
     def table(self) -> list[list[Any]]:
         """Header row (Check, Statistic, df, p, Reading), the test to read, then one row per check."""
         a = self.alpha
+        ow, w, kw, lev, b, nm = self.oneway, self.welch, self.kruskal, self.levene, self.bartlett, self.normality
         rows: list[list[Any]] = [["Check", "Statistic", "df", "p", "Reading"]]
-        if self.read == "welch" and self.welch is not None:
-            w = self.welch
+        if self.read == "welch" and w is not None:
             rows.append(["Read", w.statistic, _df_text(w.df1, w.df2), w.p, self.read_name])
-        elif self.read == "kruskal" and self.kruskal is not None:
-            kw = self.kruskal
+        elif self.read == "kruskal" and kw is not None:
             rows.append(["Read", kw.statistic, kw.df, kw.p, self.read_name])
         else:
-            ow = self.oneway
             rows.append(["Read", ow.f, _df_text(ow.df_between, ow.df_within), ow.p, self.read_name])
-        lev = self.levene
-        if lev is None:
-            rows.append(["Levene (median)", None, None, None, self._why("Levene (median)")])
-        else:
-            rows.append(["Levene (median)", lev.statistic, _df_text(lev.df1, lev.df2), lev.p,
-                         "variances look unequal" if lev.p < a else "no sign of unequal variances"])
+        rows.append(self._row(
+            "Levene (median)", lev, lambda: (lev.statistic, _df_text(lev.df1, lev.df2), lev.p),
+            lambda: "variances look unequal" if lev.p < a else "no sign of unequal variances"))
         ratio = self.sd_ratio
         if math.isnan(ratio):
             rows.append(["Largest / smallest SD", None, None, None,
@@ -585,15 +576,11 @@ class ChecksResult:
             rows.append(["Largest / smallest SD", ratio, None, None,
                          f"more than {SD_RATIO_LIMIT:g}: variances look unequal" if ratio > SD_RATIO_LIMIT
                          else f"{SD_RATIO_LIMIT:g} or less"])
-        b = self.bartlett
-        if b is None:
-            rows.append(["Bartlett", None, None, None, self._why("Bartlett")])
-        else:
-            rows.append(["Bartlett", b.statistic, b.df, b.p,
-                         ("p < alpha; " if b.p < a else "") + "for reference only (sensitive to non-normal data)"])
-        nm = self.normality
+        rows.append(self._row(
+            "Bartlett", b, lambda: (b.statistic, b.df, b.p),
+            lambda: ("p < alpha; " if b.p < a else "") + "for reference only (sensitive to non-normal data)"))
         if nm is None:
-            rows.append(["Normal residuals", None, None, None, self._why("Normal residuals")])
+            rows.append(self._row("Normal residuals", None, None, None))
         else:
             rows.append([f"{nm.method} (residuals)", nm.statistic, None, nm.p,
                          (f"residuals look non-normal ({nm.n} residuals)" if nm.p < a
@@ -601,21 +588,14 @@ class ChecksResult:
         rows.append(["Smallest group size", self.smallest_n, None, None,
                      f"fewer than {SMALL_GROUP_N}" if self.smallest_n < SMALL_GROUP_N
                      else f"{SMALL_GROUP_N} or more"])
-        ow = self.oneway
         rows.append(["One-way F", ow.f, _df_text(ow.df_between, ow.df_within), ow.p,
                      "assumes equal variances and normal residuals"])
-        w = self.welch
-        if w is None:
-            rows.append(["Welch", None, None, None, self._why("Welch")])
-        else:
-            rows.append(["Welch", w.statistic, _df_text(w.df1, w.df2), w.p,
-                         "does not assume equal variances"])
-        kw = self.kruskal
-        if kw is None:
-            rows.append(["Kruskal-Wallis", None, None, None, self._why("Kruskal-Wallis")])
-        else:
-            rows.append(["Kruskal-Wallis", kw.statistic, kw.df, kw.p,
-                         "rank-based; does not assume normal residuals"])
+        rows.append(self._row(
+            "Welch", w, lambda: (w.statistic, _df_text(w.df1, w.df2), w.p),
+            lambda: "does not assume equal variances"))
+        rows.append(self._row(
+            "Kruskal-Wallis", kw, lambda: (kw.statistic, kw.df, kw.p),
+            lambda: "rank-based; does not assume normal residuals"))
         return rows
 
 
