@@ -40,6 +40,7 @@ import re
 import struct
 import warnings
 import zipfile
+import zlib
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from decimal import Decimal, InvalidOperation
@@ -368,7 +369,7 @@ def _mb(n: int) -> str:
 
 
 def _limit_hint(size_limit: int, needed: int) -> str:
-    mb = max(int(math.ceil(needed / 1024**2)) + 1, 1)
+    mb = max(int(math.ceil(needed / 1024**2)), 1)
     return f"if you trust the file, raise the limit (command line: --size-limit {mb})"
 
 
@@ -434,7 +435,7 @@ def check_archive(path: str | os.PathLike[str], size_limit: int = DEFAULT_SIZE_L
             f"sheetfuncs: {p.name} is damaged and cannot be read as a workbook ({e}); "
             "re-save or re-export it"
         ) from None
-    except (zipfile.LargeZipFile, NotImplementedError, EOFError, OSError) as e:
+    except (zipfile.LargeZipFile, NotImplementedError, EOFError, OSError, zlib.error) as e:
         if isinstance(e, (PermissionError, IsADirectoryError)):
             raise
         raise InputError(
@@ -583,7 +584,14 @@ def _defused_error(e: BaseException) -> bool:
         from defusedxml import DefusedXmlException
     except Exception:  # pragma: no cover
         return False
-    return isinstance(e, DefusedXmlException)
+    seen = 0
+    cur: BaseException | None = e
+    while cur is not None and seen < 20:  # openpyxl may wrap it in a ValueError
+        if isinstance(cur, DefusedXmlException):
+            return True
+        cur = cur.__cause__ or cur.__context__
+        seen += 1
+    return False
 
 
 def _damaged(name: str, e: BaseException) -> InputError:
