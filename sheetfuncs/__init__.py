@@ -46,3 +46,12 @@ __all__ += [
     "LeveneResult", "BartlettResult", "NormalityResult", "ChecksResult",
     "levene", "bartlett", "shapiro_residuals", "checks",
 ]
+
+from .effects import EffectSizes, effect_sizes  # noqa: E402
+from .power import PowerPlan, detectable_effect, plan, power, sample_size  # noqa: E402  (the function shadows the module name)
+from .varcomp import VarianceComponents, variance_components  # noqa: E402
+
+__all__ += [
+    "EffectSizes", "effect_sizes", "PowerPlan", "power", "sample_size", "detectable_effect", "plan",
+    "VarianceComponents", "variance_components",
+]
