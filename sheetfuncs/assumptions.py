@@ -611,6 +611,12 @@ def _p_text(p: float) -> str:
     return "p < 1e-300" if p < 1e-300 else f"p = {p:.3g}"
 
 
+def _sentence(text: str) -> str:
+    """The text with a closing full stop (it follows a colon in a reason)."""
+    text = text.strip()
+    return text if not text or text.endswith(".") else text + "."
+
+
 def _reason_of(err: InputError) -> str:
     msg = str(err)
     return msg[len("sheetfuncs: "):] if msg.startswith("sheetfuncs: ") else msg
@@ -673,7 +679,8 @@ def checks(groups: Any, alpha: float = 0.05, *, exact: bool | None = None) -> Ch
     ratio_flag = not math.isnan(ratio) and ratio > SD_RATIO_LIMIT
     if lev is None:
         reasons.append(
-            "Levene's test (median-centred) could not run: " + dict(missing)["Levene (median)"]
+            "Levene's test (median-centred) could not run: "
+            + _sentence(dict(missing)["Levene (median)"])
         )
     elif lev_flag:
         reasons.append(
@@ -688,10 +695,13 @@ def checks(groups: Any, alpha: float = 0.05, *, exact: bool | None = None) -> Ch
     if math.isnan(ratio):
         reasons.append("The ratio of the largest to the smallest group SD is undefined here.")
     elif ratio_flag:
-        shown = "infinite (a group has zero SD)" if math.isinf(ratio) else f"{ratio:.3g}"
+        if math.isinf(ratio):
+            shown = "A group has zero SD while others vary, so the ratio of the largest to the smallest SD is infinite"
+        else:
+            shown = f"The largest group SD is {ratio:.3g} times the smallest"
         reasons.append(
-            f"The largest group SD is {shown} times the smallest, more than "
-            f"{SD_RATIO_LIMIT:g} (a rule of thumb): the group variances look unequal."
+            f"{shown}, more than {SD_RATIO_LIMIT:g} (a rule of thumb): the group variances look "
+            "unequal."
         )
     else:
         reasons.append(
@@ -703,7 +713,8 @@ def checks(groups: Any, alpha: float = 0.05, *, exact: bool | None = None) -> Ch
     nonnormal = norm is not None and norm.p < a
     if norm is None:
         reasons.append(
-            "The normality of the residuals could not be tested: " + dict(missing)["Normal residuals"]
+            "The normality of the residuals could not be tested: "
+            + _sentence(dict(missing)["Normal residuals"])
         )
     else:
         reasons.append(
@@ -724,10 +735,10 @@ def checks(groups: Any, alpha: float = 0.05, *, exact: bool | None = None) -> Ch
     elif unequal:
         read = "oneway"
         reasons.append(
-            "The variances look unequal, but Welch's test could not run ("
-            + dict(missing)["Welch"].rstrip(".")
-            + "); the one-way F is shown, but with unequal variances its p-value may mislead: "
-            "look at the data of that group before relying on it."
+            "The variances look unequal, but Welch's test could not run: "
+            + _sentence(dict(missing)["Welch"])
+            + " The one-way F is shown instead, and with unequal variances its p-value may "
+            "mislead: look at the data of that group before relying on any result."
         )
     elif nonnormal and smallest < SMALL_GROUP_N and kw is not None:
         read = "kruskal"
@@ -745,9 +756,15 @@ def checks(groups: Any, alpha: float = 0.05, *, exact: bool | None = None) -> Ch
         )
     else:
         read = "oneway"
-        reasons.append(
-            f"No check suggests a problem: read the one-way F ({_p_text(ow.p)})."
-        )
+        if lev is None or norm is None:
+            reasons.append(
+                f"No check that could run suggests a problem: read the one-way F "
+                f"({_p_text(ow.p)}), keeping in mind the checks that could not run."
+            )
+        else:
+            reasons.append(
+                f"No check suggests a problem: read the one-way F ({_p_text(ow.p)})."
+            )
     return ChecksResult(
         read=read, reasons=tuple(reasons), variances_unequal=unequal,
         residuals_nonnormal=nonnormal, sd_ratio=ratio, smallest_n=smallest, alpha=a,
