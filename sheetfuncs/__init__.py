@@ -55,3 +55,7 @@ __all__ += [
     "EffectSizes", "effect_sizes", "PowerPlan", "power", "sample_size", "detectable_effect", "plan",
     "VarianceComponents", "variance_components",
 ]
+
+from .readers import CellBlock, LoadedGroups, read_cells, read_groups  # noqa: E402
+
+__all__ += ["CellBlock", "LoadedGroups", "read_cells", "read_groups"]
