@@ -162,6 +162,7 @@ def test_checks_with_a_group_of_one_value():
     assert c.normality.left_out == ("B",) and c.normality.n == 8
     assert c.kruskal is not None
     assert c.reasons[0].startswith("Levene's test (median-centred) could not run")
+    assert c.reasons[-1].startswith("No check that could run suggests a problem")
 
 
 def test_checks_without_enough_residuals():
