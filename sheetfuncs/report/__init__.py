@@ -1,0 +1,9 @@
+"""The headless report writer: a formatted result workbook from one set of core results.
+
+``write_report(groups, path, ...)`` writes the sheets Findings, Tables, Comparisons, Groups,
+Data (Data 2, ... beyond a sheet's row limit), Chart, Audit and About; see ``docs/report.md``.
+"""
+
+from ._writer import ROW_LIMIT, SHEET_ORDER, build_workbook, write_report
+
+__all__ = ["write_report", "build_workbook", "ROW_LIMIT", "SHEET_ORDER"]
