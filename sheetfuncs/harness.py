@@ -121,6 +121,7 @@ NA, DIV0, VALUE, REF, NAME, NUM, NULL, SPILL, CALC = (
 )
 
 _PLAIN = {float, type(None)}
+_PLAIN_OR_TEXT = {float, type(None), str}
 
 
 def host_value(v: Any) -> Any:
@@ -157,10 +158,10 @@ def _clean(v: Any, err_to_str: bool) -> Any:
 def _as_rows(value: Sequence[Any]) -> list[Sequence[Any]]:
     if not value:
         raise TypeError("a range needs at least one cell")
-    if not all(isinstance(r, (list, tuple)) for r in value):
+    if not set(map(type, value)) <= {list, tuple} and not all(isinstance(r, (list, tuple)) for r in value):
         raise TypeError("give a range as rows of cells, e.g. [[1.0, 2.0], [3.0, None]] (see column() and row())")
-    width = len(value[0])
-    if width == 0 or any(len(r) != width for r in value):
+    widths = set(map(len, value))
+    if len(widths) != 1 or 0 in widths:
         raise TypeError("a range is a rectangle: every row needs the same number of cells")
     return list(value)
 
@@ -172,7 +173,10 @@ def read_argument(value: Any, options: dict[str, Any]) -> Any:
         rows = _as_rows(value)
         types = set(map(type, chain.from_iterable(rows)))
         if types <= _PLAIN:
-            cleaned = [list(r) for r in rows]  # host value and cleaning leave these as they are
+            cleaned = list(map(list, rows))  # host value and cleaning leave these as they are
+        elif types <= _PLAIN_OR_TEXT:
+            # the same, except that an empty string is a blank
+            cleaned = [list(r) if "" not in r else [None if v == "" else v for v in r] for r in rows]
         else:
             cleaned = [[_clean(host_value(v), err_to_str) for v in r] for r in rows]
     else:
