@@ -7,7 +7,7 @@ Model: ``y_ij = mu + a_i + e_ij`` with lot (group) effects ``a_i ~ N(0, s_b^2)``
     n0 = (N - sum n_i^2 / N) / (k - 1)
 
 is the common group size when the sizes are equal (Searle, Casella & McCulloch 1992,
-*Variance Components*, 3.5-3.6). The ANOVA (method-of-moments) estimators are
+*Variance Components*, ch. 3). The ANOVA (method-of-moments) estimators are
 
     within   s_w^2 = MSW
     between  s_b^2 = (MSB - MSW) / n0, shown as 0 when negative (a note says so)
@@ -17,12 +17,12 @@ is the common group size when the sizes are equal (Searle, Casella & McCulloch 1
 Confidence intervals, two-sided at ``conf`` with a = (1 - conf)/2 in each tail:
 
 * within: exact chi-square interval ``(N - k) MSW / chi2`` (e.g. Burdick & Graybill 1992,
-  *Confidence Intervals on Variance Components*, 2.2);
+  *Confidence Intervals on Variance Components*, ch. 2);
 * between: the modified large-sample (MLS) interval of Ting, Burdick, Graybill, Jeyaratnam &
   Lu (1990) for a difference of expected mean squares, as recommended by Burdick & Graybill
   (1992, ch. 3) for the one-fold nested design;
 * total: the MLS interval of Graybill & Wang (1980) for a positive sum of expected mean squares;
-* ICC: the exact F-based interval (Searle 1971, *Linear Models*, 9.7; Shrout & Fleiss 1979,
+* ICC: the exact F-based interval (Searle 1971, *Linear Models*, ch. 9; Shrout & Fleiss 1979,
   ICC(1)), ``(F_L - 1) / (F_L + n0 - 1)`` with ``F_L = F / F(1 - a; k - 1, N - k)`` and
   likewise for the upper limit.
 
@@ -117,16 +117,22 @@ def _lower_chi2_ratio(q: float, df: int) -> float:
     return float(stats.chi2.ppf(q, df)) / df
 
 
+def _mls_constants(a: float, n1: int, n2: int) -> tuple[float, float, float, float]:
+    """G_q = 1 - 1/F(a; n_q, inf) and H_q = 1/F(1 - a; n_q, inf) - 1 for q = 1, 2 (Graybill & Wang 1980)."""
+    g1 = 1.0 - 1.0 / _upper_chi2_ratio(a, n1)
+    g2 = 1.0 - 1.0 / _upper_chi2_ratio(a, n2)
+    h1 = 1.0 / _lower_chi2_ratio(a, n1) - 1.0
+    h2 = 1.0 / _lower_chi2_ratio(a, n2) - 1.0
+    return g1, g2, h1, h2
+
+
 def _between_mls(s1: float, s2: float, n1: int, n2: int, n0: float, a: float) -> tuple[float, float]:
     """Ting et al. (1990) MLS interval for (theta1 - theta2)/n0 (Burdick & Graybill 1992, ch. 3).
 
     ``s1 = MSB`` estimates theta1 with n1 df, ``s2 = MSW`` estimates theta2 with n2 df; each
     tail has probability ``a``. F(a; u, v) below is the upper-a point.
     """
-    g1 = 1.0 - 1.0 / _upper_chi2_ratio(a, n1)
-    g2 = 1.0 - 1.0 / _upper_chi2_ratio(a, n2)
-    h1 = 1.0 / _lower_chi2_ratio(a, n1) - 1.0
-    h2 = 1.0 / _lower_chi2_ratio(a, n2) - 1.0
+    g1, g2, h1, h2 = _mls_constants(a, n1, n2)
     f_hi = f_critical(a, n1, n2)        # F(a; n1, n2)
     f_lo = f_critical(1.0 - a, n1, n2)  # F(1 - a; n1, n2)
     g12 = ((f_hi - 1.0) ** 2 - g1 * g1 * f_hi * f_hi - h2 * h2) / f_hi
@@ -142,10 +148,7 @@ def _between_mls(s1: float, s2: float, n1: int, n2: int, n0: float, a: float) ->
 def _total_mls(s1: float, s2: float, n1: int, n2: int, n0: float, a: float) -> tuple[float, float]:
     """Graybill & Wang (1980) MLS interval for theta1/n0 + (1 - 1/n0) theta2."""
     c1, c2 = 1.0 / n0, max(1.0 - 1.0 / n0, 0.0)
-    g1 = 1.0 - 1.0 / _upper_chi2_ratio(a, n1)
-    g2 = 1.0 - 1.0 / _upper_chi2_ratio(a, n2)
-    h1 = 1.0 / _lower_chi2_ratio(a, n1) - 1.0
-    h2 = 1.0 / _lower_chi2_ratio(a, n2) - 1.0
+    g1, g2, h1, h2 = _mls_constants(a, n1, n2)
     est = c1 * s1 + c2 * s2
     low = est - math.sqrt((g1 * c1 * s1) ** 2 + (g2 * c2 * s2) ** 2)
     high = est + math.sqrt((h1 * c1 * s1) ** 2 + (h2 * c2 * s2) ** 2)
