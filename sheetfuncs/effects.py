@@ -3,10 +3,10 @@
 From the one-way sums of squares (SSB between groups with k - 1 df, SSW within groups with
 N - k df, SST = SSB + SSW, MSW = SSW / (N - k)):
 
-* eta squared      eta^2 = SSB / SST                                 (Pearson 1905; Cohen 1988, 8.2)
+* eta squared      eta^2 = SSB / SST                                 (Pearson 1905; Cohen 1988, ch. 8)
 * omega squared    omega^2 = (SSB - (k - 1) MSW) / (SST + MSW)       (Hays 1963)
 * epsilon squared  epsilon^2 = (SSB - (k - 1) MSW) / SST             (Kelley 1935)
-* Cohen's f        f = sqrt(eta^2 / (1 - eta^2)) = sqrt(SSB / SSW)   (Cohen 1988, eq. 8.2.19)
+* Cohen's f        f = sqrt(eta^2 / (1 - eta^2)) = sqrt(SSB / SSW)   (Cohen 1988, ch. 8)
 
 omega^2 and epsilon^2 correct eta^2 for the chance spread of group means and can come out
 negative when F < 1; they are then shown as 0 and a note says so.

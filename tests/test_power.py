@@ -23,7 +23,7 @@ from sheetfuncs.power import (
 
 def _mp_ncf_sf(x: float, d1: float, d2: float, lam: float) -> float:
     """P(F' > x) as the Poisson mixture of central tails (Johnson, Kotz & Balakrishnan 1995,
-    *Continuous Univariate Distributions* 2, eq. 30.4), summed with mpmath at 40 digits."""
+    *Continuous Univariate Distributions* 2, ch. 30), summed with mpmath at 40 digits."""
     with mpmath.workdps(40):
         x, d1, d2, half = mpmath.mpf(x), mpmath.mpf(d1), mpmath.mpf(d2), mpmath.mpf(lam) / 2
         w = d2 / (d2 + d1 * x)  # tail of F(d1 + 2j, d2) at x is I_w(d2/2, d1/2 + j)

@@ -13,7 +13,7 @@ from sheetfuncs.varcomp import variance_components
 
 # Dyestuff: yield of dyestuff (g, standard colour) in five preparations from each of six
 # batches of an intermediate product; Davies (1947), *Statistical Methods in Research and
-# Production*, as analysed by Box & Tiao (1973), 5.1. Values from memory.
+# Production*, as analysed by Box & Tiao (1973), ch. 5. Values from memory.
 DYESTUFF = [
     [1545, 1440, 1440, 1520, 1580],
     [1540, 1555, 1490, 1560, 1495],
@@ -25,7 +25,7 @@ DYESTUFF = [
 
 
 def test_dyestuff_published_mean_squares_and_components():
-    # from memory: Box & Tiao (1973), 5.1: MS between batches 11271.5 (5 df), within 2451.25
+    # from memory: Box & Tiao (1973), ch. 5: MS between batches 11271.5 (5 df), within 2451.25
     # (24 df), so the ANOVA estimate of the between-batch variance is (11271.5 - 2451.25)/5
     v = variance_components(DYESTUFF)
     assert (v.df_between, v.df_within) == (5, 24)
@@ -57,7 +57,7 @@ def _shrout_fleiss_icc1(msb: float, msw: float, n0: float, d1: int, d2: int, con
 
 @pytest.mark.parametrize("seed", [3, 4, 5])
 def test_icc_interval_matches_shrout_fleiss(seed):
-    # textbook formula: Shrout & Fleiss (1979), Table 1 row ICC(1,1) (Searle 1971 9.7)
+    # textbook formula: Shrout & Fleiss (1979), case 1, ICC(1,1) (Searle 1971, ch. 9)
     rng = np.random.default_rng(seed)
     y = rng.normal(0, 1.5, (7, 1)) + rng.normal(0, 1.0, (7, 4))
     v = variance_components(list(y), conf=0.95)
@@ -70,7 +70,7 @@ def test_icc_interval_matches_shrout_fleiss(seed):
 
 
 def test_unbalanced_n0_and_estimates():
-    # Searle, Casella & McCulloch (1992), 3.6: n0 = (N - sum n_i^2 / N) / (k - 1); with sizes
+    # Searle, Casella & McCulloch (1992), ch. 3: n0 = (N - sum n_i^2 / N) / (k - 1); with sizes
     # 3, 5, 8: N = 16, sum n_i^2 = 98, n0 = (16 - 6.125) / 2 = 4.9375 (by hand)
     groups = [[10.1, 10.4, 9.8], [11.0, 11.3, 10.7, 11.1, 10.9], [9.5, 9.9, 9.7, 9.2, 9.8, 9.6, 9.4, 10.0]]
     v = variance_components(groups)
