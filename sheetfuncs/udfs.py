@@ -555,10 +555,19 @@ def SF_GROUPS(data: Any, layout: Any = None, labels: Any = None, conf: Any = Non
     return describe(groups_from_range(data, layout, labels), conf).table()
 
 
-_COUNTS = Arg("counts", "range", "The number of values in each group, one cell per group.")
+_COUNTS = Arg(
+    "counts", "range",
+    "The number of values in each group, one cell per group. A header cell on top of counts, "
+    "means and SDs is skipped.",
+)
 _MEANS = Arg("means", "range", "The mean of each group, in the same order.")
 _SDS = Arg("sds", "range", "The standard deviation (n - 1 divisor) of each group, in the same order.")
-_NAMES = Arg("names", "range", "Group names, in the same order (default Group 1, Group 2, ...).", default=None)
+_NAMES = Arg(
+    "names", "range",
+    "Group names, in the same order; checked to match the number of groups (the table itself "
+    "names no groups).",
+    default=None,
+)
 
 _SUMMARY_NOTE = (
     "Invented data: one reference material assayed by four labs (mg/kg); each lab reports its "
@@ -585,9 +594,20 @@ _SUMMARY_SHEET: tuple[tuple[Any, ...], ...] = (
     ),
 )
 def SF_FROMSTATS(counts: Any, means: Any, sds: Any, names: Any = None) -> Any:
-    return oneway_from_summary(
-        _column(counts, _COUNTS), _column(means, _MEANS), _column(sds, _SDS), _column(names, _NAMES)
-    ).table()
+    cols = [_column(counts, _COUNTS), _column(means, _MEANS), _column(sds, _SDS), _column(names, _NAMES)]
+    return oneway_from_summary(*_without_headers(cols)).table()
+
+
+def _without_headers(cols: list[list[Any] | None]) -> list[list[Any] | None]:
+    """Summary columns selected with their header cells: when counts, means and SDs all start
+    with text, that first row is a header row (of the names too, when they are as long)."""
+    counts, means, sds, names = cols
+    assert counts is not None and means is not None and sds is not None
+    if not all(c and isinstance(c[0], str) for c in (counts, means, sds)):
+        return cols
+    if names is not None and len(names) == len(counts):
+        names = names[1:]
+    return [counts[1:], means[1:], sds[1:], names]
 
 
 # linear tests -------------------------------------------------------------------------------
@@ -751,7 +771,9 @@ spreadsheet").
   logical values are ignored; a column (or row) that is entirely blank is ignored. `layout` is
   `"wide"` (one group per column, the default), `"long"` (two columns: group label, value) or
   `"rowwise"` (one group per row). `labels` is `"auto"` (the first row, or first column when
-  rowwise, holds labels when all its non-blank cells are text), TRUE or FALSE.
+  rowwise, holds labels when all its non-blank cells are text), TRUE or FALSE. Point at the
+  block that holds the data (or at a table column): a whole-column reference such as `A:C` works
+  but makes every recalculation read a million rows per column.
 * **Tables spill** with one header row, so a chart or `INDEX()` can point at them. Spilling needs
   a host with dynamic arrays; in older hosts select the output block first and enter the formula
   as an array formula (Ctrl+Shift+Enter).

@@ -354,6 +354,14 @@ def test_numeric_labels_with_labels_true() -> None:
     assert call("SF_GROUPS", data, MISSING, "auto") != out  # auto: numbers are data
 
 
+def test_dates_as_labels_are_iso_dates() -> None:
+    # GUIDE.md: a date in a label position is written as an ISO date (here: one group per shift day)
+    data = wide(GROUPS)
+    data[0] = [dt.date(2024, 3, 1), dt.datetime(2024, 3, 2), dt.date(2024, 3, 4)]
+    out = call("SF_GROUPS", data, MISSING, True)
+    assert [r[0] for r in out[1:]] == ["2024-03-01", "2024-03-02", "2024-03-04"]
+
+
 def test_options_as_cells() -> None:
     data = wide(GROUPS)
     # a blank option cell means the default; text options are trimmed
@@ -406,6 +414,10 @@ def test_fromstats_equals_core_and_raw_data() -> None:
     assert call("SF_FROMSTATS", [counts + [None]], [means], column(sds + [None])) == shown(
         sf.oneway_from_summary(counts, means, sds).table()
     )
+    # selected with their header cells (common practice: a QA sheet keeps a header row)
+    assert call("SF_FROMSTATS", column(["n"] + counts), column(["Mean"] + means), column(["SD"] + sds),
+                column(["Line"] + list(GROUPS))) == expected
+    assert is_message(call("SF_FROMSTATS", column(counts), column(means), column(sds), column(["A", "B"])))
     raw = sf.oneway(GROUPS)
     assert got[1][4] == pytest.approx(raw.f, rel=1e-12)
     assert got[2][2] == pytest.approx(raw.ss_within, rel=1e-12)

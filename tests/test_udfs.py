@@ -107,6 +107,28 @@ def test_python_signature_is_what_xlwings_reads(name: str) -> None:
     assert set(hints.values()) <= {Any}
 
 
+# VBA keywords and statement names (from memory), plus "caller", which xlwings fills in itself:
+# xlwings writes each argument name into the signature of a generated VBA function.
+VBA_RESERVED = {
+    "and", "as", "boolean", "byref", "byval", "call", "case", "close", "const", "currency", "date",
+    "declare", "dim", "do", "double", "each", "else", "end", "enum", "erase", "error", "event",
+    "exit", "false", "for", "function", "get", "global", "gosub", "goto", "if", "imp", "in",
+    "input", "integer", "is", "len", "let", "like", "line", "lock", "long", "loop", "me", "mid",
+    "mod", "name", "new", "next", "not", "nothing", "null", "object", "on", "open", "option",
+    "optional", "or", "paramarray", "preserve", "print", "private", "property", "public", "put",
+    "redim", "rem", "resume", "return", "seek", "select", "set", "single", "static", "step",
+    "stop", "string", "sub", "then", "time", "to", "true", "type", "until", "variant", "wend",
+    "while", "with", "write", "xor", "caller",
+}
+
+
+@pytest.mark.parametrize("name", sorted(REGISTRY))
+def test_argument_names_are_safe_in_the_generated_vba(name: str) -> None:
+    for a in REGISTRY[name].args:
+        assert a.name.isascii() and a.name.isidentifier() and len(a.name) <= 31
+        assert a.name.lower() not in VBA_RESERVED
+
+
 class _Recorder:
     """Stands in for the xlwings module and records how the decorators are applied."""
 
