@@ -59,3 +59,8 @@ __all__ += [
 from .readers import CellBlock, LoadedGroups, read_cells, read_groups  # noqa: E402
 
 __all__ += ["CellBlock", "LoadedGroups", "read_cells", "read_groups"]
+
+from .pairwise import PairRow, PairwiseResult, dunnett, pairwise  # noqa: E402  (functions shadow their module names)
+from .letters import LettersResult, letters  # noqa: E402
+
+__all__ += ["PairRow", "PairwiseResult", "pairwise", "dunnett", "LettersResult", "letters"]
