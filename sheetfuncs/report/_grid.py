@@ -325,6 +325,9 @@ def make_cell(ws: Any, value: Any, style: Style = PLAIN, comment: str | None = N
         cell = WriteOnlyCell(ws, value=None)
         cell.value = safe_text(value)
         cell.data_type = "s"
+    elif isinstance(value, float):
+        cell = WriteOnlyCell(ws)
+        set_float(cell, value)
     else:
         cell = WriteOnlyCell(ws, value=value)
     if style != PLAIN:
@@ -334,6 +337,16 @@ def make_cell(ws: Any, value: Any, style: Style = PLAIN, comment: str | None = N
         note.width, note.height = 260, 90
         cell.comment = note
     return cell
+
+
+def set_float(cell: Any, value: float) -> None:
+    """Store a finite float so that it reads back as the same double.
+
+    openpyxl writes numbers with 16 significant digits, which does not always round-trip;
+    the shortest round-trip form (``repr``) always does, and it is a valid number in the file.
+    """
+    cell._value = repr(value)
+    cell.data_type = "n"
 
 
 def text_cell(ws: Any, value: str, style: Style = PLAIN) -> Any:

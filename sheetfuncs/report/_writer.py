@@ -139,15 +139,17 @@ def _write_data(wb: Workbook, sheets: list[Any], an: Analysis, layout: DataLayou
         label_cells = [make_cell(ws, lab, _LABEL) for lab in an.groups.labels]
         vcell = WriteOnlyCell(ws)
         apply_style(vcell, Style(num=vfmt))
+        vcell.data_type = "n"
         ccell = WriteOnlyCell(ws)
         apply_style(ccell, Style(num=vfmt))
+        ccell.data_type = "n"
         rows_here = min(cap, max(total - s * cap, 0))
         logs_here = min(cap, max(len(log) - s * cap, 0))
         append = ws.append
         for i in range(rows_here):
             gi, v, c = next(it)
-            vcell.value = v
-            ccell.value = c
+            vcell._value = repr(v)  # the shortest round-trip form (see _grid.set_float)
+            ccell._value = repr(c)
             if li < len(log) and i < logs_here:
                 addr, kind, content, action = log[li]
                 li += 1
