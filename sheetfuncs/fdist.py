@@ -12,15 +12,16 @@ threshold, so there the tail is evaluated in log space: ``I_w(a, b) = exp(L) * C
     L = a ln w + b ln(1 - w) - ln a - ln B(a, b),
 
 where ``ln w = -log1p(r)`` and ``ln(1 - w) = -log1p(1/r)`` for ``r = d1 x / d2`` (no
-cancellation), ``ln B`` comes from Stirling's series with its correction terms (the form used
-by Morris' and Ross' log-beta algorithms), and ``CF`` is the continued fraction of DLMF 8.17.22
-evaluated by the modified Lentz method. The result keeps its relative accuracy down to the
-smallest normal double; the rounding of ``r`` itself moves the tail by about ``a * 2.2e-16`` in
-relative terms, which no evaluation can avoid.
+cancellation), ``ln B`` comes from Stirling's series (DLMF 5.11.1) written so that the large
+terms cancel analytically, and ``CF`` is the continued fraction of DLMF 8.17.22 evaluated by the
+modified Lentz method. The result keeps a relative accuracy of about 1e-13 down to the smallest
+normal double (a logarithm near -690 is itself only known to 1.1e-13); the rounding of ``r``
+moves the tail by about ``a * 1.1e-16`` in relative terms, which no evaluation from a double
+``x`` can avoid.
 
-Critical values invert the tail: ``scipy.special.betaincinv`` gives a first value, which is
-accepted when it reproduces ``alpha`` through :func:`f_tail`; otherwise (far tails, where that
-inverse can fail) the root of ``ln f_tail(x) = ln alpha`` is found by bracketing in ``ln x``.
+Critical values invert the tail: ``scipy.special.betaincinv`` gives a first value, which Newton's
+method on ``ln f_tail(e^t) = ln alpha`` polishes with :func:`f_tail` and the density; where that
+inverse fails (far tails) the root is bracketed in ``ln x`` and found by Brent's method.
 """
 
 from __future__ import annotations

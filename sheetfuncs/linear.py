@@ -207,7 +207,8 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
         est = float(est_x)
         se = math.sqrt(float(var_x))
     else:
-        est = math.fsum(wi * mom.mean(i) for i, wi in enumerate(w))
+        diffs = mom.mean_differences(0)  # sum(w) is ~0, so the common part cancels exactly
+        est = math.fsum(wi * diffs[i] for i, wi in enumerate(w)) + total * mom.mean(0)
         se = math.sqrt(float(ssw) / df * math.fsum(wi * wi / g.counts[i] for i, wi in enumerate(w)))
     if se == 0:
         if est == 0:

@@ -82,6 +82,14 @@ class ExactMoments:
     def means(self) -> tuple[Fraction, ...]:
         return tuple(self.mean(g) for g in range(len(self.n)))
 
+    def mean_differences(self, ref: int = 0) -> tuple[Fraction, ...]:
+        """``mean(g) - mean(ref)`` for every group, exactly."""
+        return tuple(
+            Fraction(self.s[g] * self.n[ref] - self.s[ref] * self.n[g], self.n[g] * self.n[ref])
+            / self.denom
+            for g in range(len(self.n))
+        )
+
     def ss_within_parts(self, parts: Sequence[Sequence[int]]) -> Fraction:
         """Sum of squares about the part means, the groups of each part sharing one mean."""
         total = Fraction(0)
@@ -98,11 +106,19 @@ class ExactMoments:
 
 @dataclass(frozen=True)
 class FloatMoments:
-    """Floating-point moments: count, mean and sum of squared deviations per group."""
+    """Floating-point moments: count, mean and sum of squared deviations per group.
+
+    ``mean_`` holds the group means; ``dev`` holds the same means minus one common ``shift``
+    (a double near the data), accurate to the last bits even when the data share many leading
+    digits, so that differences between means (and the between-group sum of squares) keep
+    their accuracy where ``mean_[i] - mean_[j]`` would cancel.
+    """
 
     n: tuple[int, ...]
     mean_: tuple[float, ...]
     m2: tuple[float, ...]
+    shift: float = 0.0
+    dev: tuple[float, ...] | None = None
 
     exact = False
 
@@ -112,12 +128,25 @@ class FloatMoments:
     def mean(self, g: int) -> float:
         return self.mean_[g]
 
+    def deviations(self) -> tuple[float, ...]:
+        """Group means minus :attr:`shift`, accurate (see the class docstring)."""
+        if self.dev is not None:
+            return self.dev
+        return tuple(m - self.shift for m in self.mean_)
+
+    def mean_differences(self, ref: int = 0) -> tuple[float, ...]:
+        """``mean(g) - mean(ref)`` for every group, without cancellation."""
+        d = self.deviations()
+        return tuple(x - d[ref] for x in d)
+
     def ss_within_parts(self, parts: Sequence[Sequence[int]]) -> float:
+        """Sum of squares about the part means, the groups of each part sharing one mean."""
+        d = self.deviations()
         total = 0.0
         for p in parts:
             n = sum(self.n[g] for g in p)
-            m = math.fsum(self.n[g] * self.mean_[g] for g in p) / n
-            total += math.fsum([self.m2[g] for g in p] + [self.n[g] * (self.mean_[g] - m) ** 2 for g in p])
+            m = math.fsum(self.n[g] * d[g] for g in p) / n
+            total += math.fsum([self.m2[g] for g in p] + [self.n[g] * (d[g] - m) ** 2 for g in p])
         return total
 
     def ss_group(self, g: int) -> float:
@@ -128,13 +157,22 @@ class FloatMoments:
 
 
 def _float_moments(arrays: Sequence[np.ndarray]) -> FloatMoments:
-    ns, means, m2s = [], [], []
+    """Per group: ``t = mean(x)`` in floats, then ``e = x - t``, ``M2 = sum(e^2) - sum(e)^2/n``.
+
+    The group mean is ``t + sum(e)/n``; its distance from the common shift (the first group's
+    ``t``) is ``(t - shift) + sum(e)/n``, where ``t - shift`` is exact for nearby doubles
+    (Sterbenz' lemma), so differences between group means lose nothing to shared leading digits.
+    """
+    ns, means, m2s, devs = [], [], [], []
+    shift = None
+    buf = np.empty(min(max((a.size for a in arrays), default=1), _CHUNK))
     for a in arrays:
         n = a.size
         m0 = float(np.mean(a))
+        if shift is None:
+            shift = m0
         sd = 0.0
         sq = 0.0
-        buf = np.empty(min(n, _CHUNK))
         for i in range(0, n, _CHUNK):
             x = a[i : i + _CHUNK]
             d = buf[: x.size]
@@ -143,8 +181,9 @@ def _float_moments(arrays: Sequence[np.ndarray]) -> FloatMoments:
             sq += float(np.dot(d, d))
         ns.append(int(n))
         means.append(m0 + sd / n)
+        devs.append((m0 - shift) + sd / n)
         m2s.append(max(sq - sd * sd / n, 0.0))
-    return FloatMoments(tuple(ns), tuple(means), tuple(m2s))
+    return FloatMoments(tuple(ns), tuple(means), tuple(m2s), float(shift or 0.0), tuple(devs))
 
 
 class _NotExact(Exception):

@@ -149,9 +149,10 @@ def oneway_from_moments(g: Groups, mom: ExactMoments | FloatMoments) -> OneWayRe
         means = tuple(float(m) for m in mom.means())
     else:
         means = mom.means()
+        dev = mom.deviations()  # means minus a common shift, without cancellation
         n = sum(mom.n)
-        grand = math.fsum(c * m for c, m in zip(mom.n, means)) / n
-        ssb = math.fsum(c * (m - grand) ** 2 for c, m in zip(mom.n, means))
+        grand = math.fsum(c * m for c, m in zip(mom.n, dev)) / n
+        ssb = math.fsum(c * (m - grand) ** 2 for c, m in zip(mom.n, dev))
         sst = ssb + ssw
     return _finish(g.labels, g.counts, means, ssb, ssw, sst, mom.exact)
 
