@@ -174,6 +174,7 @@ class _Progress:
         self._last = 0.0
         self._stage = ""
         self._dirty = False
+        self._text = ""
 
     def start(self, index: int, name: str) -> None:
         self.label = f"[{index}/{self.batch}] {name}" if self.batch > 1 else name
@@ -199,11 +200,14 @@ class _Progress:
         self._emit(text, force=bool(force))
 
     def _emit(self, text: str, force: bool = False) -> None:
+        if text == self._text:
+            return
         now = time.monotonic()
         gap = 0.2 if self.tty else 1.0
         if not force and now - self._last < gap:
             return
         self._last = now
+        self._text = text
         if self.tty:
             self.stream.write("\r" + text[:100].ljust(100))
             self._dirty = True

@@ -768,21 +768,23 @@ def _sheet_rows(ws, ref: RangeRef | None, known, progress: Progress | None, file
         r += 1
         if r2 is not None and r > r2:
             break
-        vals = []
-        for j, cell in enumerate(cells):
-            if isinstance(cell, EmptyCell):
-                vals.append(None)
-                continue
-            v = cell.value
-            if v is None and cell.data_type not in ("s", "str", "inlineStr"):
-                suspects.append((r, c1 + j))
-            if isinstance(v, _dt.timedelta):
-                raise InputError(
-                    f"sheetfuncs: a duration (time) value at {_addr(ws.title, r, c1 + j)} of "
-                    f"{file_name}; durations are not read as measurements: convert them to "
-                    "numbers (e.g. minutes) in the sheet"
-                )
-            vals.append(v)
+        vals = [cell.value for cell in cells]
+        types = set(map(type, vals))
+        if _NONE in types:  # cells that exist but hold nothing may be unsaved formulas
+            for j, v in enumerate(vals):
+                if v is None:
+                    cell = cells[j]
+                    if not isinstance(cell, EmptyCell) and cell.data_type not in _TEXT_TYPES:
+                        suspects.append((r, c1 + j))
+        if _dt.timedelta in types:
+            j = next(j for j, v in enumerate(vals) if isinstance(v, _dt.timedelta))
+            raise InputError(
+                f"sheetfuncs: a duration (time) value at {_addr(ws.title, r, c1 + j)} of "
+                f"{file_name}; durations are not read as measurements: convert them to "
+                "numbers (e.g. minutes) in the sheet"
+            )
+        if int in types:  # whole numbers saved without a decimal point: the same doubles
+            vals = [float(v) if type(v) is int and abs(v) <= _EXACT_INT else v for v in vals]
         rows.append(tuple(vals))
         done += len(vals)
         if progress is not None and done >= next_report:
@@ -793,6 +795,11 @@ def _sheet_rows(ws, ref: RangeRef | None, known, progress: Progress | None, file
     return _trim(rows, r1, c1, ref, suspects)
 
 
+_NONE = type(None)
+_TEXT_TYPES = ("s", "str", "inlineStr")
+_EXACT_INT = 2**53
+
+
 def _addr(sheet: str | None, row: int, col: int) -> str:
     return InputSource(sheet=sheet).full_address(row - 1, col - 1)
 
@@ -801,30 +808,50 @@ def _blank(v: Any) -> bool:
     return v is None or (isinstance(v, str) and v == "")
 
 
+def _row_span(row: tuple[Any, ...]) -> tuple[int, int] | None:
+    """First and last non-blank positions of a row, ``None`` when it is all blank."""
+    n = len(row)
+    if n == 0:
+        return None
+    if not _blank(row[0]) and not _blank(row[-1]):
+        return 0, n - 1
+    first = next((j for j, v in enumerate(row) if not _blank(v)), None)
+    if first is None:
+        return None
+    last = next(j for j in range(n - 1, -1, -1) if not _blank(row[j]))
+    return first, last
+
+
 def _trim(rows: list[tuple[Any, ...]], r1: int, c1: int, ref: RangeRef | None, suspects):
-    """Drop blank margins (all four sides for the used range; trailing only for a range)."""
+    """Drop blank margins (all four sides for the used range; trailing only for a range).
+
+    Returns ``(rows, suspects inside, first row, first column)`` (sheet numbers, 1-based).
+    """
     width = max((len(r) for r in rows), default=0)
     if ref is not None and ref.max_col is not None:
         width = max(width, ref.max_col - ref.min_col + 1)
-    used_rows = [i for i, row in enumerate(rows) if any(not _blank(v) for v in row)]
-    sus_rows = {r - r1 for r, _ in suspects}
-    keep_rows = sorted(set(used_rows) | sus_rows)
-    if not keep_rows:
+    spans = {i: sp for i, row in enumerate(rows) if (sp := _row_span(row)) is not None}
+    for r, c in suspects:
+        i, j = r - r1, c - c1
+        lo, hi = spans.get(i, (j, j))
+        spans[i] = (min(lo, j), max(hi, j))
+    if not spans:
         return [], [], r1, c1
-    used_cols = {j for row in rows for j, v in enumerate(row) if not _blank(v)}
-    used_cols |= {c - c1 for _, c in suspects}
     if ref is None:
-        top, bottom = keep_rows[0], keep_rows[-1]
-        left, right = min(used_cols), max(used_cols)
+        top, bottom = min(spans), max(spans)
+        left = min(sp[0] for sp in spans.values())
+        right = max(sp[1] for sp in spans.values())
     else:
         top, left = 0, 0
-        bottom = keep_rows[-1]
-        right = width - 1 if ref.max_col is not None else max(used_cols)
+        bottom = max(spans)
+        right = width - 1 if ref.max_col is not None else max(sp[1] for sp in spans.values())
     out = []
+    full = right - left + 1
     for row in rows[top:bottom + 1]:
-        row = row[left:right + 1]
-        if len(row) < right - left + 1:
-            row = row + (None,) * (right - left + 1 - len(row))
+        if left or len(row) != full:
+            row = row[left:right + 1]
+            if len(row) < full:
+                row = row + (None,) * (full - len(row))
         out.append(row)
     inside = [
         (r, c) for r, c in suspects
@@ -961,6 +988,7 @@ _AMBIG_POINT = re.compile(r"^\d{1,3}(?:,\d{3})+$")       # 1,234: thousands or d
 _AMBIG_COMMA = re.compile(r"^\d{1,3}(?:\.\d{3})+$")      # 1.234 with decimal comma
 _OTHER_POINT = re.compile(r"^(?:\d+,\d+|,\d+)(?:[eE][+-]?\d+)?$")   # decimal comma number
 _OTHER_COMMA = re.compile(r"^(?:\d+\.\d+|\.\d+)(?:[eE][+-]?\d+)?$")  # decimal point number
+_PLAIN_NUMBER = re.compile(r"-?[0-9]+(?:\.[0-9]+)?(?:[eE][+-]?[0-9]+)?\Z")
 _ISO_DATE = re.compile(
     r"^(\d{4})-(\d{2})-(\d{2})(?:[ T](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d{1,6}))?)?)?$"
 )
@@ -1040,6 +1068,8 @@ def csv_value(text: str, decimal_comma: bool = False) -> Any:
     -> the text unchanged (a field like ``=1+2`` stays text: nothing is ever evaluated).
     Raises ``ValueError`` for a number that could be read two ways.
     """
+    if not decimal_comma and _PLAIN_NUMBER.match(text):
+        return float(text)  # the common case; float() rounds correctly, as Decimal would
     s = text.strip()
     if s == "":
         return None
@@ -1125,13 +1155,12 @@ def _read_csv(
     c1 = ref.min_col if ref else 1
     r2 = ref.max_row if ref else None
     c2 = ref.max_col if ref else None
-    total = text.count("\n") + 1
+    lines = text.count("\n") + 1
     rows: list[tuple[Any, ...]] = []
     step = max(_PROGRESS_STEP // 4, 1)
-    if progress is not None:
-        progress("reading", 0, total)
     reader = csv.reader(io.StringIO(text, newline=""), delimiter=delimiter)
     r = 0
+    width = 0  # fields per record, from the first one read: progress counts cells
     try:
         for rec in reader:
             r += 1
@@ -1140,6 +1169,9 @@ def _read_csv(
             if r2 is not None and r > r2:
                 break
             fields = rec[c1 - 1:c2] if c2 is not None else rec[c1 - 1:]
+            if not width and progress is not None:
+                width = max(len(fields), 1)
+                progress("reading", 0, lines * width)
             vals = []
             for j, field in enumerate(fields):
                 try:
@@ -1149,14 +1181,14 @@ def _read_csv(
                     raise InputError(_ambiguity_message(p, where, field.strip(), e.why)) from None
             rows.append(tuple(vals))
             if progress is not None and r % step == 0:
-                progress("reading", reader.line_num, total)
+                progress("reading", min(reader.line_num, lines) * width, lines * width)
     except csv.Error as e:
         raise InputError(
             f"sheetfuncs: {p.name} is not well-formed CSV near line {reader.line_num} ({e}); "
             "check its quotes"
         ) from None
     if progress is not None:
-        progress("reading", total, total)
+        progress("reading", lines * max(width, 1), lines * max(width, 1))
     suspects: list[tuple[int, int]] = []
     if ref is None:
         trimmed, _, fr, fc = _trim(rows, r1, c1, None, suspects)
