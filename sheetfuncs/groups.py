@@ -240,8 +240,8 @@ def _bad_number_message(v: float, where: str) -> str:
 # ranges
 
 
-def _as_rows(cells: Any) -> list[tuple]:
-    """The range as a rectangular list of row tuples (ragged rows are padded with blanks)."""
+def _as_rows(cells: Any) -> list[Sequence[Any]]:
+    """The range as a rectangular list of rows (ragged rows become tuples padded with blanks)."""
     if isinstance(cells, np.ndarray):
         if cells.ndim == 1:
             return [(v,) for v in cells.tolist()]
@@ -255,6 +255,8 @@ def _as_rows(cells: Any) -> list[tuple]:
     rows = list(cells)
     if not rows:
         return []
+    if set(map(type, rows)) <= {list, tuple} and len(set(map(len, rows))) == 1:
+        return rows  # the usual case, a rectangle of rows: read as they are, never modified
     if all(not isinstance(r, (Sequence, np.ndarray)) or isinstance(r, str) for r in rows):
         # a flat list of cells: one column
         return [(v,) for v in rows]
