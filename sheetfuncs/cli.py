@@ -58,6 +58,12 @@ def _positive_mb(text: str) -> float:
     return v
 
 
+def _methods() -> tuple[str, ...]:
+    from .pairwise import METHODS
+
+    return tuple(METHODS)
+
+
 def _add_read_options(p: argparse.ArgumentParser) -> None:
     g = p.add_argument_group("reading the input")
     g.add_argument("--sheet", metavar="NAME", help="worksheet to read (default: the first)")
@@ -108,7 +114,8 @@ def build_parser() -> argparse.ArgumentParser:
     a = rep.add_argument_group("analysis")
     a.add_argument("--alpha", type=float, default=0.05, help="significance level (default 0.05)")
     a.add_argument("--method", default="tukey",
-                   help="pairwise comparison method (default tukey)")
+                   help="pairwise comparison method: " + ", ".join(_methods())
+                        + " (default tukey)")
     a.add_argument("--control", metavar="LABEL", help="control group: adds Dunnett's comparisons")
     a.add_argument("--factor", default="Factor", metavar="NAME", help="name of the factor")
     a.add_argument("--response", default="Response", metavar="NAME",
@@ -310,7 +317,12 @@ def _report_outputs(args: argparse.Namespace) -> list[tuple[Path, Path]]:
 
 
 def _cmd_report(args: argparse.Namespace) -> int:
+    from .pairwise import parse_method
+    from .validate import check_alpha
+
     pairs = _report_outputs(args)
+    check_alpha(args.alpha)  # options first: one message, before any file is read
+    parse_method(args.method)
     if args.out_dir is not None:
         folder = Path(args.out_dir)
         if folder.exists() and not folder.is_dir():

@@ -426,9 +426,8 @@ def check_archive(path: str | os.PathLike[str], size_limit: int = DEFAULT_SIZE_L
                     f"sheetfuncs: {p.name} is a zip archive but not a workbook (no "
                     "[Content_Types].xml); check that it is the right file"
                 )
-            for info in infos:
-                low = info.filename.lower()
-                if low.endswith((".xml", ".rels", ".vml")) and _has_doctype(zf, info):
+            for info in infos:  # every part: a relationship may point at any name
+                if not info.is_dir() and _has_doctype(zf, info):
                     raise InputError(_bomb_message(p.name, info.filename))
     except zipfile.BadZipFile as e:
         raise InputError(
@@ -456,6 +455,7 @@ def _looks_like_text(p: Path) -> bool:
 
 
 _PROLOG_CHUNK = 16 * 1024
+_PROLOG_MAX = 1024 * 1024
 
 
 def _has_doctype(zf: zipfile.ZipFile, info: zipfile.ZipInfo) -> bool:
@@ -475,8 +475,8 @@ def _has_doctype(zf: zipfile.ZipFile, info: zipfile.ZipInfo) -> bool:
             if state == "root":
                 return False
             more = fh.read(_PROLOG_CHUNK)
-            if not more:
-                return False
+            if not more or len(buf) - pos > _PROLOG_MAX:
+                return False  # beyond any real prolog: defusedxml still guards the parse
             buf = buf[pos:] + dec.decode(more)
             pos = 0
 

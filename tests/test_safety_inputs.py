@@ -89,6 +89,17 @@ def test_bomb_behind_comments_and_utf16_is_still_found(tmp_path):
         read_cells(path)
 
 
+def test_bomb_behind_a_huge_comment_is_refused_by_defusedxml(tmp_path):
+    # the prolog scan stops after 1 MB; the defused parser behind it still refuses
+    src = _book(tmp_path, "clean.xlsx")
+    xml = sheet_xml(src)
+    dtd, _ = _laughs(2)
+    padded = "<!--" + "x" * (1024 * 1024 + 100) + "-->" + dtd + xml
+    path = patch_zip(src, tmp_path / "deep.xlsx", {SHEET: padded.encode()})
+    with pytest.raises(InputError, match=r"^sheetfuncs: deep\.xlsx contains an XML document type declaration"):
+        read_cells(path)
+
+
 def test_defusedxml_inside_openpyxl_refuses_a_bomb_the_scan_missed(tmp_path, monkeypatch):
     from defusedxml import DefusedXmlException
 
