@@ -361,6 +361,8 @@ def _report_one(args, inp: Path, out: Path, inputs: Sequence[Path], prog: _Progr
             f"sheetfuncs: the folder {out.parent} does not exist; create it or choose another "
             "output"
         )
+    if out.is_dir():
+        raise InputError(f"sheetfuncs: {out} is a folder; give the report a file name (.xlsx)")
     if out.exists() and not args.force:
         raise InputError(
             f"sheetfuncs: {out} already exists and is kept; add --force to replace it"
