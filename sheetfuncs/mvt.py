@@ -149,10 +149,13 @@ def _scale_mixture(tail: Callable[[float], float], c: float, df: float) -> float
 def _solve(tail: Callable[[float], float], alpha: float, lo: float, hi: float) -> float:
     """The c with ``tail(c) = alpha``, tail decreasing, bracketed by ``[lo, hi]``."""
     target = math.log(alpha)
+    seen: dict[float, float] = {}
 
-    def f(c: float) -> float:
-        p = tail(c)
-        return (math.log(p) if p > 0 else -1e308) - target
+    def f(c: float) -> float:  # remembered: the bracket checks and Brent share end points
+        if c not in seen:
+            p = tail(c)
+            seen[c] = (math.log(p) if p > 0 else -1e308) - target
+        return seen[c]
 
     for _ in range(60):
         if f(lo) > 0:

@@ -81,6 +81,11 @@ _STATISTIC = {
 
 _SQRT2 = math.sqrt(2.0)
 
+_NO_VARIATION = (
+    "there is no variation within the groups, so every difference between different means is "
+    "infinitely many standard errors; check that the data are measurements"
+)
+
 
 def parse_method(method: Any) -> str:
     """The canonical method name, or an :class:`InputError` that lists the methods."""
@@ -324,10 +329,7 @@ def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> Pairwis
 
     mse, df, mse_x = _pooled(g, mom)
     if mse == 0.0:
-        notes.append(
-            "there is no variation within the groups, so every difference between different "
-            "means is infinitely many standard errors; check that the data are measurements"
-        )
+        notes.append(_NO_VARIATION)
     ses = [_se(mse, mse_x, g.counts[i], g.counts[j]) for i, j in pairs]
     ts = [_ratio(d, se) for d, se in zip(diffs, ses)]
 
@@ -401,6 +403,11 @@ def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
     g = as_groups(groups)
     require_two_groups(g)
     lab = format_label(control) if control is not None else ""
+    if lab == "":
+        raise InputError(
+            "sheetfuncs: no control group given; give the label of the group the others are "
+            "compared with"
+        )
     if lab not in g.labels:
         shown = ", ".join(f'"{x}"' for x in g.labels[:12]) + (", ..." if g.k > 12 else "")
         raise InputError(
@@ -413,10 +420,7 @@ def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
     mse, df, mse_x = _pooled(g, mom)
     notes: list[str] = []
     if mse == 0.0:
-        notes.append(
-            "there is no variation within the groups, so every difference between different "
-            "means is infinitely many standard errors; check that the data are measurements"
-        )
+        notes.append(_NO_VARIATION)
     treat = [i for i in range(g.k) if i != c]
     n0 = g.counts[c]
     lam = [math.sqrt(g.counts[i] / (g.counts[i] + n0)) for i in treat]

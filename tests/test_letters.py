@@ -190,3 +190,9 @@ def test_letters_on_random_data_follow_the_method(data, method):
     differ = {frozenset((r.group_a, r.group_b)) for r in pairwise(data, method).rows if r.differs}
     for i, j in itertools.combinations(range(len(labs)), 2):
         assert shares(strings, i, j) == (frozenset((labs[i], labs[j])) not in differ)
+
+
+def test_the_documented_example_matches():
+    # source: the worked example of docs/comparisons.md (keeps the page and the code in step)
+    res = letters(SUPPLIERS, "games-howell")
+    assert dict(res) == {"North": "ab", "Harbour": "c", "Valley": "a", "Ridge": "b", "Mill": "d"}
