@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import argparse
 import cProfile
+import gc
 import pstats
 import sys
 import time
@@ -32,18 +33,22 @@ sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 from sheetfuncs import harness, oneway, udfs  # noqa: E402
 
 
-def best_of(f: Callable[[], object], budget: float = 0.6, repeats: int = 7) -> float:
-    """Best time of one call, in seconds (each repeat loops until it has run ~budget/repeats)."""
+def _per_call(f: Callable[[], object], loops: int) -> float:
     t0 = time.perf_counter()
-    f()
-    once = max(time.perf_counter() - t0, 1e-7)
-    loops = max(1, int(budget / repeats / once))
-    best = float("inf")
-    for _ in range(repeats):
-        t0 = time.perf_counter()
-        for _ in range(loops):
-            f()
-        best = min(best, (time.perf_counter() - t0) / loops)
+    for _ in range(loops):
+        f()
+    return (time.perf_counter() - t0) / loops
+
+
+def best_of(candidates: dict[str, Callable[[], object]], budget: float = 0.15, rounds: int = 9) -> dict[str, float]:
+    """Best time of one call of each candidate, in seconds. The candidates take turns in every
+    round, so that a busy machine slows them alike; each turn loops for about ``budget`` seconds."""
+    loops = {k: max(1, int(budget / max(_per_call(f, 1), 1e-7))) for k, f in candidates.items()}
+    best = {k: float("inf") for k in candidates}
+    for _ in range(rounds):
+        for k, f in candidates.items():
+            gc.collect()  # every turn starts from the same collector state
+            best[k] = min(best[k], _per_call(f, loops[k]))
     return best
 
 
@@ -63,12 +68,12 @@ def measure(rows: int, cols: int) -> dict[str, float]:
     check = harness.call("SF_TABLE", host)
     assert check == harness.finish("SF_TABLE", udfs.SF_TABLE(arrived))
     assert check[1][4] == oneway(arrays).f
-    return {
-        "plain": best_of(lambda: np.array(data_rows, dtype=np.float64)),
-        "core": best_of(lambda: oneway(arrays).table()),
-        "wrapper": best_of(lambda: harness.finish("SF_TABLE", udfs.SF_TABLE(arrived))),
-        "harness": best_of(lambda: harness.call("SF_TABLE", host)),
-    }
+    return best_of({
+        "plain": lambda: np.array(data_rows, dtype=np.float64),
+        "core": lambda: oneway(arrays).table(),
+        "wrapper": lambda: harness.finish("SF_TABLE", udfs.SF_TABLE(arrived)),
+        "harness": lambda: harness.call("SF_TABLE", host),
+    })
 
 
 def profile(rows: int, cols: int, top: int = 12) -> None:

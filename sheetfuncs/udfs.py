@@ -232,7 +232,7 @@ class Function:
     returns: str
     example: Example
     columns: tuple[str, ...] = ()
-    func_options: Mapping[str, Any] = field(default_factory=lambda: {"category": CATEGORY})
+    func_options: Mapping[str, Any] = field(default_factory=lambda: MappingProxyType({"category": CATEGORY}))
     ret_options: Mapping[str, Any] = field(default_factory=dict)
     call: Callable[..., Any] = field(default=None, compare=False, repr=False)  # type: ignore[assignment]
 

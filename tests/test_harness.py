@@ -24,7 +24,7 @@ from xlwings import conversion
 from xlwings.main import Engine
 
 import sheetfuncs as sf
-from sheetfuncs import harness, udfs
+from sheetfuncs import harness
 from sheetfuncs.harness import BLANK, CALC, DIV0, MISSING, NA, REF, SPILL, VALUE, call, column, is_message
 from sheetfuncs.udfs import MAX_DOUBLE, REGISTRY
 
