@@ -86,6 +86,7 @@ Progress = Callable[[str, int, int], None]
 _CFB_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"
 _ZIP_MAGIC = b"PK\x03\x04"
 _ZIP_EMPTY = b"PK\x05\x06"
+_ZIP_METHODS = (zipfile.ZIP_STORED, zipfile.ZIP_DEFLATED, zipfile.ZIP_BZIP2, zipfile.ZIP_LZMA)
 _PROGRESS_STEP = 20_000  # cells between progress calls
 
 
@@ -420,6 +421,12 @@ def check_archive(path: str | os.PathLike[str], size_limit: int = DEFAULT_SIZE_L
                     f"sheetfuncs: {p.name} is an encrypted zip archive; remove the password "
                     "and read the copy"
                 )
+            odd = [i for i in infos if i.compress_type not in _ZIP_METHODS]
+            if odd:
+                raise InputError(
+                    f"sheetfuncs: {p.name} uses a zip compression method that cannot be read "
+                    f"(part {odd[0].filename}); re-save it from a spreadsheet program as .xlsx"
+                )
             names = {i.filename for i in infos}
             if "[Content_Types].xml" not in names:
                 raise InputError(
@@ -434,7 +441,7 @@ def check_archive(path: str | os.PathLike[str], size_limit: int = DEFAULT_SIZE_L
             f"sheetfuncs: {p.name} is damaged and cannot be read as a workbook ({e}); "
             "re-save or re-export it"
         ) from None
-    except (zipfile.LargeZipFile, NotImplementedError, EOFError, OSError, zlib.error) as e:
+    except (zipfile.LargeZipFile, EOFError, OSError, zlib.error) as e:
         if isinstance(e, (PermissionError, IsADirectoryError)):
             raise
         raise InputError(

@@ -199,6 +199,16 @@ def test_damaged_member_data(tmp_path):
         read_cells(path)
 
 
+def test_unknown_zip_compression_method(tmp_path):
+    data = bytearray(_book(tmp_path).read_bytes())
+    pos = data.find(b"PK\x01\x02")
+    struct.pack_into("<H", data, pos + 10, 9)  # Deflate64 (PKWARE APPNOTE 4.4.5)
+    path = tmp_path / "d64.xlsx"
+    path.write_bytes(bytes(data))
+    with pytest.raises(InputError, match=r"^sheetfuncs: d64\.xlsx uses a zip compression method that cannot be read"):
+        read_cells(path)
+
+
 def test_not_a_workbook(tmp_path):
     text = tmp_path / "data.xlsx"
     text.write_text("A,B\n1,2\n")
