@@ -418,3 +418,28 @@ def test_csv_range_and_size_limit(tmp_path):
     with pytest.raises(InputError, match=r"more than the 10 bytes limit.*--size-limit"):
         read_cells(p, size_limit=10)
     assert DEFAULT_SIZE_LIMIT == 512 * 1024 * 1024
+
+
+# --------------------------------------------------------------------------------------------
+# properties (hypothesis; derandomized in conftest)
+
+from hypothesis import given, strategies as st  # noqa: E402
+
+_finite = st.floats(allow_nan=False, allow_infinity=False, width=64)
+
+
+@given(_finite)
+def test_csv_value_round_trips_shortest_reprs(x):
+    # a double's shortest repr reads back as the same double (common practice)
+    assert csv_value(repr(x)) == x
+    assert csv_value(repr(x).replace(".", ","), decimal_comma=True) == x
+
+
+@given(st.floats(min_value=-1e9, max_value=1e9, allow_nan=False))
+def test_csv_value_reads_grouped_and_percent_forms(x):
+    # a thousands separator next to a decimal point is unambiguous; percent moves the point
+    grouped = f"{x:,.3f}"
+    assert csv_value(grouped) == float(f"{x:.3f}")
+    assert csv_value(f"{x:.3f}%") == float(f"{x:.3f}e-2")  # one rounding, like typed 0.xx
+    eu = grouped.replace(",", "_").replace(".", ",").replace("_", ".")
+    assert csv_value(eu, decimal_comma=True) == float(f"{x:.3f}")
