@@ -30,9 +30,11 @@ again evaluated as ``-expm1(sum log1p(-q_j))`` for relative accuracy in the tail
 
 Numerical method (deterministic, no random numbers): the inner integrals use composite
 10-point Gauss-Legendre panels (0.5 wide, finer across the steps of ``q_j``), over a range
-outside of which the integrand is below 1e-17 of the result; the outer integral over ``s`` uses
-adaptive Gauss-Kronrod quadrature (QUADPACK, through ``scipy.integrate.quad``) with break points
-at quantiles of ``S`` and where the integrand peaks. Critical values are found by Brent's
+outside of which the integrand is below 1e-17 of the result; the outer integral over ``s`` runs
+from 0 to the point that ``S`` exceeds with probability 1e-17 (the tail is decreasing, so the
+part left out is below 1e-17 of the result), by adaptive Gauss-Kronrod quadrature (QUADPACK,
+through ``scipy.integrate.quad``, relative tolerance 1e-10) with break points across the body of
+the density of ``S`` and around the peak of the integrand. Critical values are found by Brent's
 method between the single-comparison and the Bonferroni bounds.
 """
 
@@ -140,8 +142,14 @@ def _scale_mixture(tail: Callable[[float], float], c: float, df: float) -> float
 
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", integrate.IntegrationWarning)
-        val, _err = integrate.quad(
+        val, err = integrate.quad(
             integrand, 0.0, s_hi, points=pts or None, epsabs=0.0, epsrel=_EPSREL, limit=400
+        )
+    if val > 1e-290 and err > 1e-7 * val:
+        # never seen on the tested range of arguments; a wrong number must not pass silently
+        raise ArithmeticError(
+            f"sheetfuncs: the quadrature did not converge (c={c!r}, df={df!r}, estimate {val!r} "
+            f"+/- {err!r}); please report this case"
         )
     return min(1.0, max(0.0, val))
 
