@@ -18,8 +18,11 @@ Decimal-exact path
     path applies at all.
 
 Floating-point path
-    Per group, two passes with the corrected-sum term (Chan, Golub & LeVeque 1983):
-    ``m = mean(x)``, ``M2 = sum((x - m)**2) - (sum(x - m))**2 / n``.
+    Per group, the corrected-sum form (Chan, Golub & LeVeque 1983) about a shift ``t`` near the
+    mean: ``M2 = sum((x - t)**2) - (sum(x - t))**2 / n``. ``t`` is the mean of an evenly spaced
+    sample, and a second pass about the computed mean (the classical two-pass algorithm)
+    follows whenever that sample missed the mean by more than half a standard deviation, so
+    the error stays within a few units of rounding of the two-pass result.
 """
 
 from __future__ import annotations
@@ -156,11 +159,30 @@ class FloatMoments:
 # --------------------------------------------------------------------------------------------
 
 
-def _float_moments(arrays: Sequence[np.ndarray]) -> FloatMoments:
-    """Per group: ``t = mean(x)`` in floats, then ``e = x - t``, ``M2 = sum(e^2) - sum(e)^2/n``.
+def _shifted_sums(a: np.ndarray, c: float, buf: np.ndarray) -> tuple[float, float]:
+    """``sum(x - c)`` and ``sum((x - c)**2)``, chunk by chunk in cache, pairwise within chunks."""
+    s1: list[float] = []
+    s2: list[float] = []
+    for i in range(0, a.size, _CHUNK):
+        x = a[i : i + _CHUNK]
+        d = buf[: x.size]
+        np.subtract(x, c, out=d)
+        s1.append(float(d.sum()))
+        np.multiply(d, d, out=d)
+        s2.append(float(d.sum()))
+    return math.fsum(s1), math.fsum(s2)
 
-    The group mean is ``t + sum(e)/n``; its distance from the common shift (the first group's
-    ``t``) is ``(t - shift) + sum(e)/n``, where ``t - shift`` is exact for nearby doubles
+
+def _float_moments(arrays: Sequence[np.ndarray]) -> FloatMoments:
+    """Per group, the corrected sums about a shift ``t`` near the mean (Chan, Golub & LeVeque 1983):
+    ``e = x - t``, mean ``= t + sum(e)/n``, ``M2 = sum(e^2) - sum(e)^2/n``.
+
+    ``t`` is first the mean of an evenly spaced sample of the group, which saves a pass over the
+    data. The corrected sum leaves an error of about ``(1 + (mean - t)^2 / var)`` units of
+    rounding; when the sample mean misses by more than half a standard deviation
+    (``sum(e)^2/n > M2/4``) a second pass about the computed mean follows: the classical
+    two-pass algorithm. The distance of each group mean from the common shift (the first
+    group's ``t``) is ``(t - shift) + sum(e)/n``, where ``t - shift`` is exact for nearby doubles
     (Sterbenz' lemma), so differences between group means lose nothing to shared leading digits.
     """
     ns, means, m2s, devs = [], [], [], []
@@ -168,21 +190,20 @@ def _float_moments(arrays: Sequence[np.ndarray]) -> FloatMoments:
     buf = np.empty(min(max((a.size for a in arrays), default=1), _CHUNK))
     for a in arrays:
         n = a.size
-        m0 = float(np.mean(a))
+        step = max(1, n // _SAMPLE_PER_GROUP)
+        t = float(np.mean(a[::step]))
+        s1, s2 = _shifted_sums(a, t, buf)
+        m2 = s2 - s1 * s1 / n
+        if s1 * s1 / n > 0.25 * m2:
+            t = t + s1 / n  # the sample missed the mean: sum again about the mean itself
+            s1, s2 = _shifted_sums(a, t, buf)
+            m2 = s2 - s1 * s1 / n
         if shift is None:
-            shift = m0
-        sd = 0.0
-        sq = 0.0
-        for i in range(0, n, _CHUNK):
-            x = a[i : i + _CHUNK]
-            d = buf[: x.size]
-            np.subtract(x, m0, out=d)
-            sd += float(d.sum())
-            sq += float(np.dot(d, d))
+            shift = t
         ns.append(int(n))
-        means.append(m0 + sd / n)
-        devs.append((m0 - shift) + sd / n)
-        m2s.append(max(sq - sd * sd / n, 0.0))
+        means.append(t + s1 / n)
+        devs.append((t - shift) + s1 / n)
+        m2s.append(max(m2, 0.0))
     return FloatMoments(tuple(ns), tuple(means), tuple(m2s), float(shift or 0.0), tuple(devs))
 
 
@@ -213,8 +234,12 @@ def _exact_sums(r: np.ndarray, offset: int, hi: float, lo: float) -> tuple[int, 
     big = int(max(hi - offset, offset - lo, 0.0)) + 2  # a safe bound on |r - offset|
     n = r.size
     if n * big * big < _TWO53_INT:
-        m = r - offset  # exact: both are integers below 2**53 and so is the difference
-        return int(m.sum()), int(np.dot(m, m))
+        # exact in float64: every value, square and partial sum is an integer below 2**53.
+        # (Elementwise square and sum rather than a BLAS dot, which may spin up threads.)
+        m = r - offset
+        s = int(m.sum())
+        np.multiply(m, m, out=m)
+        return s, int(m.sum())
     m = r.astype(np.int64)
     m -= offset
     step = _INT64_MAX // (big * big)
