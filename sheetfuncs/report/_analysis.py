@@ -70,7 +70,11 @@ def _attempt(what: str, fn: Any, *args: Any, **kw: Any) -> Any:
 
 @dataclass(frozen=True)
 class Analysis:
-    """All results one report shows (``Unavailable`` where an analysis could not run)."""
+    """All results one report shows (``Unavailable`` where an analysis could not run).
+
+    ``unequal_pairs`` holds Games–Howell comparisons when the checks find unequal spreads and
+    the chosen method pools the variances (else ``None``).
+    """
 
     groups: Groups
     alpha: float
@@ -91,6 +95,7 @@ class Analysis:
     pairwise: PairwiseResult | Unavailable
     dunnett: PairwiseResult | Unavailable | None
     letters: LettersResult | Unavailable
+    unequal_pairs: PairwiseResult | Unavailable | None
     centre: Decimal
     precision: Precision
 
@@ -229,11 +234,14 @@ def analyse(
     pw = _attempt(METHOD_NAMES[m], pairwise, g, m, a)
     dn = _attempt("Dunnett", dunnett, g, ctrl, a) if ctrl is not None else None
     let = _attempt("letters", letters, g, m, a)
+    gh = None
+    if chk.variances_unequal and m != "games-howell":
+        gh = _attempt(METHOD_NAMES["games-howell"], pairwise, g, "games-howell", a)
     centre = centring_constant(mom, ow)
     prec = Precision(mom.scale if isinstance(mom, ExactMoments) else None)
     return Analysis(
         groups=g, alpha=a, conf=conf, method=m, control=ctrl, factor=fac, response=resp,
         unit=un, title=ttl, moments=mom, oneway=ow, describe=desc, checks=chk, welch=wel,
-        kruskal=kw, effects=eff, pairwise=pw, dunnett=dn, letters=let, centre=centre,
+        kruskal=kw, effects=eff, pairwise=pw, dunnett=dn, letters=let, unequal_pairs=gh, centre=centre,
         precision=prec,
     )

@@ -214,11 +214,23 @@ def _differ_section(an: Analysis, verdict: str) -> tuple[str, ...]:
             else:
                 text = lead + "no group is shown to differ from the control."
             out.append(text)
-    if an.checks.variances_unequal and an.method != "games-howell":
-        out.append(
-            "The group spreads look unequal: comparisons by the Games–Howell method (which does "
-            "not pool the variances) are the safer reading of pairs."
-        )
+    gh = an.unequal_pairs
+    if gh is not None:
+        lead = ("The group spreads look unequal, so the Games–Howell comparisons (which do not "
+                "pool the variances) are the safer reading of pairs")
+        if isinstance(gh, Unavailable):
+            out.append(f"{lead}, but they could not run: {gh.reason}.")
+        else:
+            hits = sorted((r for r in gh.rows if r.differs), key=lambda r: -abs(r.difference))
+            if hits:
+                out.append(f"{lead}: by them {len(hits)} of the {len(gh.rows)} pairs differ clearly "
+                           f"(intervals: {gh.interval}):")
+                for r in hits[:_MAX_PAIRS]:
+                    out.append("• " + _pair_sentence(an, r, "the"))
+                if len(hits) > _MAX_PAIRS:
+                    out.append(f"… and {len(hits) - _MAX_PAIRS} more pairs; see the Comparisons sheet.")
+            else:
+                out.append(f"{lead}: by them no pair of groups differs clearly (alpha = {_alpha(a)}).")
     return tuple(out)
 
 
@@ -260,6 +272,12 @@ def _size_section(an: Analysis, verdict: str) -> tuple[str, ...]:
         "(0.10 small, 0.25 medium, 0.40 large). These are conventions, not a judgement of "
         "practical importance: compare the differences with your specification or tolerance."
     )
+    if an.checks.variances_unequal:
+        out.append(
+            "These effect sizes come from the one-way table, which pools the group spreads; with "
+            "spreads as unequal as here they describe the data less well: judge the size of the "
+            "effect mainly by the differences between the means, in the response's own units."
+        )
     if verdict != "differs":
         out.append(
             f"The interval for η² reaches {format_number(e_hi, 3)}: an effect of that size is "
@@ -295,6 +313,14 @@ def _read_section(an: Analysis, read: str) -> tuple[str, ...]:
     return tuple(out)
 
 
+def _sentence(text: str) -> str:
+    text = text.strip()
+    if not text:
+        return text
+    text = text[0].upper() + text[1:]
+    return text if text.endswith((".", "!", "?")) else text + "."
+
+
 def _data_notes(an: Analysis) -> tuple[tuple[str, ...], tuple[str, ...]]:
     g = an.groups
     notes: list[str] = []
@@ -322,7 +348,7 @@ def _data_notes(an: Analysis) -> tuple[tuple[str, ...], tuple[str, ...]]:
             notes.append(f"{res.what[:1].upper() + res.what[1:]} not available: {res.reason}.")
     eff = an.effects
     if not isinstance(eff, Unavailable):
-        notes.extend(getattr(eff, "notes", ()) or ())
+        notes.extend(_sentence(n) for n in (getattr(eff, "notes", ()) or ()))
     if an.exact:
         notes.append(
             "Sums of squares were computed exactly for the decimal value of every cell and "

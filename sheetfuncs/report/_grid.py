@@ -260,7 +260,7 @@ class Grid:
         """Size columns from their contents (text length, about 12 characters for numbers)."""
         need: dict[int, float] = {}
         for (r, c), cell in self.cells.items():
-            if skip and c in skip:
+            if (skip and c in skip) or r <= 2:  # rows 1-2 hold the sheet's title
                 continue
             v = cell.value
             if v is None:
@@ -283,14 +283,27 @@ class Grid:
             elif isinstance(v, bool):
                 n = 5
             else:
-                n = min(len(f"{v:.10g}") + 2, 16)
+                n = shown_width(v, cell.style.num)
             need[c] = max(need.get(c, 0.0), n)
         for c, n in need.items():
             if c not in self.widths:
                 self.widths[c] = min(max(n + 2, minimum), maximum)
 
+    def fit_numbers(self) -> None:
+        """Widen any column too narrow for its numbers as displayed (never show ``###``)."""
+        for (r, c), cell in self.cells.items():
+            v = cell.value
+            if isinstance(v, (int, float)) and not isinstance(v, bool):
+                n = shown_width(v, cell.style.num) * (1.1 if cell.style.bold else 1.0) + 2
+                spans = [m for m in self.merges if m[0] <= r <= m[2] and m[1] == c]
+                if spans:
+                    continue
+                if self.widths.get(c, 9.0) < n:
+                    self.widths[c] = n
+
     def emit(self, ws: Any) -> None:
         """Write the grid into an empty write-only worksheet."""
+        self.fit_numbers()
         for c, w in sorted(self.widths.items()):
             ws.column_dimensions[get_column_letter(c)].width = w
         if self.freeze:
@@ -337,6 +350,25 @@ def make_cell(ws: Any, value: Any, style: Style = PLAIN, comment: str | None = N
         note.width, note.height = 260, 90
         cell.comment = note
     return cell
+
+
+def shown_width(v: float, num: str | None) -> int:
+    """Characters a number takes when shown with the number format ``num``."""
+    if num is None or num == "General":
+        return min(len(repr(v)), 12)
+    m = re.fullmatch(r"0(?:\.(0+))?", num)
+    if m:
+        return len(f"{v:.{len(m.group(1) or '')}f}")
+    if "E+" in num:
+        return len(num)
+    if num.startswith("[<"):  # the p-value format
+        return 7
+    if num.endswith("%"):
+        return len(f"{v * 100:.2f}") + 1
+    m = re.fullmatch(r"0\.(#+)", num)
+    if m:
+        return len(f"{v:.{len(m.group(1))}f}")
+    return min(len(repr(v)), 16)
 
 
 def set_float(cell: Any, value: float) -> None:

@@ -481,6 +481,21 @@ def build_comparisons(an: Analysis) -> Grid:
             first, last, _ = _put_table(g, r, dn.table(), prec)
             _mark_differs(g, dn.table()[0], first, last)
             r = last + 2
+    gh = an.unequal_pairs
+    if gh is not None:
+        g.put(r, 1, "Games–Howell comparisons (the group spreads look unequal)", HEADING)
+        r += 1
+        if isinstance(gh, Unavailable):
+            g.put(r, 1, "not available: " + gh.reason, NOTE)
+            r += 2
+        else:
+            g.put(r, 1, f"Shown because the checks find unequal spreads and {an.method_name} pools "
+                  f"the variances. Intervals: {gh.interval}", NOTE)
+            g.merge(r, 1, r, 9)
+            r += 1
+            first, last, _ = _put_table(g, r, gh.table(), prec)
+            _mark_differs(g, gh.table()[0], first, last)
+            r = last + 2
     let = an.letters
     g.put(r, 1, "Compact letter display", HEADING)
     r += 1
