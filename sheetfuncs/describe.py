@@ -16,7 +16,7 @@ import numpy as np
 from scipy import stats
 
 from .groups import as_groups
-from .moments import compute_moments
+from .moments import check_float_zero_spread, check_ss_range, compute_moments
 from .validate import check_conf
 
 __all__ = ["GroupSummary", "DescribeResult", "describe"]
@@ -78,7 +78,11 @@ def describe(groups: Any, conf: float = 0.95, *, exact: bool | None = None) -> D
         n = int(a.size)
         mean = float(mom.mean(i))
         if n > 1:
-            var = mom.ss_group(i) / (n - 1)
+            ss = mom.ss_group(i)
+            check_ss_range(ss)
+            if ss == 0 and float(a.min()) != float(a.max()):
+                check_float_zero_spread(g, 0.0, within=True)  # underflow, not a constant group
+            var = ss / (n - 1)
             sd = math.sqrt(float(var))
             se = sd / math.sqrt(n)
             q = float(stats.t.isf((1.0 - c) / 2.0, n - 1))

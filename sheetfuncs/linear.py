@@ -25,7 +25,7 @@ from scipy import stats
 from .errors import InputError
 from .fdist import f_tail
 from .groups import Groups, as_groups, format_label
-from .moments import compute_moments
+from .moments import check_float_zero_spread, check_ss_range, compute_moments
 from .oneway import require_two_groups
 from .validate import check_conf
 
@@ -127,6 +127,9 @@ def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = Non
         )
     ss_full_x = mom.ss_within_parts([[i] for i in range(g.k)])
     ss_red_x = mom.ss_within_parts(parts)
+    check_ss_range(ss_red_x)
+    if not mom.exact:
+        check_float_zero_spread(g, ss_full_x, within=True)
     num = (ss_red_x - ss_full_x) / (df_red - df_full)
     if ss_full_x == 0:
         if ss_red_x == 0:
@@ -201,6 +204,9 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
             "one group needs two or more values"
         )
     ssw = mom.ss_within_parts([[i] for i in range(g.k)])
+    check_ss_range(ssw)
+    if not mom.exact:
+        check_float_zero_spread(g, ssw, within=True)
     if mom.exact:
         est_x = sum(Fraction(wi) * mom.mean(i) for i, wi in enumerate(w))
         var_x = ssw / df * sum(Fraction(wi) ** 2 / g.counts[i] for i, wi in enumerate(w))

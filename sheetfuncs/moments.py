@@ -38,7 +38,10 @@ import numpy as np
 from .errors import InputError
 from .groups import Groups
 
-__all__ = ["ExactMoments", "FloatMoments", "compute_moments", "decimal_parts"]
+__all__ = [
+    "ExactMoments", "FloatMoments", "compute_moments", "decimal_parts", "check_ss_range",
+    "check_float_zero_spread",
+]
 
 _CHUNK = 32768
 _TWO53 = 9007199254740992.0
@@ -149,11 +152,60 @@ class FloatMoments:
         for p in parts:
             n = sum(self.n[g] for g in p)
             m = math.fsum(self.n[g] * d[g] for g in p) / n
-            total += math.fsum([self.m2[g] for g in p] + [self.n[g] * (d[g] - m) ** 2 for g in p])
+            terms = [self.m2[g] for g in p] + [self.n[g] * ((d[g] - m) * (d[g] - m)) for g in p]
+            total += math.fsum(terms) if all(map(math.isfinite, terms)) else math.inf
         return total
 
     def ss_group(self, g: int) -> float:
         return self.m2[g]
+
+
+# --------------------------------------------------------------------------------------------
+# sums of squares a double can carry
+
+TOO_LARGE = (
+    "sheetfuncs: the values are too large for double-precision sums of squares (they exceed "
+    "about 1e300); rescale the data, e.g. express them in larger units"
+)
+TOO_SMALL = (
+    "sheetfuncs: the values differ by too little for double-precision sums of squares (below "
+    "about 1e-290); rescale the data, e.g. express them in smaller units"
+)
+
+#: Sums of squares outside this range cannot be shown (or computed in floats) to full precision.
+_SS_MAX = 1e300
+_SS_MIN = 1e-290
+
+
+def check_ss_range(ss: Fraction | float) -> None:
+    """An :class:`InputError` when a sum of squares is beyond what a double can carry.
+
+    Values near 1e155 or more make sums of squares overflow the largest double (1.8e308);
+    values that differ by less than about 1e-145 make them underflow. Both are asked to be
+    rescaled rather than answered with an overflowed or underflowed number.
+    """
+    v = ss if isinstance(ss, Fraction) else float(ss)
+    if isinstance(v, float) and (math.isnan(v) or math.isinf(v)) or v > _SS_MAX:
+        raise InputError(TOO_LARGE)
+    if 0 < v < _SS_MIN:
+        raise InputError(TOO_SMALL)
+
+
+def check_float_zero_spread(g: Groups, ss: float, within: bool) -> None:
+    """On the floating-point path, a zero sum of squares must be a real zero, not underflow.
+
+    ``within=True`` checks that every group is constant, ``False`` that all values are equal.
+    """
+    if ss != 0:
+        return
+    arrays = [a for a in g.arrays if a.size]
+    if within:
+        real = all(float(a.min()) == float(a.max()) for a in arrays)
+    else:
+        first = float(arrays[0][0])
+        real = all(float(a.min()) == first == float(a.max()) for a in arrays)
+    if not real:
+        raise InputError(TOO_SMALL)
 
 
 # --------------------------------------------------------------------------------------------
@@ -163,13 +215,16 @@ def _shifted_sums(a: np.ndarray, c: float, buf: np.ndarray) -> tuple[float, floa
     """``sum(x - c)`` and ``sum((x - c)**2)``, chunk by chunk in cache, pairwise within chunks."""
     s1: list[float] = []
     s2: list[float] = []
-    for i in range(0, a.size, _CHUNK):
-        x = a[i : i + _CHUNK]
-        d = buf[: x.size]
-        np.subtract(x, c, out=d)
-        s1.append(float(d.sum()))
-        np.multiply(d, d, out=d)
-        s2.append(float(d.sum()))
+    with np.errstate(over="ignore", invalid="ignore"):
+        for i in range(0, a.size, _CHUNK):
+            x = a[i : i + _CHUNK]
+            d = buf[: x.size]
+            np.subtract(x, c, out=d)
+            s1.append(float(d.sum()))
+            np.multiply(d, d, out=d)
+            s2.append(float(d.sum()))
+    if not all(map(math.isfinite, s2)) or not all(map(math.isfinite, s1)):
+        raise InputError(TOO_LARGE)
     return math.fsum(s1), math.fsum(s2)
 
 

@@ -23,9 +23,12 @@ import numpy as np
 from .errors import InputError
 from .fdist import f_tail
 from .groups import Groups, as_groups, format_label
-from .moments import ExactMoments, FloatMoments, compute_moments, decimal_parts
+from .moments import (
+    ExactMoments, FloatMoments, check_float_zero_spread, check_ss_range, compute_moments,
+    decimal_parts,
+)
 
-__all__ = ["OneWayResult", "oneway", "oneway_from_summary", "require_two_groups"]
+__all__ = ["OneWayResult", "oneway", "oneway_from_moments", "oneway_from_summary", "require_two_groups"]
 
 TABLE_HEADER = ("Source", "df", "SS", "MS", "F", "p")
 
@@ -109,6 +112,7 @@ def _finish(
             "sheetfuncs: all values are identical, so there is no variation to analyse; check "
             "that the range holds the measurements"
         )
+    check_ss_range(sst)
     if exact:
         msb_x = ssb / dfb
         msw_x = ssw / dfw
@@ -154,6 +158,9 @@ def oneway_from_moments(g: Groups, mom: ExactMoments | FloatMoments) -> OneWayRe
         grand = math.fsum(c * m for c, m in zip(mom.n, dev)) / n
         ssb = math.fsum(c * (m - grand) ** 2 for c, m in zip(mom.n, dev))
         sst = ssb + ssw
+        check_ss_range(sst)
+        check_float_zero_spread(g, sst, within=False)
+        check_float_zero_spread(g, ssw, within=True)
     return _finish(g.labels, g.counts, means, ssb, ssw, sst, mom.exact)
 
 
