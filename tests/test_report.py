@@ -308,6 +308,22 @@ def test_findings_unequal_variances_reads_welch(tmp_path):
     assert "Games–Howell" in text  # the safer reading of pairs is named
 
 
+def test_findings_rank_test_read_and_disagreeing(tmp_path):
+    # invented: cure time (min) of three ovens, each with one slow outlier -> non-normal
+    # residuals in small groups: the checks read Kruskal–Wallis alongside the F test, and here
+    # the two disagree
+    ovens = {"Oven 1": [5.1, 5.2, 5.0, 5.3, 5.1, 5.2, 5.0, 7.9],
+             "Oven 2": [5.6, 5.5, 5.7, 5.6, 5.4, 5.5, 5.7, 8.3],
+             "Oven 3": [5.2, 5.1, 5.3, 5.2, 5.0, 5.3, 5.1, 8.0]}
+    an = analyse(ovens, factor="Oven", response="cure time")
+    fi = findings(an)
+    assert fi.read == "kruskal"
+    assert (an.oneway.p < 0.05) != (an.kruskal.p < 0.05)
+    assert fi.verdict == "unsettled" and fi.headline.startswith("Unsettled: the two tests disagree")
+    text = _findings_sheet(_write(tmp_path, ovens, factor="Oven", response="cure time"))
+    assert "Read the Kruskal–Wallis rank test, alongside the one-way F test" in text
+
+
 def test_case_only_label_differences_are_flagged(tmp_path):
     g = groups_from_range([["Lot a", "Lot A", "Lot b"], [1.0, 2.0, 1.5], [1.2, 2.2, 1.4], [1.1, 2.1, 1.6]])
     text = _findings_sheet(_write(tmp_path, g))

@@ -231,9 +231,13 @@ def analyse(
         "Kruskal-Wallis", missing.get("Kruskal-Wallis", "not available")
     )
     eff = _attempt("effect sizes", effect_sizes, g, conf)
-    pw = _attempt(METHOD_NAMES[m], pairwise, g, m, a)
-    dn = _attempt("Dunnett", dunnett, g, ctrl, a) if ctrl is not None else None
     let = _attempt("letters", letters, g, m, a)
+    shared = getattr(let, "comparisons", None)
+    if isinstance(shared, PairwiseResult) and shared.method == m and shared.alpha == a:
+        pw = shared  # the very comparisons the letters were drawn from
+    else:
+        pw = _attempt(METHOD_NAMES[m], pairwise, g, m, a)
+    dn = _attempt("Dunnett", dunnett, g, ctrl, a) if ctrl is not None else None
     gh = None
     if chk.variances_unequal and m != "games-howell":
         gh = _attempt(METHOD_NAMES["games-howell"], pairwise, g, "games-howell", a)

@@ -26,7 +26,7 @@ from openpyxl.utils import get_column_letter
 from ._analysis import Analysis, Unavailable
 from ._findings import CAUTIONS, Findings
 from ._formats import P_FORMAT, Precision, fixed, sig_decimals
-from ._grid import Formula, Grid, Style, cell_ref, quote_sheet
+from ._grid import Formula, Grid, Style, cell_ref, quote_sheet, safe_text
 
 __all__ = [
     "DataLayout", "Segment", "NAMES", "build_findings", "build_tables", "build_comparisons",
@@ -589,8 +589,8 @@ def build_chart(an: Analysis, layout: DataLayout) -> Grid:
 
     line = LineChart()
     line.title = f"Group means with {an.conf:.0%} intervals"
-    line.y_axis.title = f"{an.response}{unit}"
-    line.x_axis.title = an.factor
+    line.y_axis.title = safe_text(f"{an.response}{unit}")
+    line.x_axis.title = safe_text(an.factor)
     line.legend = None
     ser = Series(Reference(_Ref(g.name), min_col=3, min_row=top + 1, max_row=last), title="Mean")
     _markers_only(ser, "circle", 8, NAVY)
@@ -608,8 +608,8 @@ def build_chart(an: Analysis, layout: DataLayout) -> Grid:
     scatter = ScatterChart()
     scatter.title = f"Individual values, with the group means"
     scatter.scatterStyle = "lineMarker"
-    scatter.y_axis.title = f"{an.response}{unit}"
-    scatter.x_axis.title = f"{an.factor} (position 1 to {k}; see the table below)"
+    scatter.y_axis.title = safe_text(f"{an.response}{unit}")
+    scatter.x_axis.title = safe_text(f"{an.factor} (position 1 to {k}; see the table below)")
     scatter.x_axis.scaling.min = 0
     scatter.x_axis.scaling.max = k + 1
     scatter.x_axis.majorUnit = 1
@@ -634,7 +634,7 @@ def build_chart(an: Analysis, layout: DataLayout) -> Grid:
             g.put(r, col0 + 2, v, Style(num=prec.value_format()))
         ser = Series(Reference(_Ref(g.name), min_col=col0 + 2, min_row=r0, max_row=r),
                      Reference(_Ref(g.name), min_col=col0 + 1, min_row=r0, max_row=r),
-                     title=an.groups.labels[i - 1])
+                     title=safe_text(an.groups.labels[i - 1]))
         _markers_only(ser, "circle", 5, _PALETTE[(i - 1) % len(_PALETTE)])
         scatter.series.append(ser)
     if sample:

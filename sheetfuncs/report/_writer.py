@@ -21,7 +21,7 @@ from openpyxl.workbook.defined_name import DefinedName
 from ..errors import InputError
 from ._analysis import Analysis, analyse, centred_values
 from ._findings import findings
-from ._grid import PLAIN, Style, apply_style, make_cell, setup_print
+from ._grid import PLAIN, Style, apply_style, make_cell, safe_text, setup_print
 from ._sheets import (
     NAMES, TH, DataLayout, build_about, build_audit, build_chart, build_comparisons,
     build_findings, build_groups, build_tables, timestamp,
@@ -186,7 +186,7 @@ def build_workbook(an: Analysis, *, source: Any = None, progress: Progress | Non
 
     wb = Workbook(write_only=True)
     wb.properties.creator = "sheetfuncs"
-    wb.properties.title = an.title[:250]
+    wb.properties.title = safe_text(an.title)[:250]
     wb.calculation.fullCalcOnLoad = True
     before = [find, tables, comps, groups]
     after = [chart, audit, about]
