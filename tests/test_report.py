@@ -369,6 +369,15 @@ def test_tab_and_cr_text_stays_text(tmp_path):
     assert safe_text("a\x01b") == "a\u2401b" and safe_text("_x000D_") == "_x005F_x000D_"
 
 
+def test_control_characters_everywhere_still_give_a_readable_workbook(tmp_path):
+    # labels, factor, response and title end up in cells, chart titles and series names
+    g = {"Head 1\x01": [1.0, 1.2, 1.1], "Head\x022": [1.5, 1.4, 1.6]}
+    path = _write(tmp_path, g, factor="\x03Head", response="fill\x04", title="t\x05")
+    wb = openpyxl.load_workbook(path)  # would fail on invalid XML
+    assert wb["Groups"]["A5"].value == "Head 1\u2401"
+    assert len(wb["Chart"]._charts) == 2
+
+
 def test_existing_output_kept_unless_force(tmp_path):
     path = _write(tmp_path, CLEAR)
     before = path.read_bytes()

@@ -710,7 +710,7 @@ def build_audit(an: Analysis, layout: DataLayout, tables: Positions) -> tuple[Gr
     g.merge(3, 1, 3, 7)
     g.put(5, 1, "Centring constant", KEY)
     g.put(5, 2, float(an.centre), Style(num=fixed(max(0, -an.centre.as_tuple().exponent))))
-    g.put(5, 3, f"exactly {an.centre}", NOTE)
+    g.put(5, 3, f"exactly {an.centre:f}", NOTE)
     c_ref = "$B$5"
     top = 7
     g.put_row(top, 1, ["Group no.", an.factor, "n", "Mean (centred)", "Mean", "SS within group"], TH)
@@ -878,7 +878,7 @@ def build_about(an: Analysis, *, source: Any, written: str, version: str, data_s
         item("Arithmetic", "floating-point path: some values have more than 15 significant digits "
              "(typically formula results); per-group two-pass sums of squares with the "
              "corrected-sum term.")
-    item("Centring constant (Audit)", f"{an.centre}")
+    item("Centring constant (Audit)", f"{an.centre:f}")
     item("p-values", "upper tails from survival functions (never 1 − cdf), accurate far into the tail")
     r += 1
     section("Method references")

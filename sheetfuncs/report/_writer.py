@@ -102,7 +102,7 @@ def _content(value: Any) -> str:
 def _data_header(an: Analysis) -> list[str]:
     unit = f" ({an.unit})" if an.unit else ""
     return [
-        "Group no.", an.factor, f"{an.response}{unit}", f"Centred value (value − {an.centre})", "",
+        "Group no.", an.factor, f"{an.response}{unit}", f"Centred value (value − {an.centre:f})", "",
         "Input cell not used", "Kind", "Content", "Action",
     ]
 
