@@ -221,7 +221,7 @@ def _classify(v: Any) -> tuple[str, Any]:
         iv = int(v)
         if _COM_LOW <= iv <= _COM_HIGH:
             return "error", _com_error_name(iv)
-        return "number", float(iv)
+        return "number", float(iv) if abs(iv) < 2**1023 else math.copysign(math.inf, iv)
     if isinstance(v, (_dt.datetime, _dt.date, _dt.time)):
         return "date", v
     if isinstance(v, (decimal.Decimal, np.floating)) or isinstance(v, numbers.Real):
@@ -570,20 +570,36 @@ def groups_from_long(labels: Sequence[Any], values: Sequence[Any]) -> Groups:
 # Python inputs
 
 
+_PLAIN_NUMBER_TYPES = frozenset({float, int, np.float64, np.float32, np.int64, np.int32})
+
+
 def _numbers(values: Any, label: str) -> np.ndarray:
+    """One group's values as a float64 array; anything but finite numbers is an InputError."""
     if isinstance(values, (str, bytes)):
         raise InputError(f'sheetfuncs: group "{label}" is text, not a sequence of numbers')
-    try:
-        arr = np.asarray(values)
-    except Exception:  # ragged or odd objects
-        arr = np.asarray(list(values), dtype=object)
-    if arr.ndim == 0:
-        arr = arr.reshape(1)
-    if arr.ndim != 1:
-        raise InputError(f'sheetfuncs: group "{label}" must be a flat sequence of numbers')
-    if arr.dtype.kind == "b" or (arr.dtype.kind not in "iuf"):
+    flat_msg = f'sheetfuncs: group "{label}" must be a flat sequence of numbers'
+    if isinstance(values, np.ndarray):
+        if values.ndim > 1:
+            raise InputError(flat_msg)
+        seq = values.reshape(-1) if values.dtype.kind in "iuf" else values.reshape(-1).tolist()
+    else:
+        try:
+            seq = list(values)
+        except TypeError:
+            seq = [values]  # a single number
+    if isinstance(seq, np.ndarray):
+        arr = seq.astype(np.float64)
+    elif set(map(type, seq)) <= _PLAIN_NUMBER_TYPES:
+        # plain numbers only (numpy would turn [1.0, "x"] into text and [1.0, True] into 1.0)
+        try:
+            arr = np.asarray(seq, dtype=np.float64)
+        except OverflowError:
+            arr = np.array([float(v) if abs(v) < 2**1023 else math.inf for v in seq])
+    else:
         out = []
-        for i, v in enumerate(arr.tolist()):
+        for i, v in enumerate(seq):
+            if isinstance(v, (list, tuple, np.ndarray)):
+                raise InputError(flat_msg)
             kind, val = _classify(v)
             if kind != "number":
                 raise InputError(
@@ -592,8 +608,6 @@ def _numbers(values: Any, label: str) -> np.ndarray:
                 )
             out.append(val)
         arr = np.array(out, dtype=np.float64)
-    else:
-        arr = arr.astype(np.float64)
     if not np.isfinite(arr).all():
         i = int(np.flatnonzero(~np.isfinite(arr))[0])
         raise InputError(_bad_number_message(float(arr[i]), f'position {i + 1} of group "{label}"'))
