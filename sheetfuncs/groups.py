@@ -221,7 +221,10 @@ def _classify(v: Any) -> tuple[str, Any]:
         iv = int(v)
         if _COM_LOW <= iv <= _COM_HIGH:
             return "error", _com_error_name(iv)
-        return "number", float(iv) if abs(iv) < 2**1023 else math.copysign(math.inf, iv)
+        try:
+            return "number", float(iv)
+        except OverflowError:  # beyond the double range: rejected below as infinite
+            return "number", math.inf if iv > 0 else -math.inf
     if isinstance(v, (_dt.datetime, _dt.date, _dt.time)):
         return "date", v
     if isinstance(v, (decimal.Decimal, np.floating)) or isinstance(v, numbers.Real):
@@ -594,7 +597,7 @@ def _numbers(values: Any, label: str) -> np.ndarray:
         try:
             arr = np.asarray(seq, dtype=np.float64)
         except OverflowError:
-            arr = np.array([float(v) if abs(v) < 2**1023 else math.inf for v in seq])
+            arr = np.array([_classify(v)[1] for v in seq], dtype=np.float64)
     else:
         out = []
         for i, v in enumerate(seq):
