@@ -279,34 +279,49 @@ def _sample(arrays: Sequence[np.ndarray]) -> list[tuple[int, float]]:
     return out
 
 
+def _blocked_sum(v: np.ndarray, block: int) -> int:
+    """Exact sum of an int64 array whose every run of ``block`` values sums without overflow."""
+    n = v.size
+    if n <= block:
+        return int(v.sum())
+    full = n - n % block
+    parts = v[:full].reshape(-1, block).sum(axis=1)  # each partial sum fits in int64
+    return sum(parts.tolist()) + int(v[full:].sum())
+
+
 def _exact_sums(r: np.ndarray, offset: int, hi: float, lo: float) -> tuple[int, int]:
     """Exact ``sum(r - offset)`` and ``sum((r - offset)**2)`` of integer-valued floats.
 
-    ``r`` holds integers below 2**53 in size, ``hi``/``lo`` its extremes. Sums run in float64
-    while every partial sum stays below 2**53 (then float addition is exact), else in int64
-    sub-chunks short enough not to overflow, else in Python integers.
+    ``r`` holds integers below 2**53 in size, ``hi``/``lo`` its extremes, and ``r`` may be
+    overwritten. While every partial sum stays below 2**53 the sums run in float64 (then
+    float addition is exact). Otherwise each centred integer is split as ``m = a * 2**h + b``
+    with ``0 <= b < 2**h`` and ``|a|`` of about the same size, so that ``a*a``, ``a*b`` and
+    ``b*b`` fit comfortably in int64; they are summed in int64 blocks short enough never to
+    overflow and combined in Python integers: ``sum m^2 = 4**h sum a^2 + 2**(h+1) sum ab +
+    sum b^2``.
     """
     big = int(max(hi - offset, offset - lo, 0.0)) + 2  # a safe bound on |r - offset|
     n = r.size
     if n * big * big < _TWO53_INT:
         # exact in float64: every value, square and partial sum is an integer below 2**53.
         # (Elementwise square and sum rather than a BLAS dot, which may spin up threads.)
-        m = r - offset
-        s = int(m.sum())
-        np.multiply(m, m, out=m)
-        return s, int(m.sum())
+        np.subtract(r, offset, out=r)
+        s = int(r.sum())
+        np.multiply(r, r, out=r)
+        return s, int(r.sum())
     m = r.astype(np.int64)
     m -= offset
-    step = _INT64_MAX // (big * big)
-    if step >= 1024:
-        s = q = 0
-        for j in range(0, n, step):
-            part = m[j : j + step]
-            s += int(part.sum())
-            q += int(np.dot(part, part))
-        return s, q
-    vals = [int(v) for v in m.tolist()]
-    return sum(vals), sum(v * v for v in vals)
+    h = max(1, (big.bit_length() + 1) // 2)
+    a = m >> h                      # floor division by 2**h
+    b = m - (a << h)                # 0 <= b < 2**h
+    top = max(int(abs(a).max()) if a.size else 0, 1 << h)
+    block = max(1, _INT64_MAX // (top * top))
+    s = (_blocked_sum(a, block) << h) + _blocked_sum(b, block)
+    ab = a * b
+    np.multiply(a, a, out=a)
+    np.multiply(b, b, out=b)
+    q = (_blocked_sum(a, block) << (2 * h)) + (_blocked_sum(ab, block) << (h + 1)) + _blocked_sum(b, block)
+    return s, q
 
 
 def _exact_moments(arrays: Sequence[np.ndarray]) -> ExactMoments:
