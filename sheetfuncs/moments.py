@@ -223,12 +223,20 @@ def _shifted_sums(a: np.ndarray, c: float, buf: np.ndarray) -> tuple[float, floa
             s1.append(float(d.sum()))
             np.multiply(d, d, out=d)
             s2.append(float(d.sum()))
-    if not all(map(math.isfinite, s2)) or not all(map(math.isfinite, s1)):
-        raise InputError(TOO_LARGE)
+    if not (all(map(math.isfinite, s2)) and all(map(math.isfinite, s1))):
+        # squares beyond the double range: the analyses see inf and say so (check_ss_range)
+        return (math.nan if not all(map(math.isfinite, s1)) else math.fsum(s1)), math.inf
     return math.fsum(s1), math.fsum(s2)
 
 
 def _float_moments(arrays: Sequence[np.ndarray]) -> FloatMoments:
+    """Floating-point moments (see :func:`_float_moments_impl`); overflow shows as inf in the
+    moments, and the analyses turn it into a message (:func:`check_ss_range`)."""
+    with np.errstate(over="ignore", invalid="ignore"):
+        return _float_moments_impl(arrays)
+
+
+def _float_moments_impl(arrays: Sequence[np.ndarray]) -> FloatMoments:
     """Per group, the corrected sums about a shift ``t`` near the mean (Chan, Golub & LeVeque 1983):
     ``e = x - t``, mean ``= t + sum(e)/n``, ``M2 = sum(e^2) - sum(e)^2/n``.
 

@@ -155,8 +155,10 @@ def oneway_from_moments(g: Groups, mom: ExactMoments | FloatMoments) -> OneWayRe
         means = mom.means()
         dev = mom.deviations()  # means minus a common shift, without cancellation
         n = sum(mom.n)
+        check_ss_range(ssw)
         grand = math.fsum(c * m for c, m in zip(mom.n, dev)) / n
-        ssb = math.fsum(c * (m - grand) ** 2 for c, m in zip(mom.n, dev))
+        terms = [c * ((m - grand) * (m - grand)) for c, m in zip(mom.n, dev)]
+        ssb = math.fsum(terms) if all(map(math.isfinite, terms)) else math.inf
         sst = ssb + ssw
         check_ss_range(sst)
         check_float_zero_spread(g, sst, within=False)
