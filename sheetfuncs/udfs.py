@@ -72,14 +72,26 @@ from typing import Any
 import numpy as np
 import xlwings as xw
 
+# analyses are imported by name: the package's functions `power`, `pairwise` and `letters`
+# hide their module names
+from .alternatives import brown_forsythe, kruskal, welch
+from .assumptions import bartlett, checks, levene, shapiro_residuals
 from .describe import HEADER as GROUPS_HEADER
 from .describe import describe
+from .effects import TABLE_HEADER as EFFECT_HEADER
+from .effects import effect_sizes
 from .errors import InputError
 from .fdist import f_critical, f_tail
 from .groups import _error_text, cell_position, format_label, groups_from_range
+from .letters import letters
 from .linear import contrast, linear_test
 from .oneway import TABLE_HEADER, oneway, oneway_from_summary
+from .pairwise import dunnett, pairwise
+from .power import detectable_effect, sample_size
+from .power import power as power_of
 from .validate import check_number
+from .varcomp import TABLE_HEADER as VARCOMP_HEADER
+from .varcomp import variance_components
 
 __all__ = [
     "Arg",
@@ -688,6 +700,317 @@ def SF_FCRIT(alpha: Any, df1: Any, df2: Any) -> Any:
     return f_critical(alpha, df1, df2)
 
 
+# beyond the F test: alternatives, assumption checks --------------------------------------
+
+_ALPHA_CHECKS = Arg(
+    "alpha", "number", "Significance level each check is read at, between 0 and 1.", default=0.05
+)
+
+
+@worksheet_function(
+    description="Spills Welch's test of equal group means, which does not assume equal "
+    "variances: statistic, df1, df2 and p.",
+    args=(DATA, LAYOUT, LABELS),
+    result="table",
+    columns=("Test", "Statistic", "df1", "df2", "p"),
+    returns="A header row and one row: Test, Statistic (Welch's F), df1 (groups minus one), df2 "
+    "(Welch's approximate degrees of freedom, usually not a whole number) and p. Every group "
+    "needs two or more values and some spread.",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_WELCH(data: Any, layout: Any = None, labels: Any = None) -> Any:
+    return welch(groups_from_range(data, layout, labels)).table()
+
+
+@worksheet_function(
+    description="Spills the Brown-Forsythe F* test of equal group means for unequal variances: "
+    "statistic, df1, Satterthwaite's df2 and p.",
+    args=(DATA, LAYOUT, LABELS),
+    result="table",
+    columns=("Test", "Statistic", "df1", "df2", "p"),
+    returns="A header row and one row: Test, Statistic (F*), df1 (groups minus one), df2 "
+    "(Satterthwaite's degrees of freedom) and p. This is the 1974 test for means; the "
+    "Brown-Forsythe test for variances is SF_LEVENE with center \"median\".",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_BROWNFORSYTHE(data: Any, layout: Any = None, labels: Any = None) -> Any:
+    return brown_forsythe(groups_from_range(data, layout, labels)).table()
+
+
+@worksheet_function(
+    description="Spills the Kruskal-Wallis rank test of the groups, with the tie correction and "
+    "the rank epsilon squared effect size.",
+    args=(DATA, LAYOUT, LABELS),
+    result="table",
+    columns=("Test", "Statistic", "df", "p", "Rank epsilon squared"),
+    returns="A header row and one row: Test, Statistic (H, corrected for ties), df (groups minus "
+    "one), p (chi-square approximation) and Rank epsilon squared, H (N + 1) / (N^2 - 1) for N "
+    "values in all.",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_KRUSKAL(data: Any, layout: Any = None, labels: Any = None) -> Any:
+    return kruskal(groups_from_range(data, layout, labels)).table()
+
+
+@worksheet_function(
+    description="Spills Levene's test of equal group variances, on the distances from each "
+    "group's median (Brown-Forsythe, the default) or mean.",
+    args=(
+        DATA, LAYOUT, LABELS,
+        Arg("center", "text",
+            "What each value's distance is measured from: \"median\" (the group median, robust "
+            "to skewed data) or \"mean\" (the group mean, Levene's original).",
+            default="median"),
+    ),
+    result="table",
+    columns=("Test", "Statistic", "df1", "df2", "p"),
+    returns="A header row and one row: Test (naming the centre), Statistic (the F ratio of the "
+    "absolute distances), df1, df2 and p.",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_LEVENE(data: Any, layout: Any = None, labels: Any = None, center: Any = None) -> Any:
+    return levene(groups_from_range(data, layout, labels), center).table()
+
+
+@worksheet_function(
+    description="Spills Bartlett's chi-square test of equal group variances, which is sensitive "
+    "to non-normal data.",
+    args=(DATA, LAYOUT, LABELS),
+    result="table",
+    columns=("Test", "Statistic", "df", "p"),
+    returns="A header row and one row: Test, Statistic (chi-square), df (groups minus one) and "
+    "p. For data that may not be normal, SF_LEVENE is the robust choice.",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_BARTLETT(data: Any, layout: Any = None, labels: Any = None) -> Any:
+    return bartlett(groups_from_range(data, layout, labels)).table()
+
+
+@worksheet_function(
+    description="Spills the Shapiro-Wilk test of normality on the residuals of the one-way "
+    "model (D'Agostino-Pearson above 5,000 residuals).",
+    args=(DATA, LAYOUT, LABELS),
+    result="table",
+    columns=("Test", "Statistic", "n", "p"),
+    returns="A header row and one row: Test (naming the method), Statistic (W, or K^2 above "
+    "5,000 residuals), n (residuals tested) and p. The residuals are each value minus its group "
+    "mean; groups of one value are left out, since their residual is zero by construction.",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_SHAPIRO(data: Any, layout: Any = None, labels: Any = None) -> Any:
+    return shapiro_residuals(groups_from_range(data, layout, labels)).table()
+
+
+@worksheet_function(
+    description="Spills the assumption checks of the one-way analysis and which test to read: "
+    "the one-way F, Welch, or Kruskal-Wallis alongside the F.",
+    args=(DATA, LAYOUT, LABELS, _ALPHA_CHECKS),
+    result="table",
+    columns=("Check", "Statistic", "df", "p", "Reading"),
+    returns="A header row; then the Read row, which names the test to read and carries its "
+    "statistic, df and p; then one row per check: Levene (median), the ratio of the largest to "
+    "the smallest group SD, Bartlett (for reference), the normality of the residuals, the "
+    "smallest group size, the one-way F, Welch and Kruskal-Wallis. A df cell holding two "
+    "degrees of freedom is text such as \"2, 12\"; a check that cannot run says why in its "
+    "Reading. The rule: variances look unequal when the median-centred Levene test has p < "
+    "alpha or the largest group SD is more than twice the smallest (a rule of thumb); residuals "
+    "look non-normal when their normality test has p < alpha; read Welch when variances look "
+    "unequal, else Kruskal-Wallis alongside the F when residuals look non-normal and the "
+    "smallest group has fewer than 15 values, else the one-way F (see docs/checks.md). "
+    "Pre-testing assumptions is itself a judgement: look at the data, weigh how they were "
+    "collected and follow your organisation's procedures before acting on the reading.",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_CHECKS(data: Any, layout: Any = None, labels: Any = None, alpha: Any = None) -> Any:
+    return checks(groups_from_range(data, layout, labels), alpha).table()
+
+
+# comparisons of groups ----------------------------------------------------------------------
+
+_METHOD = Arg(
+    "method", "text",
+    "Comparison method: \"tukey\" (Tukey-Kramer), \"games-howell\", \"bonferroni\", \"holm\", "
+    "\"sidak\" or \"scheffe\".",
+    default="tukey",
+)
+_ALPHA_FAMILY = Arg(
+    "alpha", "number",
+    "Significance level for the whole family of comparisons, between 0 and 1.",
+    default=0.05,
+)
+_PAIR_COLUMNS = (
+    "Group A", "Group B", "Difference", "SE", "CI low (kind and level)",
+    "CI high (kind and level)", "q, t or F", "p", "Differs",
+)
+
+
+@worksheet_function(
+    description="Spills every pairwise comparison of the group means (Tukey-Kramer unless told "
+    "otherwise): differences, intervals, adjusted p-values and whether each pair differs.",
+    args=(DATA, LAYOUT, LABELS, _METHOD, _ALPHA_FAMILY),
+    result="table",
+    columns=_PAIR_COLUMNS,
+    returns="A header row, then one row per pair of groups in range order: Group A, Group B, "
+    "Difference (mean of A minus mean of B), SE, the interval for the difference, the method's "
+    "statistic (q for Tukey-Kramer and Games-Howell, t for Bonferroni, Holm and Sidak, F for "
+    "Scheffe), the adjusted p-value (never above 1) and Differs (TRUE when p < alpha). The "
+    "interval headers say what the intervals are: simultaneous at 1 - alpha, except that Holm "
+    "rows show Bonferroni intervals and Games-Howell intervals are approximate. The pooled "
+    "methods use the one-way residual mean square; Games-Howell uses each pair's own variances.",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_PAIRS(data: Any, layout: Any = None, labels: Any = None, method: Any = None,
+             alpha: Any = None) -> Any:
+    return pairwise(groups_from_range(data, layout, labels), method, alpha).table()
+
+
+@worksheet_function(
+    description="Spills Dunnett's comparisons of every group with one control group: "
+    "differences, simultaneous intervals, adjusted p-values and whether each group differs.",
+    args=(
+        DATA,
+        Arg("control", "text",
+            "The label of the control group, as the range shows it (a control typed as 3 "
+            "matches the label 3)."),
+        LAYOUT, LABELS, _ALPHA_FAMILY,
+    ),
+    result="table",
+    columns=_PAIR_COLUMNS[:6] + ("t", "p", "Differs"),
+    returns="A header row, then one row per group other than the control, in range order: the "
+    "group, the control, Difference (group mean minus control mean), SE, the simultaneous "
+    "interval, t, the adjusted two-sided p-value and Differs (TRUE when p < alpha). p-values and "
+    "the critical value come from the many-to-one multivariate t distribution, integrated by "
+    "deterministic quadrature, so a recalculation gives the same digits.",
+    example=Example(_ON_SHEET + ", with head A as the reference head", (_DATA_REF, "Head A")),
+)
+def SF_DUNNETT(data: Any, control: Any, layout: Any = None, labels: Any = None,
+               alpha: Any = None) -> Any:
+    return dunnett(groups_from_range(data, layout, labels), control, alpha).table()
+
+
+@worksheet_function(
+    description="Spills the compact letter display of the pairwise comparisons: groups that "
+    "share a letter are not separated, and \"a\" goes to the highest mean.",
+    args=(DATA, LAYOUT, LABELS, _METHOD, _ALPHA_FAMILY),
+    result="table",
+    columns=("Group", "Mean", "Letters"),
+    returns="A header row, then one row per group, highest mean first: Group, Mean and Letters. "
+    "Two groups share a letter exactly when the chosen method does not separate them at alpha "
+    "(insert-and-absorb algorithm of Piepho 2004).",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_LETTERS(data: Any, layout: Any = None, labels: Any = None, method: Any = None,
+               alpha: Any = None) -> Any:
+    return letters(groups_from_range(data, layout, labels), method, alpha).table()
+
+
+# effect sizes, planning, variance components ------------------------------------------------
+
+
+@worksheet_function(
+    description="Spills the effect sizes of the one-way analysis (eta squared, omega squared, "
+    "epsilon squared and Cohen's f), with intervals for eta squared and f.",
+    args=(DATA, LAYOUT, LABELS, CONF),
+    result="table",
+    columns=EFFECT_HEADER,
+    returns="A header row, then Eta squared, Omega squared, Epsilon squared and Cohen's f. Eta "
+    "squared and f carry equal-tailed intervals from the noncentral F at the observed F "
+    "(Steiger 2004); omega and epsilon squared are bias-corrected and shown as 0 when they come "
+    "out negative, which their Note says. Cohen's f shows as 1.7976931348623157E+308 when there "
+    "is no variation within the groups.",
+    example=Example(_ON_SHEET, (_DATA_REF,)),
+)
+def SF_EFFECT(data: Any, layout: Any = None, labels: Any = None, conf: Any = None) -> Any:
+    return effect_sizes(groups_from_range(data, layout, labels), conf).table()
+
+
+_K = Arg("k", "number", "The number of groups, a whole number of at least 2.")
+_N = Arg("n", "number", "The number of values in each group (equal sizes), a whole number of at least 2.")
+_F = Arg(
+    "f", "number",
+    "Cohen's effect size f: the SD of the group means over the SD within groups (0.1 small, "
+    "0.25 medium, 0.4 large).",
+)
+_POWER = Arg(
+    "power", "number",
+    "The wanted power, the chance that the F test detects the effect, above alpha and below 1.",
+    default=0.8,
+)
+_ALPHA_TEST = Arg("alpha", "number", "Significance level of the F test, between 0 and 1.", default=0.05)
+_PLAN_NOTE = (
+    " Balanced one-way design with independent values and a common normal spread; noncentral F "
+    "with noncentrality k n f^2 (Cohen 1988, ch. 8)."
+)
+
+
+@worksheet_function(
+    description="Returns the power of the one-way F test for k groups of n values each when the "
+    "true effect size is Cohen's f.",
+    args=(_K, _N, _F, _ALPHA_TEST),
+    result="scalar",
+    returns="One number between alpha and 1: the chance that the test gives p < alpha." + _PLAN_NOTE,
+    example=Example("Four groups of 20 values each and a medium effect, f = 0.25", (4, 20, 0.25)),
+)
+def SF_POWER(k: Any, n: Any, f: Any, alpha: Any = None) -> Any:
+    return power_of(k, n, f, alpha)
+
+
+@worksheet_function(
+    description="Returns the smallest number of values per group for which the one-way F test "
+    "on k groups reaches the wanted power at Cohen's effect size f.",
+    args=(_K, _F, _POWER, _ALPHA_TEST),
+    result="scalar",
+    returns="One whole number: values per group (the study needs k times as many in all)." + _PLAN_NOTE,
+    example=Example("Four groups, a medium effect (f = 0.25), power 0.8 and alpha 0.05", (4, 0.25)),
+)
+def SF_SAMPLESIZE(k: Any, f: Any, power: Any = None, alpha: Any = None) -> Any:
+    return sample_size(k, f, power, alpha)
+
+
+@worksheet_function(
+    description="Returns the smallest Cohen's effect size f that the one-way F test on k groups "
+    "of n values each detects with the wanted power.",
+    args=(_K, _N, _POWER, _ALPHA_TEST),
+    result="scalar",
+    returns="One number: Cohen's f (multiply by the SD within groups for the SD of the group "
+    "means it corresponds to)." + _PLAN_NOTE,
+    example=Example("Four groups of 10 values each, power 0.8 and alpha 0.05", (4, 10)),
+)
+def SF_DETECTABLE(k: Any, n: Any, power: Any = None, alpha: Any = None) -> Any:
+    return detectable_effect(k, n, power, alpha)
+
+
+_LOTS_NOTE = (
+    "Invented data: certified value checks of four lots of a calibration material (mg/L), three "
+    "replicate measurements per lot"
+)
+_LOTS_SHEET: tuple[tuple[Any, ...], ...] = (
+    ("Lot 101", "Lot 102", "Lot 103", "Lot 104"),
+    (50.12, 50.31, 50.08, 50.22),
+    (50.18, 50.27, 50.11, 50.19),
+    (50.15, 50.35, 50.04, 50.26),
+)
+
+
+@worksheet_function(
+    description="Spills the variance components of the one-way random-effects model: within and "
+    "between groups, their total and the intraclass correlation, with intervals.",
+    args=(DATA, LAYOUT, LABELS, CONF),
+    result="table",
+    columns=VARCOMP_HEADER,
+    returns="A header row, then Between groups, Within groups, Total and Intraclass correlation, "
+    "each with its estimate, interval and share of the total variance. Estimators: ANOVA "
+    "(method of moments), with the effective group size n0 when sizes differ. Intervals: "
+    "chi-square (within), modified large-sample (between: Ting et al. 1990; total: Graybill & "
+    "Wang 1980), F-based (intraclass correlation: Searle 1971). A between estimate that comes "
+    "out negative is shown as 0 (the groups vary no more than the values within them); with "
+    "unequal group sizes the between, total and ICC intervals are approximate.",
+    example=Example(_LOTS_NOTE, (Ref("A1:D4"),), _LOTS_SHEET),
+)
+def SF_VARCOMP(data: Any, layout: Any = None, labels: Any = None, conf: Any = None) -> Any:
+    return variance_components(groups_from_range(data, layout, labels), conf).table()
+
+
 def _collect(namespace: Mapping[str, Any]) -> Mapping[str, Function]:
     found = {}
     for value in namespace.values():
@@ -777,6 +1100,10 @@ spreadsheet").
 * **Tables spill** with one header row, so a chart or `INDEX()` can point at them. Spilling needs
   a host with dynamic arrays; in older hosts select the output block first and enter the formula
   as an array formula (Ctrl+Shift+Enter).
+* **One figure out of a table.** `INDEX()` picks one cell of a spilled result, so a QA sheet can
+  hold a single figure: `=INDEX(SF_WELCH(A1:C7),2,5)` is Welch's p-value. When the function
+  returns a message instead, `INDEX()` gives an error value (a message has no second row), which
+  the `ISNUMBER()` guard below catches in the same way.
 * **Blank** cells in a result mean "not defined here" (for example the SD of a one-value group).
   An **infinite** F, when there is no variation within the groups, shows as the largest double,
   1.7976931348623157E+308, so comparisons still work.
@@ -787,6 +1114,10 @@ spreadsheet").
   so `=SF_P(A1:C7)<0.05` is FALSE when the cell holds a message instead of a p-value, and a
   broken input would read as "no difference". Write instead
   `=IF(ISNUMBER(SF_P(A1:C7)), SF_P(A1:C7)<0.05, "check the data")`.
+* **Methods.** The assumption checks and the alternatives to the F test (with the rule
+  `SF_CHECKS` uses to say which test to read) are described in `docs/checks.md`, the
+  comparisons and letters in `docs/comparisons.md`, effect sizes, planning and variance
+  components in `docs/effects.md`, each with its published sources.
 * **Cautions.** Statistics support but do not replace engineering judgement. Check the
   assumptions (independent observations, similar spreads, roughly normal residuals), follow your
   organisation's quality procedures, applicable standards and regulations, and validate the tool
