@@ -59,7 +59,7 @@ def _positive_mb(text: str) -> float:
 
 
 def _methods() -> tuple[str, ...]:
-    from .pairwise import METHODS
+    from .comparisons import METHODS
 
     return tuple(METHODS)
 
@@ -317,7 +317,7 @@ def _report_outputs(args: argparse.Namespace) -> list[tuple[Path, Path]]:
 
 
 def _cmd_report(args: argparse.Namespace) -> int:
-    from .pairwise import parse_method
+    from .comparisons import parse_method
     from .validate import check_alpha
 
     pairs = _report_outputs(args)
@@ -627,7 +627,7 @@ def _table_text(args, loaded: LoadedGroups, ck, desc, one) -> None:
 
 
 def _cmd_plan(args: argparse.Namespace) -> int:
-    from .power import power, sample_size
+    from .planning import power, sample_size
 
     n = sample_size(args.groups, args.effect, args.power, args.alpha)
     achieved = power(args.groups, n, args.effect, args.alpha)

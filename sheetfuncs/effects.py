@@ -20,7 +20,7 @@ df (k - 1, N - k); the equal-tailed interval for the noncentrality lambda has li
 each set to 0 when even lambda = 0 cannot reach it. Since lambda = N f^2 for the fixed-effects
 model, the limits map to eta^2 = lambda / (lambda + N) and f = sqrt(lambda / N). The limits are
 found by a bracketing root finder (Brent's method, after expanding the bracket until it holds a
-sign change) on the noncentral F distribution function of :mod:`sheetfuncs.power`.
+sign change) on the noncentral F distribution function of :mod:`sheetfuncs.planning`.
 
 The sums of squares are the decimal-exact ones of :func:`sheetfuncs.oneway.oneway` whenever that
 path applies, and the point estimates are formed from them exactly and rounded once.
@@ -40,7 +40,7 @@ from .fdist import check_df
 from .groups import as_groups
 from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
-from .power import ncf_cdf
+from .planning import ncf_cdf
 from .validate import check_conf
 
 __all__ = ["EffectSizes", "effect_sizes", "noncentrality_interval"]

@@ -83,12 +83,12 @@ from .effects import effect_sizes
 from .errors import InputError
 from .fdist import f_critical, f_tail
 from .groups import _error_text, cell_position, format_label, groups_from_range
-from .letters import letters
+from .lettering import letters
 from .linear import contrast, linear_test
 from .oneway import TABLE_HEADER, oneway, oneway_from_summary
-from .pairwise import dunnett, pairwise
-from .power import detectable_effect, sample_size
-from .power import power as power_of
+from .comparisons import dunnett, pairwise
+from .planning import detectable_effect, sample_size
+from .planning import power as power_of
 from .validate import check_number
 from .varcomp import TABLE_HEADER as VARCOMP_HEADER
 from .varcomp import variance_components

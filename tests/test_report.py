@@ -25,9 +25,9 @@ from sheetfuncs import InputError, as_groups, describe, groups_from_range, onewa
 from sheetfuncs.assumptions import checks
 from sheetfuncs.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
 from sheetfuncs.effects import effect_sizes
-from sheetfuncs.letters import letters
+from sheetfuncs.lettering import letters
 from sheetfuncs.moments import compute_moments
-from sheetfuncs.pairwise import dunnett, pairwise
+from sheetfuncs.comparisons import dunnett, pairwise
 from sheetfuncs.report import SHEET_ORDER, write_report
 from sheetfuncs.report._analysis import analyse, centred_values, centring_constant
 from sheetfuncs.report._findings import findings

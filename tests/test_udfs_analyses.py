@@ -30,10 +30,10 @@ from sheetfuncs.alternatives import brown_forsythe, kruskal, welch
 from sheetfuncs.assumptions import bartlett, checks, levene, shapiro_residuals
 from sheetfuncs.effects import effect_sizes
 from sheetfuncs.harness import BLANK, CALC, DIV0, MISSING, NA, REF, SPILL, call, column, is_message
-from sheetfuncs.letters import letters
-from sheetfuncs.pairwise import METHODS, dunnett, pairwise
-from sheetfuncs.power import detectable_effect, sample_size
-from sheetfuncs.power import power as power_of
+from sheetfuncs.lettering import letters
+from sheetfuncs.comparisons import METHODS, dunnett, pairwise
+from sheetfuncs.planning import detectable_effect, sample_size
+from sheetfuncs.planning import power as power_of
 from sheetfuncs.udfs import MAX_DOUBLE, REGISTRY
 from sheetfuncs.varcomp import variance_components
 

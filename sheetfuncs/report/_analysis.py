@@ -24,10 +24,10 @@ from ..describe import DescribeResult, describe
 from ..effects import EffectSizes, effect_sizes
 from ..errors import InputError
 from ..groups import Groups, as_groups
-from ..letters import LettersResult, letters
+from ..lettering import LettersResult, letters
 from ..moments import ExactMoments, FloatMoments, compute_moments
 from ..oneway import OneWayResult, oneway_from_moments, require_two_groups
-from ..pairwise import PairwiseResult, dunnett, pairwise
+from ..comparisons import PairwiseResult, dunnett, pairwise
 from ..validate import check_alpha
 from ._formats import Precision
 
@@ -122,7 +122,7 @@ def _text_option(value: Any, name: str, default: str | None) -> str | None:
 
 
 def _method(method: Any) -> str:
-    from ..pairwise import parse_method
+    from ..comparisons import parse_method
 
     return parse_method(method)
 

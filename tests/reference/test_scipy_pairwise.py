@@ -24,7 +24,7 @@ import pytest
 from scipy import stats
 
 from sheetfuncs.mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
-from sheetfuncs.pairwise import dunnett, pairwise
+from sheetfuncs.comparisons import dunnett, pairwise
 
 
 def random_groups(seed: int, k_max: int = 6) -> list[np.ndarray]:

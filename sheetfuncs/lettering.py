@@ -25,7 +25,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from .errors import InputError
-from .pairwise import PairwiseResult, pairwise, parse_method
+from .comparisons import PairwiseResult, pairwise, parse_method
 
 __all__ = ["LettersResult", "letters", "letter_sets"]
 
@@ -111,7 +111,7 @@ class LettersResult(Mapping):
 
     ``labels`` the groups; ``letters`` each group's letters (same order); ``means`` the group
     means; ``method`` and ``alpha`` of the pairwise comparisons behind the letters;
-    ``comparisons`` those comparisons (:class:`sheetfuncs.pairwise.PairwiseResult`).
+    ``comparisons`` those comparisons (:class:`sheetfuncs.comparisons.PairwiseResult`).
     """
 
     labels: tuple[str, ...]
@@ -147,7 +147,7 @@ class LettersResult(Mapping):
 def letters(groups: Any, method: str = "tukey", alpha: float = 0.05) -> LettersResult:
     """Compact letter display of the pairwise comparisons (insert-and-absorb, Piepho 2004).
 
-    ``method`` is any pairwise method of :func:`sheetfuncs.pairwise.pairwise`; Dunnett's
+    ``method`` is any pairwise method of :func:`sheetfuncs.comparisons.pairwise`; Dunnett's
     many-to-one comparisons do not compare every pair and cannot be shown as letters.
     """
     if isinstance(method, str) and method.strip().lower() == "dunnett":

@@ -17,8 +17,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from sheetfuncs.errors import InputError
-from sheetfuncs.letters import LettersResult, letter_sets, letters, name_letters
-from sheetfuncs.pairwise import pairwise
+from sheetfuncs.lettering import LettersResult, letter_sets, letters, name_letters
+from sheetfuncs.comparisons import pairwise
 
 # Invented data: tensile strength (MPa) of test bars from five suppliers.
 SUPPLIERS = {

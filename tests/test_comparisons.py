@@ -23,7 +23,7 @@ import nist
 from sheetfuncs.errors import InputError
 from sheetfuncs.groups import groups_from_range
 from sheetfuncs.mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
-from sheetfuncs.pairwise import METHODS, PairwiseResult, dunnett, pairwise
+from sheetfuncs.comparisons import METHODS, PairwiseResult, dunnett, pairwise
 
 # Invented data: fill weight (g) from four filling heads; head 3 runs heavy.
 HEADS = {

@@ -1,4 +1,4 @@
-"""Power, sample size, detectable effect and plans (sheetfuncs.power)."""
+"""Power, sample size, detectable effect and plans (sheetfuncs.planning)."""
 
 from __future__ import annotations
 
@@ -10,7 +10,7 @@ import pytest
 from scipy import special, stats
 
 from sheetfuncs import InputError
-from sheetfuncs.power import (
+from sheetfuncs.planning import (
     PATNAIK_FROM,
     detectable_effect,
     ncf_cdf,
