@@ -94,7 +94,7 @@ def _zero_variance_error(label: str, method: str) -> InputError:
     return InputError(
         f'sheetfuncs: group "{label}" has zero variance (all its values are equal), and '
         f"{method} divides by each group's variance; check the measurement resolution, or use "
-        "brown_forsythe or kruskal"
+        "the Brown-Forsythe F* test or Kruskal-Wallis instead"
     )
 
 
@@ -153,8 +153,7 @@ def centred_group_stats(
         dev = tuple(float((mom.mean(i) - c) / unit) for i in range(k))
         var = tuple(math.nan if v is None else float(v / (unit * unit)) for v in raw_var)
     else:
-        cf = float(mom.mean(0))
-        dev = tuple(math.ldexp(float(mom.mean(i)) - cf, -h) for i in range(k))
+        dev = tuple(math.ldexp(d, -h) for d in mom.mean_differences(0))
         var = tuple(math.nan if v is None else math.ldexp(float(v), -2 * h) for v in raw_var)
     return dev, var
 

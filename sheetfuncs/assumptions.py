@@ -300,7 +300,7 @@ def bartlett(groups: Any, *, exact: bool | None = None) -> BartlettResult:
             raise InputError(
                 f'sheetfuncs: group "{label}" has zero variance (all its values are equal), and '
                 "Bartlett's test takes the logarithm of each group's variance; check the "
-                "measurement resolution, or use levene"
+                "measurement resolution, or use Levene's test instead"
             )
     if mom.exact:
         ssw = sum(ss, Fraction(0))

@@ -8,7 +8,9 @@ has no SD: its SD, SE and interval are NaN, which fronts show as "undefined".
 
 from __future__ import annotations
 
+import decimal
 import math
+from fractions import Fraction
 from dataclasses import dataclass
 from typing import Any
 
@@ -68,6 +70,19 @@ class DescribeResult:
         return [list(HEADER)] + [s.row() for s in self.groups]
 
 
+def _median(a: np.ndarray, exact: bool) -> float:
+    """The median; for an even count the midpoint of the two middle values, taken exactly for
+    their decimal values on the exact path (so 61.1 and 61.2 give 61.15, not 61.150000000000006)."""
+    n = a.size
+    if n % 2:
+        return float(np.partition(a, n // 2)[n // 2])
+    part = np.partition(a, (n // 2 - 1, n // 2))
+    lo, hi = float(part[n // 2 - 1]), float(part[n // 2])
+    if exact:
+        return float((Fraction(decimal.Decimal(repr(lo))) + Fraction(decimal.Decimal(repr(hi)))) / 2)
+    return lo + (hi - lo) / 2
+
+
 def describe(groups: Any, conf: float = 0.95, *, exact: bool | None = None) -> DescribeResult:
     """Summaries of each group with a ``conf`` t interval for its mean."""
     g = as_groups(groups)
@@ -90,6 +105,6 @@ def describe(groups: Any, conf: float = 0.95, *, exact: bool | None = None) -> D
         else:
             sd = se = lo = hi = math.nan
         out.append(
-            GroupSummary(label, n, mean, sd, se, lo, hi, float(a.min()), float(np.median(a)), float(a.max()))
+            GroupSummary(label, n, mean, sd, se, lo, hi, float(a.min()), _median(a, mom.exact), float(a.max()))
         )
     return DescribeResult(tuple(out), c, mom.exact)

@@ -31,6 +31,7 @@ import math
 from scipy import optimize, special
 
 from .errors import InputError
+from .validate import shown
 
 __all__ = ["f_tail", "f_critical", "check_df"]
 
@@ -45,13 +46,13 @@ def check_df(df1: float, df2: float) -> tuple[float, float]:
     out = []
     for name, v in (("df1", df1), ("df2", df2)):
         if isinstance(v, bool) or v is None or isinstance(v, str):
-            raise InputError(f"sheetfuncs: {name} must be a number, not {v!r}")
+            raise InputError(f"sheetfuncs: {name} must be a number, not {shown(v)}")
         try:
             f = float(v)
         except (TypeError, ValueError):
-            raise InputError(f"sheetfuncs: {name} must be a number, not {v!r}") from None
+            raise InputError(f"sheetfuncs: {name} must be a number, not {shown(v)}") from None
         if not (math.isfinite(f) and f > 0):
-            raise InputError(f"sheetfuncs: {name} must be a positive number, not {v!r}")
+            raise InputError(f"sheetfuncs: {name} must be a positive number, not {shown(v)}")
         out.append(f)
     return out[0], out[1]
 
@@ -179,11 +180,11 @@ def f_tail(x: float, df1: float, df2: float) -> float:
     """
     d1, d2 = check_df(df1, df2)
     if isinstance(x, bool) or x is None or isinstance(x, str):
-        raise InputError(f"sheetfuncs: the F value must be a number, not {x!r}")
+        raise InputError(f"sheetfuncs: the F value must be a number, not {shown(x)}")
     try:
         xv = float(x)
     except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: the F value must be a number, not {x!r}") from None
+        raise InputError(f"sheetfuncs: the F value must be a number, not {shown(x)}") from None
     if math.isnan(xv):
         raise InputError("sheetfuncs: the F value is not a number (NaN)")
     if xv <= 0:
@@ -249,13 +250,13 @@ def f_critical(alpha: float, df1: float, df2: float) -> float:
     """The x with P(F > x) = alpha for F ~ F(df1, df2); ``inf`` beyond the largest double."""
     d1, d2 = check_df(df1, df2)
     if isinstance(alpha, bool) or alpha is None or isinstance(alpha, str):
-        raise InputError(f"sheetfuncs: alpha must be a number, not {alpha!r}")
+        raise InputError(f"sheetfuncs: alpha must be a number, not {shown(alpha)}")
     try:
         a = float(alpha)
     except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: alpha must be a number, not {alpha!r}") from None
+        raise InputError(f"sheetfuncs: alpha must be a number, not {shown(alpha)}") from None
     if not (0.0 < a < 1.0):
-        raise InputError(f"sheetfuncs: alpha must lie strictly between 0 and 1, not {alpha!r}")
+        raise InputError(f"sheetfuncs: alpha must lie strictly between 0 and 1, not {shown(alpha)}")
     with special.errstate(all="ignore"):
         if a < 0.5:
             w = float(special.betaincinv(d2 / 2.0, d1 / 2.0, a))  # w = d2 / (d2 + d1 x)

@@ -21,6 +21,7 @@ from typing import Any
 import numpy as np
 
 from .errors import InputError
+from .validate import shown
 from .fdist import f_tail
 from .groups import Groups, as_groups, format_label
 from .moments import (
@@ -191,9 +192,9 @@ def _to_fraction(v: Any, what: str, i: int) -> Fraction:
     try:
         f = float(v)
     except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: {what} {i + 1} is {v!r}, not a number") from None
+        raise InputError(f"sheetfuncs: {what} {i + 1} is {shown(v)}, not a number") from None
     if isinstance(v, bool) or not math.isfinite(f):
-        raise InputError(f"sheetfuncs: {what} {i + 1} is {v!r}, not a finite number")
+        raise InputError(f"sheetfuncs: {what} {i + 1} is {shown(v)}, not a finite number")
     mant, exp, _ = decimal_parts(f)
     return Fraction(mant) * (Fraction(10) ** exp)
 
@@ -230,7 +231,7 @@ def oneway_from_summary(
     for i, c in enumerate(cs):
         fc = _to_fraction(c, "count", i)
         if fc.denominator != 1 or fc < 1:
-            raise InputError(f"sheetfuncs: count {i + 1} is {c!r}; counts must be whole numbers of at least 1")
+            raise InputError(f"sheetfuncs: count {i + 1} is {shown(c)}; counts must be whole numbers of at least 1")
         n_list.append(int(fc))
     m_list = [_to_fraction(m, "mean", i) for i, m in enumerate(ms)]
     s_list = [_to_fraction(s, "SD", i) for i, s in enumerate(sd)]

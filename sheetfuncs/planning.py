@@ -34,7 +34,7 @@ from scipy import optimize, special, stats
 
 from .errors import InputError
 from .fdist import f_critical, f_tail
-from .validate import check_alpha, check_number, check_probability
+from .validate import check_alpha, check_number, check_probability, shown
 
 __all__ = [
     "power",
@@ -112,7 +112,7 @@ def _whole(value: Any, name: str, minimum: int) -> int:
     v = check_number(value, name)
     if v != math.floor(v) or v < minimum:
         raise InputError(
-            f"sheetfuncs: {name} must be a whole number of at least {minimum}, not {value!r}"
+            f"sheetfuncs: {name} must be a whole number of at least {minimum}, not {shown(value)}"
         )
     return int(v)
 
@@ -130,7 +130,7 @@ def _f_arg(f: Any) -> float:
     if v <= 0.0:
         raise InputError(
             f"sheetfuncs: the effect size f must be greater than 0 (Cohen's guide: 0.1 small, "
-            f"0.25 medium, 0.4 large), not {f!r}"
+            f"0.25 medium, 0.4 large), not {shown(f)}"
         )
     return v
 

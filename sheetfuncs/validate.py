@@ -7,19 +7,37 @@ from typing import Any
 
 from .errors import InputError
 
-__all__ = ["check_conf", "check_alpha", "check_probability", "check_number"]
+__all__ = ["check_conf", "check_alpha", "check_probability", "check_number", "shown"]
+
+
+def shown(value: Any) -> str:
+    """A value as a spreadsheet user would recognise it in a message: ``TRUE``, ``blank``,
+    ``3`` (not ``3.0``), ``"text"``."""
+    if value is None or (isinstance(value, str) and value.strip() == ""):
+        return "blank"
+    if isinstance(value, bool):
+        return "TRUE" if value else "FALSE"
+    if isinstance(value, str):
+        return f'"{value}"'
+    if isinstance(value, float):
+        if math.isfinite(value) and value == int(value) and abs(value) < 1e16:
+            return str(int(value))
+        return repr(value)
+    if isinstance(value, int):
+        return str(value)
+    return str(value)
 
 
 def check_number(value: Any, name: str) -> float:
     """A finite real number, or an InputError that names the argument."""
     if isinstance(value, bool) or value is None or isinstance(value, str):
-        raise InputError(f"sheetfuncs: {name} must be a number, not {value!r}")
+        raise InputError(f"sheetfuncs: {name} must be a number, not {shown(value)}")
     try:
         v = float(value)
     except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: {name} must be a number, not {value!r}") from None
+        raise InputError(f"sheetfuncs: {name} must be a number, not {shown(value)}") from None
     if not math.isfinite(v):
-        raise InputError(f"sheetfuncs: {name} must be a finite number, not {value!r}")
+        raise InputError(f"sheetfuncs: {name} must be a finite number, not {shown(value)}")
     return v
 
 
@@ -28,7 +46,7 @@ def check_probability(value: Any, name: str, example: str) -> float:
     v = check_number(value, name)
     if not (0.0 < v < 1.0):
         raise InputError(
-            f"sheetfuncs: {name} must lie strictly between 0 and 1 (e.g. {example}), not {value!r}"
+            f"sheetfuncs: {name} must lie strictly between 0 and 1 (e.g. {example}), not {shown(value)}"
         )
     return v
 

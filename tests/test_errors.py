@@ -129,7 +129,7 @@ def test_bad_contrast_weights():
         "sheetfuncs: all contrast weights are zero; give weights such as 1, -1, 0"
     )
     assert message_of(sf.contrast, data, [1, "a", -1]) == (
-        "sheetfuncs: the weight for group \"B\" is 'a', not a number"
+        "sheetfuncs: the weight for group \"B\" is \"a\", not a number"
     )
 
 
@@ -158,11 +158,11 @@ def test_other_option_errors_are_one_line_too():
 
 
 @pytest.mark.parametrize("value, expected", [
-    (None, "sheetfuncs: alpha must be a number, not None"),
-    ("0.05", "sheetfuncs: alpha must be a number, not '0.05'"),
-    (True, "sheetfuncs: alpha must be a number, not True"),
+    (None, "sheetfuncs: alpha must be a number, not blank"),
+    ("0.05", "sheetfuncs: alpha must be a number, not \"0.05\""),
+    (True, "sheetfuncs: alpha must be a number, not TRUE"),
     (math.inf, "sheetfuncs: alpha must be a finite number, not inf"),
-    (0.0, "sheetfuncs: alpha must lie strictly between 0 and 1 (e.g. 0.05), not 0.0"),
+    (0.0, "sheetfuncs: alpha must lie strictly between 0 and 1 (e.g. 0.05), not 0"),
     (5, "sheetfuncs: alpha must lie strictly between 0 and 1 (e.g. 0.05), not 5"),
 ])
 def test_shared_option_checks(value, expected):

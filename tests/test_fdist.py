@@ -101,7 +101,7 @@ def test_bad_degrees_of_freedom(bad, word):
 def test_bad_f_value():
     with pytest.raises(InputError, match=r"^sheetfuncs: the F value is not a number \(NaN\)$"):
         f_tail(math.nan, 2, 10)
-    with pytest.raises(InputError, match="^sheetfuncs: the F value must be a number, not 'big'$"):
+    with pytest.raises(InputError, match="^sheetfuncs: the F value must be a number, not \"big\"$"):
         f_tail("big", 2, 10)
 
 

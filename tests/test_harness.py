@@ -477,7 +477,7 @@ PROBLEMS = [
     ("summary gap", "SF_FROMSTATS", (column([5, None, 4]), column([1.0, 2.0, 3.0]), column([0.1, 0.2, 0.3])), "entry 2 of counts is blank"),
     ("summary error", "SF_FROMSTATS", (column([5, 4]), column([1.0, VALUE]), column([0.1, 0.2])), "#VALUE!"),
     ("summary one group", "SF_FROMSTATS", (column([5]), column([1.0]), column([0.1])), "at least two groups"),
-    ("summary text count", "SF_FROMSTATS", (column(["n", 5, 4]), column([1.0, 2.0, 3.0]), column([0.1, 0.2, 0.3])), "count 1 is 'n', not a number"),
+    ("summary text count", "SF_FROMSTATS", (column(["n", 5, 4]), column([1.0, 2.0, 3.0]), column([0.1, 0.2, 0.3])), 'count 1 is "n", not a number'),
     ("df negative", "SF_FTAIL", (2.0, -1, 10), "df1 must be a positive number"),
     ("x blank", "SF_FTAIL", (None, 2, 10), "x is missing"),
     ("x as text", "SF_FTAIL", ("big", 2, 10), "x must be a number"),

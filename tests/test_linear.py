@@ -137,9 +137,9 @@ def test_contrast_weights_sum_tolerance():
     ([1, -1, 0], "3 weights for 4 groups; give one per group"),
     ([1, 1, 0, 0], "contrast weights must sum to zero, but they sum to 2"),
     ([0, 0, 0, 0], "all contrast weights are zero"),
-    ([1, "x", 0, 0], 'the weight for group "Zone 2" is \'x\', not a number'),
-    ([1, True, 0, 0], 'the weight for group "Zone 2" is True, not a number'),
-    ([1, -1, None, 0], 'the weight for group "Zone 3" is None, not a number'),
+    ([1, "x", 0, 0], 'the weight for group "Zone 2" is "x", not a number'),
+    ([1, True, 0, 0], 'the weight for group "Zone 2" is TRUE, not a number'),
+    ([1, -1, None, 0], 'the weight for group "Zone 3" is blank, not a number'),
     ([1, -1, float("inf"), 0], 'the weight for group "Zone 3" is not finite'),
 ])
 def test_contrast_bad_weights(weights, message):
