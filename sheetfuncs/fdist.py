@@ -31,7 +31,7 @@ import math
 from scipy import optimize, special
 
 from .errors import InputError
-from .validate import shown
+from .validate import as_real, check_alpha, shown
 
 __all__ = ["f_tail", "f_critical", "check_df"]
 
@@ -45,12 +45,9 @@ def check_df(df1: float, df2: float) -> tuple[float, float]:
     """Validate degrees of freedom (positive and finite; non-integers are allowed)."""
     out = []
     for name, v in (("df1", df1), ("df2", df2)):
-        if isinstance(v, bool) or v is None or isinstance(v, str):
+        f = as_real(v)
+        if f is None:
             raise InputError(f"sheetfuncs: {name} must be a number, not {shown(v)}")
-        try:
-            f = float(v)
-        except (TypeError, ValueError):
-            raise InputError(f"sheetfuncs: {name} must be a number, not {shown(v)}") from None
         if not (math.isfinite(f) and f > 0):
             raise InputError(f"sheetfuncs: {name} must be a positive number, not {shown(v)}")
         out.append(f)
@@ -179,12 +176,9 @@ def f_tail(x: float, df1: float, df2: float) -> float:
     normal double (about 1e-308); see the module docstring.
     """
     d1, d2 = check_df(df1, df2)
-    if isinstance(x, bool) or x is None or isinstance(x, str):
+    xv = as_real(x)
+    if xv is None:
         raise InputError(f"sheetfuncs: the F value must be a number, not {shown(x)}")
-    try:
-        xv = float(x)
-    except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: the F value must be a number, not {shown(x)}") from None
     if math.isnan(xv):
         raise InputError("sheetfuncs: the F value is not a number (NaN)")
     if xv <= 0:
@@ -249,14 +243,7 @@ def _solve_critical(a: float, d1: float, d2: float) -> float:
 def f_critical(alpha: float, df1: float, df2: float) -> float:
     """The x with P(F > x) = alpha for F ~ F(df1, df2); ``inf`` beyond the largest double."""
     d1, d2 = check_df(df1, df2)
-    if isinstance(alpha, bool) or alpha is None or isinstance(alpha, str):
-        raise InputError(f"sheetfuncs: alpha must be a number, not {shown(alpha)}")
-    try:
-        a = float(alpha)
-    except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: alpha must be a number, not {shown(alpha)}") from None
-    if not (0.0 < a < 1.0):
-        raise InputError(f"sheetfuncs: alpha must lie strictly between 0 and 1, not {shown(alpha)}")
+    a = check_alpha(alpha)
     with special.errstate(all="ignore"):
         if a < 0.5:
             w = float(special.betaincinv(d2 / 2.0, d1 / 2.0, a))  # w = d2 / (d2 + d1 x)

@@ -27,7 +27,7 @@ from .fdist import f_tail
 from .groups import Groups, as_groups, format_label
 from .moments import check_float_zero_spread, check_ss_range, compute_moments
 from .oneway import require_two_groups
-from .validate import check_conf, shown
+from .validate import as_real, check_conf, shown
 
 __all__ = ["LinearTestResult", "ContrastResult", "linear_test", "contrast", "per_group_argument"]
 
@@ -177,12 +177,9 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     raw = per_group_argument(weights, g, "weights")
     w: list[float] = []
     for i, v in enumerate(raw):
-        if isinstance(v, bool) or v is None or isinstance(v, str):
+        fv = as_real(v)
+        if fv is None:
             raise InputError(f'sheetfuncs: the weight for group "{g.labels[i]}" is {shown(v)}, not a number')
-        try:
-            fv = float(v)
-        except (TypeError, ValueError):
-            raise InputError(f'sheetfuncs: the weight for group "{g.labels[i]}" is {shown(v)}, not a number') from None
         if not math.isfinite(fv):
             raise InputError(f'sheetfuncs: the weight for group "{g.labels[i]}" is not finite')
         w.append(fv)

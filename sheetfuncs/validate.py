@@ -7,7 +7,7 @@ from typing import Any
 
 from .errors import InputError
 
-__all__ = ["check_conf", "check_alpha", "check_probability", "check_number", "shown"]
+__all__ = ["check_conf", "check_alpha", "check_probability", "check_number", "shown", "as_real"]
 
 
 def shown(value: Any) -> str:
@@ -28,14 +28,21 @@ def shown(value: Any) -> str:
     return str(value)
 
 
+def as_real(value: Any) -> float | None:
+    """The value as a float, or None when it is not a number (text, blank, a logical value)."""
+    if isinstance(value, bool) or value is None or isinstance(value, str):
+        return None
+    try:
+        return float(value)
+    except (TypeError, ValueError):
+        return None
+
+
 def check_number(value: Any, name: str) -> float:
     """A finite real number, or an InputError that names the argument."""
-    if isinstance(value, bool) or value is None or isinstance(value, str):
+    v = as_real(value)
+    if v is None:
         raise InputError(f"sheetfuncs: {name} must be a number, not {shown(value)}")
-    try:
-        v = float(value)
-    except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: {name} must be a number, not {shown(value)}") from None
     if not math.isfinite(v):
         raise InputError(f"sheetfuncs: {name} must be a finite number, not {shown(value)}")
     return v
@@ -43,7 +50,9 @@ def check_number(value: Any, name: str) -> float:
 
 def check_probability(value: Any, name: str, example: str) -> float:
     """A number strictly between 0 and 1."""
-    v = check_number(value, name)
+    v = as_real(value)
+    if v is None:
+        raise InputError(f"sheetfuncs: {name} must be a number, not {shown(value)}")
     if not (0.0 < v < 1.0):
         raise InputError(
             f"sheetfuncs: {name} must lie strictly between 0 and 1 (e.g. {example}), not {shown(value)}"

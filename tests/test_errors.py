@@ -161,7 +161,7 @@ def test_other_option_errors_are_one_line_too():
     (None, "sheetfuncs: alpha must be a number, not blank"),
     ("0.05", "sheetfuncs: alpha must be a number, not \"0.05\""),
     (True, "sheetfuncs: alpha must be a number, not TRUE"),
-    (math.inf, "sheetfuncs: alpha must be a finite number, not inf"),
+    (math.inf, "sheetfuncs: alpha must lie strictly between 0 and 1 (e.g. 0.05), not inf"),
     (0.0, "sheetfuncs: alpha must lie strictly between 0 and 1 (e.g. 0.05), not 0"),
     (5, "sheetfuncs: alpha must lie strictly between 0 and 1 (e.g. 0.05), not 5"),
 ])
