@@ -23,6 +23,7 @@ from scipy import stats
 from xlwings import conversion
 from xlwings.main import Engine
 
+import ranges
 import sheetfuncs as sf
 from sheetfuncs import harness
 from sheetfuncs.harness import BLANK, CALC, DIV0, MISSING, NA, REF, SPILL, VALUE, call, column, is_message
@@ -191,27 +192,11 @@ POOLING = ("x", "y", "x")
 WEIGHTS = (1.0, -0.5, -0.5)
 
 
-def wide(groups: dict[str, list[float]], header: bool = True) -> list[list[Any]]:
-    labels = list(groups)
-    n = max(len(v) for v in groups.values())
-    rows = [labels] if header else []
-    for i in range(n):
-        rows.append([groups[k][i] if i < len(groups[k]) else None for k in labels])
-    return rows
-
-
 def long(groups: dict[str, list[float]], header: bool = True) -> list[list[Any]]:
-    rows = [["Line", "Deviation"]] if header else []
-    for k, vals in groups.items():
-        rows += [[k, v] for v in vals]
-    return rows
+    return ranges.long(groups, header, names=("Line", "Deviation"))
 
 
-def rowwise(groups: dict[str, list[float]], header: bool = True) -> list[list[Any]]:
-    n = max(len(v) for v in groups.values())
-    return [([k] if header else []) + v + [None] * (n - len(v)) for k, v in groups.items()]
-
-
+wide, rowwise = ranges.wide, ranges.rowwise
 LAYOUTS = {"wide": wide, "long": long, "rowwise": rowwise}
 
 

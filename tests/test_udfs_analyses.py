@@ -26,6 +26,7 @@ import numpy as np
 import pytest
 from scipy import stats
 
+import ranges
 from sheetfuncs.alternatives import brown_forsythe, kruskal, welch
 from sheetfuncs.assumptions import bartlett, checks, levene, shapiro_residuals
 from sheetfuncs.effects import effect_sizes
@@ -77,27 +78,11 @@ GROUPS = {
 DEFAULT_NAMES = ["Group 1", "Group 2", "Group 3"]
 
 
-def wide(groups: dict[str, list[float]], header: bool = True) -> list[list[Any]]:
-    labels = list(groups)
-    n = max(len(v) for v in groups.values())
-    rows = [labels] if header else []
-    for i in range(n):
-        rows.append([groups[k][i] if i < len(groups[k]) else None for k in labels])
-    return rows
-
-
 def long(groups: dict[str, list[float]], header: bool = True) -> list[list[Any]]:
-    rows = [["Jaw", "Seal strength"]] if header else []
-    for k, vals in groups.items():
-        rows += [[k, v] for v in vals]
-    return rows
+    return ranges.long(groups, header, names=("Jaw", "Seal strength"))
 
 
-def rowwise(groups: dict[str, list[float]], header: bool = True) -> list[list[Any]]:
-    n = max(len(v) for v in groups.values())
-    return [([k] if header else []) + v + [None] * (n - len(v)) for k, v in groups.items()]
-
-
+wide, rowwise = ranges.wide, ranges.rowwise
 LAYOUTS = {"wide": wide, "long": long, "rowwise": rowwise}
 
 
