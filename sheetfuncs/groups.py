@@ -18,8 +18,10 @@ import datetime as _dt
 import decimal
 import math
 import numbers
+import struct
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
+from itertools import chain
 from typing import Any
 
 import numpy as np
@@ -403,7 +405,62 @@ def groups_from_range(cells: Any, layout: str = "wide", labels: Any = "auto") ->
     ``layout`` is ``"wide"`` (one group per column), ``"long"`` (label column, value column) or
     ``"rowwise"`` (one group per row). ``labels`` is ``"auto"``, ``True`` or ``False``; see the
     project guide for the exact rules.
+
+    A range whose data cells are all floats or blanks (the usual case) is read in one block
+    (:func:`_plain_block`); any other range is read cell by cell. Both give the same result.
     """
+    return _read_range(cells, layout, labels, block=True)
+
+
+_NONE_TYPE = type(None)
+
+
+def _plain_block(rows: Sequence[Sequence[Any]], start: int, transpose: bool) -> list[np.ndarray] | None:
+    """The numbers of every line (column, or row when ``transpose``) in one pass, or ``None``.
+
+    Used only when every data cell (from ``start`` on in each line) is a ``float`` or ``None``
+    and no float is NaN or infinite; then the range rules reduce to "drop the blanks", and the
+    result is the same as reading cell by cell. Anything else (text, logical values, errors,
+    dates, ints, Decimals, NaN or infinity) returns ``None`` and the caller reads cell by cell,
+    which records or rejects each such cell with its position.
+    """
+    if transpose:
+        data = rows if start == 0 else [r[start:] for r in rows]
+        width = len(rows[0]) - start
+    else:
+        data = rows[start:]
+        width = len(rows[0])
+    n = len(data) * width
+    if n == 0:
+        return None
+    kinds = list(map(type, chain.from_iterable(data)))  # one C-speed pass over the cells
+    if len(kinds) != n:
+        return None
+    n_float = kinds.count(float)  # cheap: the identity test settles every float
+    if n_float == n:
+        # all floats: packed straight into doubles (exact: the stored double, unchanged)
+        flat = np.frombuffer(struct.pack(f"{n}d", *chain.from_iterable(data)), dtype=np.float64)
+        if not np.isfinite(flat).all():
+            return None  # NaN or infinity: rejected with its position cell by cell
+        table = flat.reshape(len(data), width)
+        lines = table.T if not transpose else table
+        return [ln.copy() for ln in lines]
+    n_blank = kinds.count(_NONE_TYPE)
+    if n_float + n_blank != n:
+        return None
+    flat = np.fromiter(chain.from_iterable(data), dtype=np.float64, count=n)  # None -> NaN
+    blank = np.isnan(flat)
+    if int(np.count_nonzero(blank)) != n_blank or np.isinf(flat).any():
+        return None  # a genuine NaN (more NaNs than blanks) or an infinity
+    table = flat.reshape(len(data), width)
+    keep = ~blank.reshape(len(data), width)
+    if not transpose:
+        table, keep = table.T, keep.T
+    return [ln[k] for ln, k in zip(table, keep)]
+
+
+def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
+    """:func:`groups_from_range`; ``block=False`` reads every range cell by cell (for tests)."""
     lay = _parse_layout(layout)
     lab = _parse_labels_arg(labels)
     rows = _as_rows(cells)
@@ -412,11 +469,11 @@ def groups_from_range(cells: Any, layout: str = "wide", labels: Any = "auto") ->
     if lay == "long":
         return _from_long_rows(rows, lab)
     transpose = lay == "rowwise"
-    lines = rows if transpose else list(zip(*rows))
     col = _Collector(transpose)
 
     # label line: the first cell of every line
-    heads = [ln[0] for ln in lines]
+    heads = [r[0] for r in rows] if transpose else list(rows[0])
+    line_length = len(rows[0]) if transpose else len(rows)
     for i, h in enumerate(heads):
         if _error_text(h) is not None:
             col.add(i, 0, "error", _error_text(h), "rejected")
@@ -426,21 +483,27 @@ def groups_from_range(cells: Any, layout: str = "wide", labels: Any = "auto") ->
         has_labels = bool(nonblank) and all(_is_labelish_text(h) for h in nonblank)
     else:
         has_labels = lab == "yes"
-    if has_labels and len(lines[0]) < 2 and lab == "auto":
+    if has_labels and line_length < 2 and lab == "auto":
         has_labels = False  # a single row of text is data (all ignored) rather than labels
     start = 1 if has_labels else 0
+
+    values = _plain_block(rows, start, transpose) if block else None
+    if values is not None:
+        blank_lines = [a.size == 0 for a in values]  # only floats and blanks: no float, all blank
+    else:
+        lines = rows if transpose else list(zip(*rows))
+        values = [_line_values(ln, i, start, col) for i, ln in enumerate(lines)]
+        blank_lines = [all(v is None or v == "" for v in ln[start:]) for ln in lines]
 
     raw_labels: list[str | None] = []
     arrays: list[np.ndarray] = []
     positions: list[int] = []
-    for i, ln in enumerate(lines):
-        arr = _line_values(ln, i, start, col)
+    for i, (arr, data_blank) in enumerate(zip(values, blank_lines)):
         label = None
         if has_labels:
-            h = ln[0]
+            h = heads[i]
             if not (h is None or (isinstance(h, str) and h.strip() == "")):
                 label = format_label(h)
-        data_blank = all(v is None or v == "" for v in ln[start:])
         if data_blank and label is None:
             continue  # an entirely blank column (or row): the range was drawn larger
         raw_labels.append(label)
