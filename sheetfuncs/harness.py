@@ -47,7 +47,7 @@ import decimal
 import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
-from itertools import chain
+from itertools import chain, filterfalse
 from typing import Any
 
 import numpy as np
@@ -120,8 +120,10 @@ NA, DIV0, VALUE, REF, NAME, NUM, NULL, SPILL, CALC = (
     ErrorCell(n) for n in ("#N/A", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#NULL!", "#SPILL!", "#CALC!")
 )
 
-_PLAIN = {float, type(None)}
-_PLAIN_OR_TEXT = {float, type(None), str}
+#: Cell types that the host hand-over and the cleaning leave exactly as they are (``""`` aside,
+#: which becomes ``None``): the per-cell routine is the identity on them.
+_PLAIN = frozenset({float, type(None)})
+_UNCHANGED = frozenset({float, type(None), bool, str, decimal.Decimal})
 
 
 def host_value(v: Any) -> Any:
@@ -166,19 +168,45 @@ def _as_rows(value: Sequence[Any]) -> list[Sequence[Any]]:
     return list(value)
 
 
+def _unchanged(cells: Iterable[Any], kinds: set[type]) -> bool:
+    """Would the per-cell routine leave every one of ``cells`` (whose types are ``kinds``) alone?"""
+    if kinds <= _PLAIN:
+        return True
+    # the other unchanged types, except the empty string (a blank: it becomes None); only falsy
+    # cells can be "", and filterfalse finds them at C speed
+    return kinds <= _UNCHANGED and "" not in filterfalse(None, cells)
+
+
+def _clean_row(r: Sequence[Any], err_to_str: bool) -> list[Any]:
+    """One row as the Windows engine cleans it: host value, then cleaning, cell by cell."""
+    if _unchanged(r, set(map(type, r))):
+        return list(r)
+    return [_clean(host_value(v), err_to_str) for v in r]
+
+
+def _clean_rows(rows: list[Sequence[Any]], err_to_str: bool) -> list[list[Any]]:
+    """Every row cleaned (lists of cells), with no per-cell work where it would change nothing.
+
+    The first row (often a row of labels) is checked on its own; the others in one C-speed
+    pass over their cell types. When all of them are floats (the usual block of measurements)
+    or otherwise unchanged, they are only copied into lists; else each row is checked alone.
+    """
+    out = [_clean_row(rows[0], err_to_str)]
+    rest = rows[1:]
+    if rest:
+        kinds = list(map(type, chain.from_iterable(rest)))
+        if kinds.count(float) == len(kinds) or _unchanged(chain.from_iterable(rest), set(kinds)):
+            out += map(list, rest)
+        else:
+            out += [_clean_row(r, err_to_str) for r in rest]
+    return out
+
+
 def read_argument(value: Any, options: dict[str, Any]) -> Any:
     """One argument as the worksheet function receives it, for the xlwings ``options`` declared."""
     err_to_str = bool(options.get("err_to_str", False))
     if isinstance(value, (list, tuple)):
-        rows = _as_rows(value)
-        types = set(map(type, chain.from_iterable(rows)))
-        if types <= _PLAIN:
-            cleaned = list(map(list, rows))  # host value and cleaning leave these as they are
-        elif types <= _PLAIN_OR_TEXT:
-            # the same, except that an empty string is a blank
-            cleaned = [list(r) if "" not in r else [None if v == "" else v for v in r] for r in rows]
-        else:
-            cleaned = [[_clean(host_value(v), err_to_str) for v in r] for r in rows]
+        cleaned = _clean_rows(_as_rows(value), err_to_str)
     else:
         cleaned = [[_clean(host_value(value), err_to_str)]]
     ndim = options.get("ndim")
