@@ -212,3 +212,35 @@ def test_ints_bools_and_error_codes_are_not_read_as_floats() -> None:
         groups_from_range([["A", "B"], [1.0, 2.0], [2.0, NA_CODE]])
     with pytest.raises(InputError, match="the error #N/A"):
         groups_from_range([["A", "B"], [1.0, "#N/A"], [2.0, 3.0]])
+
+
+# --------------------------------------------------------------------------------------------
+# the harness's read, which skips per-cell work on rows it leaves unchanged, against xlwings'
+# own pipeline (reference library; Windows engine stand-in from tests/test_harness.py)
+
+from test_harness import _com, xlwings_pipeline  # noqa: E402,F401  (the fixture and COM hand-over)
+
+from sheetfuncs import harness  # noqa: E402
+
+HOST_CELLS = st.one_of(
+    FLOATS, FLOATS, FLOATS, st.none(),
+    st.sampled_from(["", "Zone A", " ", "0", True, False, 0, 4, decimal.Decimal("0"),
+                     decimal.Decimal("2.50"), dt.date(2024, 3, 1), dt.datetime(2024, 3, 1, 8, 30),
+                     harness.NA, harness.SPILL, harness.DIV0, np.float64(1.5)]),
+)
+
+
+@settings(max_examples=300)
+@given(
+    st.integers(1, 5).flatmap(
+        lambda w: st.lists(st.lists(HOST_CELLS, min_size=w, max_size=w), min_size=1, max_size=6)
+    ),
+    st.sampled_from([{"ndim": 2, "err_to_str": True}, {"ndim": 2}, {"err_to_str": True}]),
+)
+def test_harness_read_matches_xlwings_on_random_blocks(xlwings_pipeline, block, options) -> None:
+    expected = xlwings_pipeline.read(None, _com(block), dict(options))
+    got = harness.read_argument(block, options)
+    assert got == expected and type(got) is type(expected)
+    if options.get("ndim") == 2:
+        assert all(type(r) is list for r in got)
+        assert all(r is not b for r, b in zip(got, block))  # new lists, the caller's left alone
