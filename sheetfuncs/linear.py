@@ -25,7 +25,7 @@ from scipy import stats
 from .errors import InputError
 from .fdist import f_tail
 from .groups import Groups, as_groups, format_label
-from .moments import check_float_zero_spread, check_ss_range, compute_moments
+from .moments import check_float_zero_spread, check_ss_range, compute_moments, rounded
 from .oneway import require_two_groups
 from .validate import as_real, check_conf, shown
 
@@ -138,7 +138,7 @@ def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = Non
             )
         f = math.inf
     else:
-        f = float(num / (ss_full_x / df_full))
+        f = rounded(num / (ss_full_x / df_full))
     p = 0.0 if math.isinf(f) else f_tail(max(f, 0.0), df_red - df_full, df_full)
     pools = tuple((lab, tuple(g.labels[i] for i in idx)) for lab, idx in order.items())
     return LinearTestResult(
@@ -169,6 +169,14 @@ class ContrastResult:
         ]
 
 
+def _scale_back(v: float, e: int) -> float:
+    """``v * 2**e`` exactly, or an infinity of v's sign beyond the largest double."""
+    try:
+        return math.ldexp(v, e)
+    except OverflowError:
+        return math.copysign(math.inf, v)
+
+
 def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: bool | None = None) -> ContrastResult:
     """Estimate, test and interval for the contrast with the given weights (one per group, summing to 0)."""
     g = as_groups(groups)
@@ -183,13 +191,19 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
         if not math.isfinite(fv):
             raise InputError(f'sheetfuncs: the weight for group "{g.labels[i]}" is not finite')
         w.append(fv)
-    abs_sum = math.fsum(abs(x) for x in w)
-    total = math.fsum(w)
+    if all(x == 0 for x in w):
+        raise InputError("sheetfuncs: all contrast weights are zero; give weights such as 1, -1, 0")
+    # Work with the weights scaled by a power of two (exact) so that their largest is near 1:
+    # t, p and the verdict do not depend on the scale; estimate, SE and interval scale back.
+    e = math.frexp(max(abs(x) for x in w))[1]
+    ws = [math.ldexp(x, -e) for x in w]
+    abs_sum = math.fsum(abs(x) for x in ws)
+    total = math.fsum(ws)
     if abs_sum == 0:
         raise InputError("sheetfuncs: all contrast weights are zero; give weights such as 1, -1, 0")
     if abs(total) > 1e-12 * abs_sum:
         raise InputError(
-            f"sheetfuncs: contrast weights must sum to zero, but they sum to {total:.6g}; "
+            f"sheetfuncs: contrast weights must sum to zero, but they sum to {math.fsum(w):.6g}; "
             "adjust them (e.g. 1, -0.5, -0.5)"
         )
     mom = compute_moments(g, exact)
@@ -205,14 +219,14 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     if not mom.exact:
         check_float_zero_spread(g, ssw, within=True)
     if mom.exact:
-        est_x = sum(Fraction(wi) * mom.mean(i) for i, wi in enumerate(w))
-        var_x = ssw / df * sum(Fraction(wi) ** 2 / g.counts[i] for i, wi in enumerate(w))
-        est = float(est_x)
-        se = math.sqrt(float(var_x))
+        est_x = sum(Fraction(wi) * mom.mean(i) for i, wi in enumerate(ws))
+        var_x = ssw / df * sum(Fraction(wi) ** 2 / g.counts[i] for i, wi in enumerate(ws))
+        est = rounded(est_x)
+        se = math.sqrt(rounded(var_x))
     else:
         diffs = mom.mean_differences(0)  # sum(w) is ~0, so the common part cancels exactly
-        est = math.fsum(wi * diffs[i] for i, wi in enumerate(w)) + total * mom.mean(0)
-        se = math.sqrt(float(ssw) / df * math.fsum(wi * wi / g.counts[i] for i, wi in enumerate(w)))
+        est = math.fsum(wi * diffs[i] for i, wi in enumerate(ws)) + total * mom.mean(0)
+        se = math.sqrt(float(ssw) / df * math.fsum(wi * wi / g.counts[i] for i, wi in enumerate(ws)))
     if se == 0:
         if est == 0:
             raise InputError(
@@ -225,7 +239,9 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
         t = est / se
         p = float(2.0 * stats.t.sf(abs(t), df))
     q = float(stats.t.isf((1.0 - c) / 2.0, df))
+    lo, hi = est - q * se, est + q * se
+    est, se, lo, hi = (_scale_back(v, e) for v in (est, se, lo, hi))
     return ContrastResult(
         weights=tuple(w), estimate=est, se=se, t=t, df=df, p=min(p, 1.0),
-        ci_low=est - q * se, ci_high=est + q * se, conf=c,
+        ci_low=lo, ci_high=hi, conf=c,
     )

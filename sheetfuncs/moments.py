@@ -51,6 +51,14 @@ _SAMPLE_PER_GROUP = 64
 MAX_DIGITS = 15
 
 
+def rounded(x: Fraction | float) -> float:
+    """``x`` rounded once to the nearest double; ``+-inf`` beyond the largest one."""
+    try:
+        return float(x)
+    except OverflowError:
+        return math.inf if x > 0 else -math.inf
+
+
 def decimal_parts(x: float) -> tuple[int, int, int]:
     """``(integer, exponent, significant digits)`` of the shortest round-trip decimal of x."""
     d = decimal.Decimal(repr(float(x)))

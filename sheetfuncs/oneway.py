@@ -26,7 +26,7 @@ from .fdist import f_tail
 from .groups import Groups, as_groups, format_label
 from .moments import (
     ExactMoments, FloatMoments, check_float_zero_spread, check_ss_range, compute_moments,
-    decimal_parts,
+    decimal_parts, rounded,
 )
 
 __all__ = ["OneWayResult", "oneway", "oneway_from_moments", "oneway_from_summary", "require_two_groups"]
@@ -117,7 +117,7 @@ def _finish(
     if exact:
         msb_x = ssb / dfb
         msw_x = ssw / dfw
-        f = math.inf if ssw == 0 else float(msb_x / msw_x)
+        f = math.inf if ssw == 0 else rounded(msb_x / msw_x)
         r2 = float(ssb / sst)
         msw = float(msw_x)
         fields = dict(

@@ -385,10 +385,16 @@ def _shape(value: Any, result: str) -> Any:
     return [r + [None] * (width - len(r)) for r in rows]
 
 
+_MESSAGE_MAX = 1000
+
+
 def _message(err: InputError) -> str:
     """An input problem as the one line of text the cell shows."""
     text = " ".join(str(err).split())
-    return text if text.startswith("sheetfuncs: ") else f"sheetfuncs: {text}"
+    if not text.startswith("sheetfuncs: "):
+        text = f"sheetfuncs: {text}"
+    # a cell holds at most 32,767 characters; a message quoting a huge label is cut short
+    return text if len(text) <= _MESSAGE_MAX else text[: _MESSAGE_MAX - 1] + "…"
 
 
 # --------------------------------------------------------------------------------------------
