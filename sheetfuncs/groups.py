@@ -415,6 +415,11 @@ def groups_from_range(cells: Any, layout: str = "wide", labels: Any = "auto") ->
 _NONE_TYPE = type(None)
 
 
+#: Cells per block of rows in :func:`_plain_block`: small enough that a block's cells are still
+#: in the processor's cache when the second pass over them (the conversion) runs.
+_BLOCK_CELLS = 8192
+
+
 def _plain_block(rows: Sequence[Sequence[Any]], start: int, transpose: bool) -> list[np.ndarray] | None:
     """The numbers of every line (column, or row when ``transpose``) in one pass, or ``None``.
 
@@ -423,6 +428,10 @@ def _plain_block(rows: Sequence[Sequence[Any]], start: int, transpose: bool) -> 
     result is the same as reading cell by cell. Anything else (text, logical values, errors,
     dates, ints, Decimals, NaN or infinity) returns ``None`` and the caller reads cell by cell,
     which records or rejects each such cell with its position.
+
+    The rows are taken in blocks of about :data:`_BLOCK_CELLS` cells: the cell types of a block
+    in one C-speed pass (a float is settled by an identity test), then its values packed as
+    doubles (all floats) or converted with blanks as NaN.
     """
     if transpose:
         data = rows if start == 0 else [r[start:] for r in rows]
@@ -430,29 +439,35 @@ def _plain_block(rows: Sequence[Sequence[Any]], start: int, transpose: bool) -> 
     else:
         data = rows[start:]
         width = len(rows[0])
-    n = len(data) * width
-    if n == 0:
+    if not data or width <= 0:
         return None
-    kinds = list(map(type, chain.from_iterable(data)))  # one C-speed pass over the cells
-    if len(kinds) != n:
-        return None
-    n_float = kinds.count(float)  # cheap: the identity test settles every float
-    if n_float == n:
-        # all floats: packed straight into doubles (exact: the stored double, unchanged)
-        flat = np.frombuffer(struct.pack(f"{n}d", *chain.from_iterable(data)), dtype=np.float64)
+    step = max(1, _BLOCK_CELLS // width)
+    packed: list[bytes] = []
+    n_blank = 0
+    for i in range(0, len(data), step):
+        part = data[i:i + step]
+        m = len(part) * width
+        kinds = list(map(type, chain.from_iterable(part)))
+        if len(kinds) != m:
+            return None
+        n_float = kinds.count(float)
+        if n_float == m:  # the stored doubles, unchanged
+            packed.append(struct.pack(f"{m}d", *chain.from_iterable(part)))
+            continue
+        nb = kinds.count(_NONE_TYPE)
+        if n_float + nb != m:
+            return None
+        n_blank += nb
+        packed.append(np.fromiter(chain.from_iterable(part), dtype=np.float64, count=m).tobytes())
+    flat = np.frombuffer(b"".join(packed), dtype=np.float64)  # None became NaN
+    table = flat.reshape(len(data), width)
+    if not n_blank:
         if not np.isfinite(flat).all():
             return None  # NaN or infinity: rejected with its position cell by cell
-        table = flat.reshape(len(data), width)
-        lines = table.T if not transpose else table
-        return [ln.copy() for ln in lines]
-    n_blank = kinds.count(_NONE_TYPE)
-    if n_float + n_blank != n:
-        return None
-    flat = np.fromiter(chain.from_iterable(data), dtype=np.float64, count=n)  # None -> NaN
+        return [ln.copy() for ln in (table if transpose else table.T)]
     blank = np.isnan(flat)
     if int(np.count_nonzero(blank)) != n_blank or np.isinf(flat).any():
         return None  # a genuine NaN (more NaNs than blanks) or an infinity
-    table = flat.reshape(len(data), width)
     keep = ~blank.reshape(len(data), width)
     if not transpose:
         table, keep = table.T, keep.T

@@ -184,21 +184,27 @@ def _clean_row(r: Sequence[Any], err_to_str: bool) -> list[Any]:
     return [_clean(host_value(v), err_to_str) for v in r]
 
 
+#: Cells per block of rows in :func:`_clean_rows` (a block stays in the processor's cache).
+_BLOCK_CELLS = 8192
+
+
 def _clean_rows(rows: list[Sequence[Any]], err_to_str: bool) -> list[list[Any]]:
     """Every row cleaned (lists of cells), with no per-cell work where it would change nothing.
 
-    The first row (often a row of labels) is checked on its own; the others in one C-speed
-    pass over their cell types. When all of them are floats (the usual block of measurements)
-    or otherwise unchanged, they are only copied into lists; else each row is checked alone.
+    The first row (often a row of labels) is checked on its own; the others in blocks of rows,
+    one C-speed pass over a block's cell types. When all of them are floats (the usual block of
+    measurements) or otherwise unchanged, the rows are only copied into lists; else each row of
+    the block is checked alone.
     """
     out = [_clean_row(rows[0], err_to_str)]
-    rest = rows[1:]
-    if rest:
-        kinds = list(map(type, chain.from_iterable(rest)))
-        if kinds.count(float) == len(kinds) or _unchanged(chain.from_iterable(rest), set(kinds)):
-            out += map(list, rest)
+    step = max(1, _BLOCK_CELLS // len(rows[0]))
+    for i in range(1, len(rows), step):
+        part = rows[i:i + step]
+        kinds = list(map(type, chain.from_iterable(part)))
+        if kinds.count(float) == len(kinds) or _unchanged(chain.from_iterable(part), set(kinds)):
+            out += map(list, part)
         else:
-            out += [_clean_row(r, err_to_str) for r in rest]
+            out += [_clean_row(r, err_to_str) for r in part]
     return out
 
 

@@ -17,6 +17,7 @@ import datetime as dt
 import decimal
 import math
 from typing import Any
+from unittest import mock
 
 import numpy as np
 import pytest
@@ -24,6 +25,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from sheetfuncs import InputError, groups_from_range
+import sheetfuncs.groups as groups_module
 from sheetfuncs.groups import _plain_block, _read_range
 
 NA_CODE = -2146826246  # #N/A as an unconverted COM error code (0x800A0000 + 2042, from memory)
@@ -122,11 +124,15 @@ def mixed_ranges(draw) -> tuple[list[list[Any]], str, Any, tuple[int, int]]:
 # properties
 
 
+BLOCK_SIZES = st.sampled_from([1, 2, 3, 5, 8192])  # cells per block of rows: many blocks, or one
+
+
 @settings(max_examples=400)
-@given(plain_ranges())
-def test_block_read_equals_cell_read_on_floats_and_blanks(case) -> None:
+@given(plain_ranges(), BLOCK_SIZES)
+def test_block_read_equals_cell_read_on_floats_and_blanks(case, block_cells) -> None:
     rows, layout, labels, _ = case
-    _assert_same(rows, layout, labels)
+    with mock.patch.object(groups_module, "_BLOCK_CELLS", block_cells):
+        _assert_same(rows, layout, labels)
 
 
 @settings(max_examples=200)
@@ -159,10 +165,11 @@ def test_groups_from_range_uses_the_block_read(monkeypatch) -> None:
 
 
 @settings(max_examples=400)
-@given(mixed_ranges())
-def test_other_cells_take_the_cell_read(case) -> None:
+@given(mixed_ranges(), BLOCK_SIZES)
+def test_other_cells_take_the_cell_read(case, block_cells) -> None:
     rows, layout, labels, (r, c) = case
-    _assert_same(rows, layout, labels)
+    with mock.patch.object(groups_module, "_BLOCK_CELLS", block_cells):
+        _assert_same(rows, layout, labels)
     start = _data_start(rows, layout, labels)
     if start is None:
         return  # refused (an error cell, a NaN, a group with no numbers ...): compared above
@@ -174,12 +181,13 @@ def test_other_cells_take_the_cell_read(case) -> None:
 
 
 @settings(max_examples=100)
-@given(plain_ranges(with_header=True))
-def test_nan_beside_blanks_is_still_rejected(case) -> None:
+@given(plain_ranges(with_header=True), BLOCK_SIZES)
+def test_nan_beside_blanks_is_still_rejected(case, block_cells) -> None:
     rows, layout, _, _ = case
     rows = [list(r) for r in rows]
     rows[-1][-1] = math.nan  # a genuine NaN in the last data cell, blanks possibly elsewhere
-    fast = _assert_same(rows, layout, False)
+    with mock.patch.object(groups_module, "_BLOCK_CELLS", block_cells):
+        fast = _assert_same(rows, layout, False)
     assert fast[0] == "error" and "NaN" in fast[1]
     assert fast[2] == ((len(rows) - 1, len(rows[0]) - 1),)
 
@@ -202,6 +210,32 @@ def test_examples_through_the_block_read() -> None:
         groups_from_range([["Zone A", "Zone B"], [1.5, None], [2.0, -math.inf]])
     with pytest.raises(InputError, match=r"NaN \(not a number\) at row 2, column 1"):
         groups_from_range([[2.0, None], [math.nan, 1.0], [None, 3.0]], labels=False)
+
+
+def _large_range(n_rows: int = 6000, n_cols: int = 4) -> list[list[Any]]:
+    """Invented measurements with blanks, a header row, well over one block of rows."""
+    rng = np.random.default_rng(7)
+    values = np.round(rng.normal(20.0, 1.5, (n_rows, n_cols)), 2).tolist()
+    for r, c in zip(rng.integers(2000, n_rows, 300), rng.integers(0, n_cols, 300)):
+        values[r][c] = None  # blanks only after the first blocks, which are all floats
+    return [[f"Oven {j + 1}" for j in range(n_cols)]] + values
+
+
+@pytest.mark.parametrize("layout", ["wide", "rowwise"])
+def test_large_ranges_over_many_blocks(layout: str) -> None:
+    rows = _large_range()
+    if layout == "rowwise":
+        rows = [list(r) for r in zip(*rows)]
+    assert _plain_block(rows, 1, layout == "rowwise") is not None
+    _assert_same(rows, layout, "auto")
+    late = (5500, 2) if layout == "wide" else (2, 5500)
+    for bad in ("n/a", True, math.nan, -math.inf, 4, "#N/A"):
+        changed = [list(r) for r in rows]
+        changed[late[0]][late[1]] = bad  # in a late block: that block, not the first, decides
+        assert _plain_block(changed, 1, layout == "rowwise") is None
+        outcome = _assert_same(changed, layout, "auto")
+        if bad in ("#N/A",) or (isinstance(bad, float) and not math.isfinite(bad)):
+            assert outcome[0] == "error" and outcome[2] == (late,)
 
 
 def test_ints_bools_and_error_codes_are_not_read_as_floats() -> None:
@@ -230,16 +264,29 @@ HOST_CELLS = st.one_of(
 )
 
 
+def test_harness_read_matches_xlwings_on_a_large_block(xlwings_pipeline) -> None:
+    rows = _large_range(4000, 3)
+    rows[2500][1] = ""  # a blank given as empty text, in a late block of rows
+    rows[3100][0] = harness.NA
+    rows[3900][2] = dt.date(2024, 3, 1)
+    for block in (rows, rows[:2400]):  # with and without the cells that need cleaning
+        for options in ({"ndim": 2, "err_to_str": True}, {"ndim": 2}):
+            expected = xlwings_pipeline.read(None, _com(block), dict(options))
+            assert harness.read_argument(block, options) == expected
+
+
 @settings(max_examples=300)
 @given(
     st.integers(1, 5).flatmap(
         lambda w: st.lists(st.lists(HOST_CELLS, min_size=w, max_size=w), min_size=1, max_size=6)
     ),
     st.sampled_from([{"ndim": 2, "err_to_str": True}, {"ndim": 2}, {"err_to_str": True}]),
+    BLOCK_SIZES,
 )
-def test_harness_read_matches_xlwings_on_random_blocks(xlwings_pipeline, block, options) -> None:
+def test_harness_read_matches_xlwings_on_random_blocks(xlwings_pipeline, block, options, block_cells) -> None:
     expected = xlwings_pipeline.read(None, _com(block), dict(options))
-    got = harness.read_argument(block, options)
+    with mock.patch.object(harness, "_BLOCK_CELLS", block_cells):
+        got = harness.read_argument(block, options)
     assert got == expected and type(got) is type(expected)
     if options.get("ndim") == 2:
         assert all(type(r) is list for r in got)
