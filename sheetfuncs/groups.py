@@ -18,6 +18,7 @@ import datetime as _dt
 import decimal
 import math
 import numbers
+import operator
 import struct
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
@@ -260,7 +261,12 @@ def _as_rows(cells: Any) -> list[Sequence[Any]]:
     rows = list(cells)
     if not rows:
         return []
-    if set(map(type, rows)) <= {list, tuple} and len(set(map(len, rows))) == 1:
+    first = type(rows[0])
+    if (
+        (first is list or first is tuple)
+        and operator.countOf(map(type, rows), first) == len(rows)
+        and operator.countOf(map(len, rows), len(rows[0])) == len(rows)
+    ) or (set(map(type, rows)) <= {list, tuple} and len(set(map(len, rows))) == 1):
         return rows  # the usual case, a rectangle of rows: read as they are, never modified
     if all(not isinstance(r, (Sequence, np.ndarray)) or isinstance(r, str) for r in rows):
         # a flat list of cells: one column
