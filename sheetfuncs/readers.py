@@ -68,6 +68,7 @@ __all__ = [
     "check_archive",
     "openpyxl_uses_defusedxml",
     "input_kind",
+    "workbook_properties",
 ]
 
 #: Default limit on the total uncompressed size of a workbook (and on the size of a CSV file).
@@ -147,6 +148,15 @@ class RangeRef:
     sheet: str | None = None
 
     def a1(self, last_row: int | None = None, last_col: int | None = None) -> str:
+        """The reference in A1 form; an open side is closed at ``last_row``/``last_col`` when
+        given, else written as the host writes it (``B:E`` for whole columns, ``2:40`` for
+        whole rows)."""
+        if self.max_row is None and last_row is None and self.min_row == 1:
+            c2 = self.max_col if self.max_col is not None else (last_col or self.min_col)
+            return f"{column_letters(self.min_col)}:{column_letters(c2)}"
+        if self.max_col is None and last_col is None and self.min_col == 1:
+            r2 = self.max_row if self.max_row is not None else (last_row or self.min_row)
+            return f"{self.min_row}:{r2}"
         r2 = self.max_row if self.max_row is not None else (last_row or self.min_row)
         c2 = self.max_col if self.max_col is not None else (last_col or self.min_col)
         return _a1(self.min_row, self.min_col, r2, c2)
@@ -262,14 +272,15 @@ def read_cells(
     are read (``done`` and ``total`` count cells; ``total`` is 0 when unknown).
     """
     p = Path(path)
+    if p.is_dir():
+        raise InputError(f"sheetfuncs: {p} is a folder, not a file; give the file to read")
     kind = input_kind(p)
     if not p.exists():
         raise InputError(f"sheetfuncs: {p} does not exist; check the file name and folder")
-    if p.is_dir():
-        raise InputError(f"sheetfuncs: {p} is a folder, not a file; give the file to read")
     if size_limit is None or size_limit <= 0:
         raise InputError("sheetfuncs: the size limit must be a positive number of bytes")
     ref = parse_range(cell_range) if cell_range is not None and cell_range.strip() else None
+    shown = cell_range.strip() if cell_range is not None and cell_range.strip() else None
     name = None
     if cell_range is not None and cell_range.strip() and ref is None:
         name = cell_range.strip()
@@ -282,7 +293,7 @@ def read_cells(
         sheet = ref.sheet
     try:
         if kind == "workbook":
-            return _read_workbook(p, sheet, ref, name, size_limit, progress)
+            return _read_workbook(p, sheet, ref, name, size_limit, progress, shown)
         if sheet is not None:
             raise InputError(
                 f"sheetfuncs: {p.name} is a CSV file, which has no sheets; leave out the sheet"
@@ -292,7 +303,7 @@ def read_cells(
                 f'sheetfuncs: "{name}" is not a range like A1:F40, and a CSV file has no '
                 "defined names"
             )
-        return _read_csv(p, ref, decimal_comma, delimiter, size_limit, progress)
+        return _read_csv(p, ref, decimal_comma, delimiter, size_limit, progress, shown)
     except PermissionError:
         raise InputError(
             f"sheetfuncs: no permission to read {p}; check the file's access rights"
@@ -322,6 +333,13 @@ def read_groups(
         path, sheet=sheet, cell_range=cell_range, decimal_comma=decimal_comma,
         delimiter=delimiter, size_limit=size_limit, progress=progress,
     )
+    if layout in ("wide", "long") and block.n_rows == 1 and all(
+        isinstance(v, str) and v not in ERROR_TEXTS for v in block.rows[0] if not _blank(v)
+    ):
+        raise InputError(
+            f"sheetfuncs: {_where(block)} holds only a row of labels and no values; check that "
+            "it is the right file (or range) and that the data were saved"
+        )
     try:
         groups = groups_from_range(block.rows, layout=layout, labels=labels)
     except InputError as e:
@@ -583,6 +601,68 @@ def _cfb_names(p: Path) -> set[str]:
 
 
 # --------------------------------------------------------------------------------------------
+# document properties
+
+_CORE_REL = "http://schemas.openxmlformats.org/package/2006/relationships/metadata/core-properties"
+_CORE_FIELDS = {
+    "{http://purl.org/dc/elements/1.1/}creator": "creator",
+    "{http://purl.org/dc/elements/1.1/}title": "title",
+    "{http://purl.org/dc/elements/1.1/}subject": "subject",
+    "{http://purl.org/dc/elements/1.1/}description": "description",
+    "{http://schemas.openxmlformats.org/package/2006/metadata/core-properties}keywords": "keywords",
+    "{http://schemas.openxmlformats.org/package/2006/metadata/core-properties}category": "category",
+}
+_CORE_MAX = 1024 * 1024  # a core-properties part is a few hundred bytes
+
+
+def workbook_properties(
+    path: str | os.PathLike[str], size_limit: int = DEFAULT_SIZE_LIMIT
+) -> dict[str, str]:
+    """The core document properties of a workbook (``creator``, ``title``, ``subject``,
+    ``description``, ``keywords``, ``category``; only those present).
+
+    The file passes :func:`check_archive` first (size limit, no document type declaration), and
+    the properties part (found through the package relationships, ECMA-376 Part 2, with
+    ``docProps/core.xml`` as the usual name) is parsed with defusedxml. Raises
+    :class:`InputError` when the file is not a readable workbook; a workbook without a
+    properties part gives an empty dict.
+    """
+    from defusedxml import ElementTree as SafeET
+    from defusedxml import DefusedXmlException
+
+    p = Path(path)
+    if p.is_dir():
+        raise InputError(f"sheetfuncs: {p} is a folder, not a workbook")
+    check_archive(p, size_limit)
+    try:
+        with zipfile.ZipFile(p) as zf:
+            names = set(zf.namelist())
+            part = "docProps/core.xml"
+            if "_rels/.rels" in names and zf.getinfo("_rels/.rels").file_size <= _CORE_MAX:
+                rels = SafeET.fromstring(zf.read("_rels/.rels"))
+                for rel in rels:
+                    if rel.get("Type") == _CORE_REL and rel.get("Target"):
+                        part = rel.get("Target", "").lstrip("/")
+                        break
+            if part not in names or zf.getinfo(part).file_size > _CORE_MAX:
+                return {}
+            root = SafeET.fromstring(zf.read(part))
+    except (DefusedXmlException, SafeET.ParseError, zipfile.BadZipFile, KeyError, OSError,
+            zlib.error, EOFError) as e:
+        if isinstance(e, PermissionError):
+            raise InputError(
+                f"sheetfuncs: no permission to read {p}; check the file's access rights"
+            ) from None
+        raise _damaged(p.name, e) from None
+    out: dict[str, str] = {}
+    for child in root:
+        key = _CORE_FIELDS.get(child.tag)
+        if key is not None:
+            out[key] = (child.text or "").strip()
+    return out
+
+
+# --------------------------------------------------------------------------------------------
 # workbooks
 
 
@@ -699,6 +779,7 @@ def _read_workbook(
     name: str | None,
     size_limit: int,
     progress: Progress | None,
+    shown: str | None = None,
 ) -> CellBlock:
     if not openpyxl_uses_defusedxml():
         raise InputError(
@@ -738,10 +819,13 @@ def _read_workbook(
                 "the data"
                 + (" (--sheet)" if len(wb.sheetnames) > 1 else "")
             )
-        raise InputError(
-            f'sheetfuncs: the range {ref.a1()} of sheet "{title}" in {p.name} is empty; '
-            "check the range"
-        )
+        if name is not None:
+            what = f'the name "{name}" ({_sheet_prefix(title)}{ref.a1()})'
+        elif shown is not None and ref.sheet is not None:
+            what = f"the range {shown}"
+        else:
+            what = f'the range {shown or ref.a1()} of sheet "{title}"'
+        raise InputError(f"sheetfuncs: {what} in {p.name} is empty; check the range")
     if suspects:
         _check_formulas(p, title, suspects, source)
     width = max(len(r) for r in rows)
@@ -805,6 +889,11 @@ def _sheet_rows(ws, ref: RangeRef | None, known, progress: Progress | None, file
 _NONE = type(None)
 _TEXT_TYPES = ("s", "str", "inlineStr")
 _EXACT_INT = 2**53
+
+
+def _sheet_prefix(title: str) -> str:
+    """``'Lot data'!``: a sheet name as it precedes a reference (quoted, as in addresses)."""
+    return "'" + title.replace("'", "''") + "'!"
 
 
 def _addr(sheet: str | None, row: int, col: int) -> str:
@@ -1133,6 +1222,7 @@ def _read_csv(
     delimiter: str | None,
     size_limit: int,
     progress: Progress | None,
+    shown: str | None = None,
 ) -> CellBlock:
     size = p.stat().st_size
     if size > size_limit:
@@ -1202,7 +1292,7 @@ def _read_csv(
     else:
         trimmed, _, fr, fc = _trim(rows, r1, c1, ref, suspects)
     if not trimmed:
-        what = f"the range {ref.a1()} of {p.name}" if ref else p.name
+        what = f"the range {shown or ref.a1()} of {p.name}" if ref else p.name
         raise InputError(f"sheetfuncs: {what} holds no values; check the file and the range")
     source = InputSource(path=str(p), sheet=None, first_row=fr, first_col=fc)
     width = max(len(x) for x in trimmed)

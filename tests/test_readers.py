@@ -28,6 +28,7 @@ from sheetfuncs.readers import (
     parse_range,
     read_cells,
     read_groups,
+    workbook_properties,
 )
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -443,3 +444,75 @@ def test_csv_value_reads_grouped_and_percent_forms(x):
     assert csv_value(f"{x:.3f}%") == float(f"{x:.3f}e-2")  # one rounding, like typed 0.xx
     eu = grouped.replace(",", "_").replace(".", ",").replace("_", ".")
     assert csv_value(eu, decimal_comma=True) == float(f"{x:.3f}")
+
+
+# --------------------------------------------------------------------------------------------
+# empty ranges are named as the user gave them
+
+
+def test_range_reference_written_back_as_the_host_writes_it():
+    assert parse_range("B:B").a1() == "B:B"
+    assert parse_range("$B:$E").a1() == "B:E"
+    assert parse_range("2:40").a1() == "2:40"
+    assert parse_range("C5").a1() == "C5"
+    assert parse_range("B2:E30").a1() == "B2:E30"
+    assert parse_range("B:E").a1(last_row=9) == "B1:E9"
+
+
+def test_empty_range_is_named_as_given(tmp_path):
+    book = make_book(tmp_path / "lots.xlsx", {"Lot data": [["A", "B"], [1.0, 2.0], [3.0, 4.0]]})
+    with pytest.raises(InputError) as ei:
+        read_cells(book, cell_range="D:D")
+    assert str(ei.value) == ('sheetfuncs: the range D:D of sheet "Lot data" in lots.xlsx is '
+                             "empty; check the range")
+    with pytest.raises(InputError, match=r"the range \$F\$2:\$G\$9 of sheet"):
+        read_cells(book, cell_range="$F$2:$G$9")
+    with pytest.raises(InputError) as ei:
+        read_cells(book, cell_range="'Lot data'!7:9")
+    assert str(ei.value).startswith("sheetfuncs: the range 'Lot data'!7:9 in lots.xlsx is empty")
+    wb = openpyxl.load_workbook(book)
+    wb.defined_names["Spare"] = openpyxl.workbook.defined_name.DefinedName(
+        "Spare", attr_text="'Lot data'!$H$1:$H$20")
+    wb.save(book)
+    with pytest.raises(InputError, match=r"""the name "Spare" \('Lot data'!H1:H20\) in lots"""):
+        read_cells(book, cell_range="Spare")
+    csv_path = tmp_path / "lots.csv"
+    csv_path.write_text("A,B\n1,2\n3,4\n", encoding="utf-8")
+    with pytest.raises(InputError) as ei:
+        read_cells(csv_path, cell_range="D:D")
+    assert "the range D:D of lots.csv holds no values" in str(ei.value)
+    assert "D1" not in str(ei.value)
+
+
+def test_header_only_csv_and_folders_without_suffix(tmp_path):
+    p = tmp_path / "header.csv"
+    p.write_text("Lot A,Lot B\n", encoding="utf-8")
+    with pytest.raises(InputError, match="holds only a row of labels and no values"):
+        read_groups(p)
+    (tmp_path / "exports").mkdir()
+    with pytest.raises(InputError, match="exports is a folder, not a file"):
+        read_cells(tmp_path / "exports")
+
+
+# --------------------------------------------------------------------------------------------
+# document properties
+
+
+def test_workbook_properties(tmp_path):
+    wb = openpyxl.Workbook()
+    wb.properties.creator = "QA lab"
+    wb.properties.title = "Lot release"
+    wb.properties.keywords = "lots; release"
+    path = tmp_path / "p.xlsx"
+    wb.save(path)
+    props = workbook_properties(path)
+    assert props["creator"] == "QA lab" and props["title"] == "Lot release"
+    assert props["keywords"] == "lots; release"
+    bare = patch_zip(path, tmp_path / "bare.xlsx", {"docProps/core.xml": None})
+    assert workbook_properties(bare) == {}
+    text = tmp_path / "text.xlsx"
+    text.write_text("A,B\n1,2\n", encoding="utf-8")
+    with pytest.raises(InputError, match="not an .xlsx workbook"):
+        workbook_properties(text)
+    with pytest.raises(InputError, match="more than the"):
+        workbook_properties(path, size_limit=100)
