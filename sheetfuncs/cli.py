@@ -13,6 +13,7 @@ import csv
 import json
 import math
 import os
+import re
 import sys
 import time
 from collections.abc import Sequence
@@ -21,7 +22,7 @@ from pathlib import Path
 from typing import Any, TextIO
 
 from .errors import InputError
-from .readers import DEFAULT_SIZE_LIMIT, LoadedGroups, read_groups
+from .readers import DEFAULT_SIZE_LIMIT, LoadedGroups, read_groups, workbook_properties
 from .source import InputSource
 
 __all__ = ["main", "build_parser", "DEMO_SHEET", "DEFAULT_DEMO_OUTPUT", "BIG_INPUT_CELLS",
@@ -44,6 +45,22 @@ class _UsageError(Exception):
     """A usage problem found after parsing (exit code 2)."""
 
 
+class _Parser(argparse.ArgumentParser):
+    """argparse with usage errors as two short lines: the command's usage, then one line that
+    says what is wrong (with a hint for values that start with a minus sign)."""
+
+    def error(self, message: str) -> None:  # type: ignore[override]
+        text = " ".join(str(message).split())
+        opt = re.match(r"argument (-\w|--[\w-]+)(?:/(--[\w-]+))?: expected one argument", text)
+        if opt:
+            name = opt.group(2) or opt.group(1)
+            text += f'; for a value that starts with "-", write {name}=VALUE (e.g. {name}=-2+3)'
+        cmd = self.prog[len("sheetfuncs"):].strip()
+        where = f"{cmd}: " if cmd else ""
+        self.print_usage(sys.stderr)
+        self.exit(2, f"sheetfuncs: {where}{text} (see: {self.prog} --help)\n")
+
+
 # --------------------------------------------------------------------------------------------
 # parser
 
@@ -52,10 +69,24 @@ def _positive_mb(text: str) -> float:
     try:
         v = float(text)
     except ValueError:
-        raise argparse.ArgumentTypeError(f"must be a number of megabytes, not {text!r}") from None
+        raise argparse.ArgumentTypeError(f'must be a number of megabytes, not "{text}"') from None
     if not math.isfinite(v) or v <= 0:
-        raise argparse.ArgumentTypeError(f"must be a positive number of megabytes, not {text!r}")
+        raise argparse.ArgumentTypeError(f'must be a positive number of megabytes, not "{text}"')
     return v
+
+
+def _real(text: str) -> float:
+    try:
+        return float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f'must be a number, not "{text}"') from None
+
+
+def _whole(text: str) -> int:
+    try:
+        return int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f'must be a whole number, not "{text}"') from None
 
 
 def _methods() -> tuple[str, ...]:
@@ -64,100 +95,181 @@ def _methods() -> tuple[str, ...]:
     return tuple(METHODS)
 
 
+_DASH = '; for a value that starts with "-", write {opt}=-2+3'
+
+
+def _add_help(g) -> None:
+    g.add_argument("-h", "--help", action="help", help="show this help and exit")
+
+
 def _add_read_options(p: argparse.ArgumentParser) -> None:
     g = p.add_argument_group("reading the input")
-    g.add_argument("--sheet", metavar="NAME", help="worksheet to read (default: the first)")
+    g.add_argument("--sheet", metavar="NAME",
+                   help="worksheet to read (default: the first worksheet)")
     g.add_argument("--range", dest="cell_range", metavar="A1:F40",
-                   help="cells to read, or a defined name (default: the sheet's used range)")
+                   help="cells to read: A1:F40, B:E, 'Lot data'!B2:F40 or a defined name "
+                        "(default: all the used cells of the sheet or CSV file)")
     g.add_argument("--layout", choices=("wide", "long", "rowwise"), default="wide",
-                   help="one group per column (wide, default), label and value columns (long), "
-                        "or one group per row (rowwise)")
+                   help="wide: one group per column (default); long: a label column and a "
+                        "value column; rowwise: one group per row")
     g.add_argument("--labels", choices=("auto", "yes", "no"), default="auto",
-                   help="does the first row (column for rowwise) hold the group labels? "
-                        "(default: auto, when it is all text)")
+                   help="does the first row (first column for rowwise) hold the group labels? "
+                        "auto (default): yes when all of it is text")
     g.add_argument("--decimal-comma", action="store_true",
-                   help="CSV numbers use a decimal comma (1,5)")
+                   help="CSV files only: numbers are written with a decimal comma (1,5) "
+                        "(default: decimal point)")
     g.add_argument("--size-limit", type=_positive_mb, default=DEFAULT_SIZE_LIMIT / 2**20,
                    metavar="MB",
-                   help="refuse workbooks that unpack to more than this many megabytes "
-                        f"(default {DEFAULT_SIZE_LIMIT // 2**20})")
+                   help="refuse files that unpack to more than this many megabytes "
+                        f"(default {DEFAULT_SIZE_LIMIT // 2**20}); raise it only for a file you "
+                        "trust")
 
 
-def _add_progress(p: argparse.ArgumentParser) -> None:
+def _add_progress(p) -> None:
     p.add_argument("--progress", action=argparse.BooleanOptionalAction, default=None,
-                   help="show progress on stderr (default: on a terminal, for inputs above "
-                        "about a million cells or batches of several files)")
+                   help="show progress on stderr, or never (default: only on a terminal, and "
+                        "only for inputs above about a million cells or several files)")
+
+
+def _add_names(a, *, response: bool) -> None:
+    a.add_argument("--factor", default="Factor", metavar="NAME",
+                   help="what the groups are, e.g. \"Oven zone\" (default Factor)"
+                        + _DASH.format(opt="--factor"))
+    if not response:
+        return
+    a.add_argument("--response", default="Response", metavar="NAME",
+                   help="the measured quantity, e.g. Hardness (default Response)"
+                        + _DASH.format(opt="--response"))
+    a.add_argument("--unit", metavar="UNIT",
+                   help="unit of the measurements, e.g. \"Shore A\" (default: none)"
+                        + _DASH.format(opt="--unit"))
+    a.add_argument("--title", metavar="TEXT",
+                   help="report title (default: \"RESPONSE by FACTOR\")"
+                        + _DASH.format(opt="--title"))
 
 
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser (exposed for documentation and tests)."""
     from . import __version__
 
-    parser = argparse.ArgumentParser(
+    parser = _Parser(
         prog="sheetfuncs",
-        description="Exact one-way analysis of variance: formatted report workbooks, tables "
-                    "for pipelines, and sample sizes.",
+        usage="sheetfuncs COMMAND [options]",
+        description="Exact one-way analysis of variance: does a factor (a filling head, a lot, "
+                    "an oven zone) change the mean of a measurement? Writes formatted report "
+                    "workbooks, prints tables for pipelines, and plans sample sizes.",
+        epilog="Start with: sheetfuncs demo. Run sheetfuncs COMMAND --help for a command's "
+               "options. Exit codes: 0 done, 1 an input problem (one line on stderr), "
+               "2 a usage error.",
+        add_help=False,
     )
-    parser.add_argument("--version", action="version", version=f"sheetfuncs {__version__}")
-    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    top = parser.add_argument_group("options")
+    _add_help(top)
+    top.add_argument("--version", action="version", version=f"sheetfuncs {__version__}",
+                     help="show the version and exit")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", title="commands")
     sub.required = True
 
-    rep = sub.add_parser("report", help="write a formatted result workbook for each input",
-                         description="Write a formatted result workbook for each input file "
-                                     "(.xlsx/.xlsm: saved values only, macros never run; .csv).")
-    rep.add_argument("inputs", nargs="+", metavar="INPUT", help=".xlsx, .xlsm or .csv file(s)")
-    out = rep.add_mutually_exclusive_group(required=True)
-    out.add_argument("-o", "--output", metavar="OUT.xlsx", help="the report to write (one input)")
+    rep = sub.add_parser(
+        "report", prog="sheetfuncs report", help="write a formatted result workbook (.xlsx) for each input file",
+        usage="sheetfuncs report INPUT... (-o OUT.xlsx | --out-dir DIR) [options]",
+        description="Write a formatted result workbook for each input file: .xlsx/.xlsm "
+                    "workbooks (the saved values only; macros are never run) or .csv files. "
+                    "An existing report is kept unless --force; an input is never "
+                    "overwritten.",
+        add_help=False,
+    )
+    io_ = rep.add_argument_group("input and output")
+    io_.add_argument("inputs", nargs="+", metavar="INPUT",
+                     help="one or more .xlsx, .xlsm or .csv files")
+    out = io_.add_mutually_exclusive_group(required=True)
+    out.add_argument("-o", "--output", metavar="OUT.xlsx",
+                     help="the report to write (for one input)")
     out.add_argument("--out-dir", metavar="DIR",
-                     help="folder for the reports, named INPUT-report.xlsx (created if needed)")
+                     help="folder for the reports, one INPUT-report.xlsx per input (the folder "
+                          "is created if it does not exist)")
+    io_.add_argument("--force", action="store_true",
+                     help="replace a report that already exists (default: keep it and stop)")
     _add_read_options(rep)
     a = rep.add_argument_group("analysis")
-    a.add_argument("--alpha", type=float, default=0.05, help="significance level (default 0.05)")
-    a.add_argument("--method", default="tukey",
+    a.add_argument("--alpha", type=_real, default=0.05, metavar="A",
+                   help="significance level, between 0 and 1 (default 0.05)")
+    a.add_argument("--method", default="tukey", metavar="NAME",
                    help="pairwise comparison method: " + ", ".join(_methods())
                         + " (default tukey)")
-    a.add_argument("--control", metavar="LABEL", help="control group: adds Dunnett's comparisons")
-    a.add_argument("--factor", default="Factor", metavar="NAME", help="name of the factor")
-    a.add_argument("--response", default="Response", metavar="NAME",
-                   help="name of the measured quantity")
-    a.add_argument("--unit", metavar="U", help="unit of the measurements")
-    a.add_argument("--title", metavar="T", help="report title")
-    rep.add_argument("--force", action="store_true", help="replace an existing report")
-    _add_progress(rep)
-    rep.set_defaults(func=_cmd_report)
+    a.add_argument("--control", metavar="LABEL",
+                   help="label of a control group: adds Dunnett's comparisons with it "
+                        "(default: none)")
+    _add_names(a, response=True)
+    other = rep.add_argument_group("other")
+    _add_progress(other)
+    _add_help(other)
+    rep.set_defaults(func=_cmd_report, parser=rep)
 
-    demo = sub.add_parser("demo", help="write the report of the built-in invented demo data",
-                          description="Write the report of the built-in demo (invented data: "
-                                      "gasket hardness by cure-oven zone). A rerun replaces it.")
-    demo.add_argument("-o", "--output", metavar="OUT.xlsx", default=DEFAULT_DEMO_OUTPUT,
-                      help=f"where to write it (default {DEFAULT_DEMO_OUTPUT})")
-    _add_progress(demo)
-    demo.set_defaults(func=_cmd_demo)
+    demo = sub.add_parser(
+        "demo", prog="sheetfuncs demo", help="write the report of the built-in demo data (invented numbers)",
+        usage="sheetfuncs demo [-o OUT.xlsx] [--force]",
+        description="Write the report of the built-in demo: gasket hardness by cure-oven "
+                    "zone, invented data. A rerun replaces the default file "
+                    f"{DEFAULT_DEMO_OUTPUT} and any earlier demo report; any other existing "
+                    "file is kept unless --force.",
+        add_help=False,
+    )
+    dg = demo.add_argument_group("output")
+    dg.add_argument("-o", "--output", metavar="OUT.xlsx", default=DEFAULT_DEMO_OUTPUT,
+                    help=f"where to write it (default {DEFAULT_DEMO_OUTPUT} in the current "
+                         "folder)")
+    dg.add_argument("--force", action="store_true",
+                    help="replace OUT.xlsx even when it is not a sheetfuncs demo report")
+    dother = demo.add_argument_group("other")
+    _add_progress(dother)
+    _add_help(dother)
+    demo.set_defaults(func=_cmd_demo, parser=demo)
 
-    tab = sub.add_parser("table", help="print the one-way table and the checks",
-                         description="Print the one-way table, the assumption checks and the "
-                                     "group summary of one input, for people or pipelines.")
-    tab.add_argument("input", metavar="INPUT", help=".xlsx, .xlsm or .csv file")
-    fmt = tab.add_mutually_exclusive_group()
+    tab = sub.add_parser(
+        "table", prog="sheetfuncs table", help="print the one-way table, the checks and the group summary",
+        usage="sheetfuncs table INPUT [--json | --csv] [options]",
+        description="Print the one-way table, the assumption checks and the group summary of "
+                    "one input file, as aligned text (default), JSON or CSV.",
+        add_help=False,
+    )
+    tio = tab.add_argument_group("input and output")
+    tio.add_argument("input", metavar="INPUT", help="an .xlsx, .xlsm or .csv file")
+    fmt = tio.add_mutually_exclusive_group()
     fmt.add_argument("--json", dest="fmt", action="store_const", const="json",
-                     help="JSON (infinite values as \"inf\")")
+                     help="print JSON (infinite values as \"inf\", undefined ones as null)")
     fmt.add_argument("--csv", dest="fmt", action="store_const", const="csv",
-                     help="CSV tables separated by a blank line (formula-like text quoted)")
+                     help="print the three tables as CSV, separated by a blank line (text that "
+                          "could be taken for a formula gets a leading ')")
     _add_read_options(tab)
-    tab.add_argument("--alpha", type=float, default=0.05, help="significance level (default 0.05)")
-    tab.add_argument("--factor", default="Factor", metavar="NAME", help="name of the factor")
-    _add_progress(tab)
-    tab.set_defaults(func=_cmd_table, fmt="text")
+    ta = tab.add_argument_group("analysis")
+    ta.add_argument("--alpha", type=_real, default=0.05, metavar="A",
+                    help="significance level, between 0 and 1 (default 0.05)")
+    _add_names(ta, response=False)
+    tother = tab.add_argument_group("other")
+    _add_progress(tother)
+    _add_help(tother)
+    tab.set_defaults(func=_cmd_table, fmt="text", parser=tab)
 
-    plan = sub.add_parser("plan", help="sample size per group for a planned study",
-                          description="Values per group that a balanced one-way study needs to "
-                                      "detect Cohen's effect size f with the given power.")
-    plan.add_argument("--groups", type=int, required=True, metavar="K", help="number of groups")
-    plan.add_argument("--effect", type=float, required=True, metavar="F",
-                      help="Cohen's f (0.10 small, 0.25 medium, 0.40 large)")
-    plan.add_argument("--power", type=float, default=0.8, help="target power (default 0.8)")
-    plan.add_argument("--alpha", type=float, default=0.05, help="significance level (default 0.05)")
-    plan.set_defaults(func=_cmd_plan)
+    plan = sub.add_parser(
+        "plan", prog="sheetfuncs plan", help="values per group that a planned study needs",
+        usage="sheetfuncs plan --groups K --effect F [--power P] [--alpha A]",
+        description="Values per group that a balanced one-way study needs to detect an "
+                    "effect of Cohen's size f with the given power (noncentral F).",
+        add_help=False,
+    )
+    pg = plan.add_argument_group("study")
+    pg.add_argument("--groups", type=_whole, required=True, metavar="K",
+                    help="number of groups, 2 or more (required)")
+    pg.add_argument("--effect", type=_real, required=True, metavar="F",
+                    help="Cohen's effect size f (required; 0.10 small, 0.25 medium, "
+                         "0.40 large)")
+    pg.add_argument("--power", type=_real, default=0.8, metavar="P",
+                    help="chance of detecting the effect, between 0 and 1 (default 0.8)")
+    pg.add_argument("--alpha", type=_real, default=0.05, metavar="A",
+                    help="significance level, between 0 and 1 (default 0.05)")
+    _add_help(plan.add_argument_group("other"))
+    plan.set_defaults(func=_cmd_plan, parser=plan)
     return parser
 
 
@@ -272,11 +384,10 @@ def _same_file(a: Path, b: Path) -> bool:
     return os.path.normcase(str(a.resolve())) == os.path.normcase(str(b.resolve()))
 
 
-def _check_xlsx_name(path: Path, parser_name: str) -> None:
+def _check_xlsx_name(path: Path) -> None:
     if path.suffix.lower() != ".xlsx":
         raise _UsageError(
-            f"{parser_name}: the report must be an .xlsx file, not {path.name!r} (reports never "
-            "carry macros)"
+            f'the report must be an .xlsx file, not "{path.name}" (reports never carry macros)'
         )
 
 
@@ -295,11 +406,11 @@ def _report_outputs(args: argparse.Namespace) -> list[tuple[Path, Path]]:
     if args.output is not None:
         if len(inputs) > 1:
             raise _UsageError(
-                f"report: -o names one report but {len(inputs)} inputs were given; use "
+                f"-o names one report but {len(inputs)} inputs were given; use "
                 "--out-dir DIR for several inputs"
             )
         out = Path(args.output)
-        _check_xlsx_name(out, "report")
+        _check_xlsx_name(out)
         pairs = [(inputs[0], out)]
     else:
         folder = Path(args.out_dir)
@@ -309,7 +420,7 @@ def _report_outputs(args: argparse.Namespace) -> list[tuple[Path, Path]]:
         key = os.path.normcase(str(out.resolve()))
         if key in seen:
             raise _UsageError(
-                f"report: {seen[key]} and {inp} would both be written to {out}; run them "
+                f"{seen[key]} and {inp} would both be written to {out}; run them "
                 "separately or rename one"
             )
         seen[key] = inp
@@ -385,13 +496,18 @@ def _cmd_demo(args: argparse.Namespace) -> int:
     from .demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
 
     out = Path(args.output)
-    _check_xlsx_name(out, "demo")
+    _check_xlsx_name(out)
     if out.is_dir():
         raise InputError(f"sheetfuncs: {out} is a folder; give a file name such as demo.xlsx")
     if not out.parent.exists():
         raise InputError(
             f"sheetfuncs: the folder {out.parent} does not exist; create it or choose another "
             "output"
+        )
+    if (out.exists() or out.is_symlink()) and not args.force and not _replaceable_demo(out):
+        raise InputError(
+            f"sheetfuncs: {out} already exists and is not a sheetfuncs demo report, so it is "
+            "kept; choose another name with -o, or add --force to replace it"
         )
     prog = _Progress(args.progress, sys.stderr)
     prog.start(1, "demo")
@@ -405,6 +521,25 @@ def _cmd_demo(args: argparse.Namespace) -> int:
         prog.finish()
     print(f"wrote {written.resolve()} (report of the built-in demo; invented data)")
     return 0
+
+
+def _replaceable_demo(path: Path) -> bool:
+    """Whether ``demo`` may replace an existing file without ``--force``: the default output
+    name, or a workbook that is itself a demo report (the report writer sets the document
+    properties creator ``sheetfuncs`` and the demo's title). The properties are read through
+    :func:`sheetfuncs.readers.workbook_properties` (size limit, defusedxml); a file that cannot
+    be read that way is not a demo report."""
+    from .demo import DEMO_TITLE
+
+    if path.name == DEFAULT_DEMO_OUTPUT:
+        return True
+    if path.is_symlink() or not path.is_file():
+        return False
+    try:
+        props = workbook_properties(path)
+    except InputError:
+        return False
+    return props.get("creator") == "sheetfuncs" and props.get("title") == DEMO_TITLE
 
 
 # --------------------------------------------------------------------------------------------
@@ -588,6 +723,27 @@ def _aligned(table: list[list[Any]]) -> list[str]:
     return lines
 
 
+_KIND_WORDS = {"logical": "logical value", "error": "error value"}
+
+
+def _cell_shown(kind: str, value: Any) -> str:
+    """An input cell as a spreadsheet user reads it: ``text "retest"`` (inner quotes doubled,
+    as in a formula), ``logical value TRUE``, ``date 2024-03-05``."""
+    word = _KIND_WORDS.get(kind, kind)
+    if isinstance(value, str):
+        text = " ".join(value.split()) if value.strip() else value
+        if len(text) > 40:
+            text = text[:39] + "…"
+        return f'{word} "' + text.replace('"', '""') + '"'
+    if isinstance(value, bool):
+        return f"{word} {'TRUE' if value else 'FALSE'}"
+    if hasattr(value, "isoformat"):
+        return f"{word} {value.isoformat()}"
+    from .validate import shown
+
+    return f"{word} {shown(value)}"
+
+
 def _table_text(args, loaded: LoadedGroups, ck, desc, one) -> None:
     g = loaded.groups
     ow = ck.oneway
@@ -612,7 +768,8 @@ def _table_text(args, loaded: LoadedGroups, ck, desc, one) -> None:
     ignored = [c for c in g.cells if c.action == "ignored"]
     if ignored:
         shown = ", ".join(
-            f"{loaded.source.address(c.row, c.col)} ({c.kind} {c.value!r})" for c in ignored[:5]
+            f"{loaded.source.address(c.row, c.col)} ({_cell_shown(c.kind, c.value)})"
+            for c in ignored[:5]
         )
         more = f" and {len(ignored) - 5} more" if len(ignored) > 5 else ""
         out += ["", f"Ignored cells: {shown}{more}"]
@@ -646,18 +803,37 @@ def _cmd_plan(args: argparse.Namespace) -> int:
 # entry point
 
 
+def _parse(parser: argparse.ArgumentParser, argv: list[str] | None) -> argparse.Namespace:
+    """Parse, letting ``report`` take input files after its options too
+    (``report a.csv --out-dir r b.csv``); anything else left over is a usage error."""
+    args, extra = parser.parse_known_args(argv)
+    if extra:
+        sub = getattr(args, "parser", parser)
+        if args.command == "report" and not any(x.startswith("-") for x in extra):
+            args.inputs = list(args.inputs) + extra
+        elif args.command == "table" and not any(x.startswith("-") for x in extra):
+            sub.error(f"table reads one input, but more were given: {' '.join(extra)}; run it "
+                      "once per file")
+        else:
+            sub.error(f"unrecognized arguments: {' '.join(extra)}")
+    return args
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code (0 done, 1 input problem, 2 usage)."""
     parser = build_parser()
     try:
-        args = parser.parse_args(None if argv is None else list(argv))
+        args = _parse(parser, None if argv is None else list(argv))
     except SystemExit as e:  # --help, --version (0) and usage errors (2)
         return e.code if isinstance(e.code, int) else (0 if e.code is None else 2)
     try:
         return int(args.func(args))
     except _UsageError as e:
-        parser.print_usage(sys.stderr)
-        print(_one_line(str(e)), file=sys.stderr)
+        sub = getattr(args, "parser", parser)
+        try:
+            sub.error(str(e))
+        except SystemExit as done:
+            return done.code if isinstance(done.code, int) else 2
         return 2
     except InputError as e:
         print(_one_line(str(e)), file=sys.stderr)

@@ -134,7 +134,7 @@ def test_table_text_output(tmp_path, capsys):
     assert any(line.split()[:2] == ["Source", "df"] for line in lines)
     assert any(line.startswith("Residual") for line in lines)
     assert any(line.startswith("Checks (alpha = 0.05); read:") for line in lines)
-    assert "Ignored cells: C8 (text 'retest')" in out
+    assert 'Ignored cells: C8 (text "retest")' in out  # as a spreadsheet user reads text
     assert "engineering judgement" in out
 
 
@@ -185,8 +185,11 @@ def test_plan_input_problems(capsys):
 )
 def test_usage_errors_exit_2(argv, capsys):
     code, out, err = run(argv, capsys)
-    assert code == 2
-    assert "usage: sheetfuncs" in err and "Traceback" not in err
+    assert code == 2 and out == ""
+    assert "Traceback" not in err
+    usage, line = err.splitlines()  # the command's usage, then one line that says what is wrong
+    assert usage.startswith("usage: sheetfuncs")
+    assert line.startswith("sheetfuncs: ") and line.endswith("--help)")
 
 
 def test_usage_errors_found_after_parsing(tmp_path, capsys):
@@ -377,3 +380,212 @@ def test_python_dash_m_sheetfuncs(tmp_path):
     assert bad.stderr.count("\n") == 1 and "Traceback" not in bad.stderr
     usage = _py(cwd=tmp_path)
     assert usage.returncode == 2 and "usage: sheetfuncs" in usage.stderr
+
+
+# --------------------------------------------------------------------------------------------
+# demo: which existing files it may replace
+
+
+def _plain_book(path: Path) -> Path:
+    wb = openpyxl.Workbook()
+    wb.active.append(["Supplier audit", 3])
+    wb.save(path)
+    return path
+
+
+def test_demo_keeps_an_unrelated_workbook_unless_forced(tmp_path, capsys, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    other = _plain_book(tmp_path / "audit.xlsx")
+    before = other.read_bytes()
+    code, out, err = run(["demo", "-o", "audit.xlsx"], capsys)
+    assert code == 1 and out == ""
+    (line,) = err.splitlines()
+    assert line == ("sheetfuncs: audit.xlsx already exists and is not a sheetfuncs demo report, "
+                    "so it is kept; choose another name with -o, or add --force to replace it")
+    assert other.read_bytes() == before
+    code, out, err = run(["demo", "-o", "audit.xlsx", "--force"], capsys)
+    assert code == 0 and err == ""
+    assert "Findings" in openpyxl.load_workbook(other).sheetnames
+
+
+def test_demo_keeps_text_and_other_reports_but_replaces_its_own(tmp_path, capsys, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    fake = tmp_path / "notes.xlsx"
+    fake.write_text("Lot,Value\nA,1\n", encoding="utf-8")  # a CSV with a workbook's name
+    code, _, err = run(["demo", "-o", "notes.xlsx"], capsys)
+    assert code == 1 and "is not a sheetfuncs demo report" in err and err.count("\n") == 1
+    assert fake.read_text(encoding="utf-8") == "Lot,Value\nA,1\n"
+    # a sheetfuncs report of other data is not the demo's to replace
+    src = small_csv(tmp_path)
+    assert main(["report", str(src), "-o", "lots-report.xlsx"]) == 0
+    before = (tmp_path / "lots-report.xlsx").read_bytes()
+    capsys.readouterr()
+    code, _, err = run(["demo", "-o", "lots-report.xlsx"], capsys)
+    assert code == 1 and "is not a sheetfuncs demo report" in err
+    assert (tmp_path / "lots-report.xlsx").read_bytes() == before
+    # an earlier demo report under any name is replaced without --force
+    assert main(["demo", "-o", "mine.xlsx"]) == 0
+    (tmp_path / "mine.xlsx").write_bytes((tmp_path / "mine.xlsx").read_bytes())
+    capsys.readouterr()
+    code, _, err = run(["demo", "-o", "mine.xlsx"], capsys)
+    assert code == 0 and err == ""
+    # the default name is the demo's own, whatever it holds
+    (tmp_path / cli.DEFAULT_DEMO_OUTPUT).write_bytes(b"stale")
+    assert main(["demo"]) == 0 and zipfile.is_zipfile(tmp_path / cli.DEFAULT_DEMO_OUTPUT)
+
+
+def test_demo_help_says_what_it_replaces(capsys):
+    assert main(["demo", "--help"]) == 0
+    text = " ".join(capsys.readouterr().out.split())
+    assert "--force" in text and "not a sheetfuncs demo report" in text
+    assert cli.DEFAULT_DEMO_OUTPUT in text and "earlier demo report" in text
+
+
+# --------------------------------------------------------------------------------------------
+# values that start with a minus sign
+
+
+@pytest.mark.parametrize("option", ["--title", "--factor", "--response", "--unit"])
+def test_dash_values_are_documented_and_hinted(tmp_path, capsys, option):
+    src = small_csv(tmp_path)
+    assert main(["report", "--help"]) == 0
+    helptext = " ".join(capsys.readouterr().out.split())
+    assert f'for a value that starts with "-", write {option}=-2+3' in helptext
+    code, out, err = run(["report", str(src), "-o", str(tmp_path / "r.xlsx"), option, "-2+3"],
+                         capsys)
+    assert code == 2 and out == ""
+    assert f"write {option}=VALUE (e.g. {option}=-2+3)" in err.splitlines()[-1]
+    assert not (tmp_path / "r.xlsx").exists()
+
+
+def test_dash_value_with_equals_sign_is_taken(tmp_path, capsys):
+    src = small_csv(tmp_path)
+    out = tmp_path / "r.xlsx"
+    code, _, err = run(["report", str(src), "-o", str(out), "--title=-2+3", "--unit=-dB"], capsys)
+    assert code == 0, err
+    from sheetfuncs.readers import workbook_properties
+
+    assert "-2+3" in workbook_properties(out)["title"]
+
+
+# --------------------------------------------------------------------------------------------
+# the text output shows cells as a spreadsheet user reads them
+
+
+def test_cell_shown_like_a_spreadsheet():
+    assert cli._cell_shown("text", "retest") == 'text "retest"'
+    assert cli._cell_shown("text", 'say "hi"') == 'text "say ""hi"""'  # quotes doubled
+    assert cli._cell_shown("logical", True) == "logical value TRUE"
+    assert cli._cell_shown("text", "x" * 60).endswith('…"')
+
+
+def test_table_text_names_ignored_cells_with_quotes(tmp_path, capsys):
+    path = write_csv(tmp_path / "q.csv", [["A", "B"], [1, 2], ["n/a", 3], [1.5, "TRUE"], [2, 4]])
+    code, out, err = run(["table", str(path)], capsys)
+    assert code == 0, err
+    assert 'Ignored cells: A3 (text "n/a"), B4 (logical value TRUE)' in out
+    assert "'n/a'" not in out
+
+
+# --------------------------------------------------------------------------------------------
+# every input problem: one line on stderr, exit 1; usage problems: exit 2
+
+
+def _cases(tmp_path: Path) -> dict[str, Path]:
+    small_csv(tmp_path)
+    (tmp_path / "folder").mkdir()
+    (tmp_path / "fake.xlsx").write_text("A,B\n1,2\n3,4\n", encoding="utf-8")
+    (tmp_path / "header.csv").write_text("Lot A,Lot B,Lot C\n", encoding="utf-8")
+    write_csv(tmp_path / "one.csv", [["A"], [1], [2], [3]])
+    book = tmp_path / "lots.xlsx"
+    wb = openpyxl.Workbook()
+    wb.active.title = "Lots"
+    for row in [["A", "B"], [1, 2], [3, 4], [5, 7]]:
+        wb.active.append(row)
+    wb.save(book)
+    return {}
+
+
+@pytest.mark.parametrize(
+    "argv, fragment",
+    [
+        (["table", "folder"], "folder is a folder, not a file"),
+        (["table", "fake.xlsx"], "fake.xlsx is not an .xlsx workbook"),
+        (["table", "header.csv"], "holds only a row of labels and no values"),
+        (["table", "one.csv"], 'at least two groups are needed to compare means, got 1 (only "A")'),
+        (["table", "lots.csv", "--alpha", "5"], "alpha must lie strictly between 0 and 1"),
+        (["report", "lots.csv", "-o", "r.xlsx", "--alpha", "5"], "alpha must lie strictly"),
+        (["report", "lots.csv", "-o", "r.xlsx", "--method", "foo"], "unknown comparison method"),
+        (["report", "lots.csv", "-o", "r.xlsx", "--control", "Lot Z"],
+         'the control "Lot Z" is not one of the groups'),
+        (["report", "lots.xlsx", "-o", "r.xlsx", "--sheet", "Nope"],
+         'lots.xlsx has no sheet named "Nope"; its sheets are "Lots"'),
+        (["table", "lots.xlsx", "--sheet", "Nope"], 'has no sheet named "Nope"'),
+        (["report", "lots.xlsx", "-o", "lots.xlsx"], "would overwrite the input"),
+        (["report", "lots.xlsx", "-o", "./lots.xlsx", "--force"], "would overwrite the input"),
+        (["report", "lots.csv", "-o", "nowhere/r.xlsx"], "the folder nowhere does not exist"),
+        (["report", "lots.csv", "-o", "folder"], "must be an .xlsx file"),
+        (["table", "lots.xlsx", "--range", "D:D"], 'the range D:D of sheet "Lots" in lots.xlsx is empty'),
+        (["table", "lots.csv", "--range", "F2:G9"], "the range F2:G9 of lots.csv holds no values"),
+    ],
+)
+def test_each_input_problem_gives_one_line(tmp_path, capsys, monkeypatch, argv, fragment):
+    monkeypatch.chdir(tmp_path)
+    _cases(tmp_path)
+    code, out, err = run(argv, capsys)
+    lines = err.splitlines()
+    if fragment == "must be an .xlsx file":
+        assert code == 2 and len(lines) == 2 and fragment in lines[1]
+        return
+    assert code == 1 and out == "", err
+    assert len(lines) == 1 and lines[0].startswith("sheetfuncs: ") and "Traceback" not in err
+    assert fragment in lines[0]
+    assert not (tmp_path / "r.xlsx").exists()
+
+
+@pytest.mark.parametrize(
+    "argv, fragment",
+    [
+        (["report", "lots.csv", "one.csv", "-o", "r.xlsx"], "use --out-dir DIR for several inputs"),
+        (["table", "lots.csv", "one.csv"], "table reads one input"),
+        (["table", "lots.csv", "--alpha", "abc"], 'argument --alpha: must be a number, not "abc"'),
+        (["plan", "--groups", "three", "--effect", "0.25"], "must be a whole number"),
+        (["table", "lots.csv", "--bogus"], "unrecognized arguments: --bogus"),
+        (["demo", "-o", "demo.csv"], 'the report must be an .xlsx file, not "demo.csv"'),
+    ],
+)
+def test_usage_problems_give_usage_and_one_line(tmp_path, capsys, monkeypatch, argv, fragment):
+    monkeypatch.chdir(tmp_path)
+    _cases(tmp_path)
+    code, out, err = run(argv, capsys)
+    assert code == 2 and out == ""
+    usage, line = err.splitlines()
+    assert usage.startswith(f"usage: sheetfuncs {argv[0]} ")
+    assert line.startswith(f"sheetfuncs: {argv[0]}: ") and fragment in line
+    assert not (tmp_path / "r.xlsx").exists()
+
+
+def test_report_inputs_may_follow_the_options(tmp_path, capsys, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    a, b = small_csv(tmp_path, "a.csv"), small_csv(tmp_path, "b.csv", shift=0.5)
+    code, out, err = run(["report", "a.csv", "--out-dir", "made/here", "b.csv"], capsys)
+    assert code == 0, err
+    assert sorted(p.name for p in (tmp_path / "made" / "here").iterdir()) == [
+        "a-report.xlsx", "b-report.xlsx"]  # --out-dir is created when missing
+
+
+def test_help_reads_well(capsys):
+    assert main(["--help"]) == 0
+    top = capsys.readouterr().out
+    assert "commands:" in top and "positional arguments" not in top
+    assert "sheetfuncs demo" in top and "Exit codes" in top
+    for cmd in ("report", "demo", "table", "plan"):
+        assert main([cmd, "--help"]) == 0
+        text = capsys.readouterr().out
+        assert text.startswith(f"usage: sheetfuncs {cmd} ")
+        assert "positional arguments" not in text and "show this help and exit" in text
+    assert main(["report", "--help"]) == 0
+    text = " ".join(capsys.readouterr().out.split())
+    for default in ("(default 0.05)", "(default tukey)", "(default Factor)", "(default Response)",
+                    "(default 512)", "(default: the first worksheet)"):
+        assert default in text, default

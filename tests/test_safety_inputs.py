@@ -438,3 +438,23 @@ def test_formula_like_labels_stay_text_in_the_report(tmp_path, kind):
         assert lab in texts or any(lab in t for t in texts)
         # no formula the writer made contains the label as formula text of its own
         assert not any(f == lab or f.startswith(lab) for f in formulas)
+
+
+def test_demo_reads_an_existing_files_properties_safely(tmp_path, monkeypatch, capsys):
+    # a file dressed as a demo report, but with a document type declaration in its
+    # properties part: the properties are never parsed, so the file is kept
+    monkeypatch.chdir(tmp_path)
+    assert main(["demo", "-o", "real.xlsx"]) == 0
+    core = sheet_xml(tmp_path / "real.xlsx", "docProps/core.xml")
+    dtd, _ = _laughs(6)
+    decl_end = core.index("?>") + 2 if core.startswith("<?xml") else 0
+    bad = patch_zip(tmp_path / "real.xlsx", tmp_path / "dressed.xlsx",
+                    {"docProps/core.xml": (core[:decl_end] + dtd + core[decl_end:]).encode()})
+    before = bad.read_bytes()
+    capsys.readouterr()
+    assert main(["demo", "-o", "dressed.xlsx"]) == 1
+    (line,) = capsys.readouterr().err.splitlines()
+    assert "is not a sheetfuncs demo report, so it is kept" in line
+    assert bad.read_bytes() == before
+    with pytest.raises(InputError, match="document type declaration"):
+        readers.workbook_properties(bad)
