@@ -419,6 +419,8 @@ def groups_from_range(cells: Any, layout: str = "wide", labels: Any = "auto") ->
 
 
 _NONE_TYPE = type(None)
+#: A float's own value; a TypeError for anything that is not a float (bool and int included).
+_FLOAT_ONLY = float.conjugate
 
 
 #: Cells per block of rows in :func:`_plain_block`: small enough that a block's cells are still
@@ -429,15 +431,18 @@ _BLOCK_CELLS = 8192
 def _plain_block(rows: Sequence[Sequence[Any]], start: int, transpose: bool) -> list[np.ndarray] | None:
     """The numbers of every line (column, or row when ``transpose``) in one pass, or ``None``.
 
-    Used only when every data cell (from ``start`` on in each line) is a ``float`` or ``None``
-    and no float is NaN or infinite; then the range rules reduce to "drop the blanks", and the
-    result is the same as reading cell by cell. Anything else (text, logical values, errors,
-    dates, ints, Decimals, NaN or infinity) returns ``None`` and the caller reads cell by cell,
-    which records or rejects each such cell with its position.
+    Used only when every data cell (from ``start`` on in each line) is a ``float`` (numpy's
+    float64, a float subclass, counts in a block without blanks) or ``None`` and no float is NaN
+    or infinite; then the range rules reduce to "drop the blanks", and the result is the same as
+    reading cell by cell. Anything else (text, logical values, errors, dates, ints, Decimals, NaN
+    or infinity) returns ``None`` and the caller reads cell by cell, which records or rejects
+    each such cell with its position.
 
-    The rows are taken in blocks of about :data:`_BLOCK_CELLS` cells: the cell types of a block
-    in one C-speed pass (a float is settled by an identity test), then its values packed as
-    doubles (all floats) or converted with blanks as NaN.
+    The rows are taken in blocks of about :data:`_BLOCK_CELLS` cells. A block of floats is
+    packed as doubles in one C-speed pass through ``float.conjugate``, which returns a float's
+    stored double and refuses anything that is not a float (``None``, bool, int, text ...). A
+    block it refuses has its cell types counted; when they are floats and blanks only, it is
+    converted with blanks as NaN.
     """
     if transpose:
         data = rows if start == 0 else [r[start:] for r in rows]
@@ -453,13 +458,15 @@ def _plain_block(rows: Sequence[Sequence[Any]], start: int, transpose: bool) -> 
     for i in range(0, len(data), step):
         part = data[i:i + step]
         m = len(part) * width
+        try:  # all floats: their stored doubles, unchanged
+            packed.append(struct.pack(f"{m}d", *map(_FLOAT_ONLY, chain.from_iterable(part))))
+            continue
+        except (TypeError, struct.error):
+            pass
         kinds = list(map(type, chain.from_iterable(part)))
         if len(kinds) != m:
             return None
-        n_float = kinds.count(float)
-        if n_float == m:  # the stored doubles, unchanged
-            packed.append(struct.pack(f"{m}d", *chain.from_iterable(part)))
-            continue
+        n_float = kinds.count(float)  # cheap: the identity test settles every float
         nb = kinds.count(_NONE_TYPE)
         if n_float + nb != m:
             return None

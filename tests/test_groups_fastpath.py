@@ -175,7 +175,7 @@ def test_other_cells_take_the_cell_read(case, block_cells) -> None:
         return  # refused (an error cell, a NaN, a group with no numbers ...): compared above
     in_data = (r if layout == "wide" else c) >= start
     v = rows[r][c]
-    plain = v is None or (type(v) is float and math.isfinite(v))
+    plain = v is None or (isinstance(v, float) and math.isfinite(v))  # np.float64 is a float
     if in_data and not plain:
         assert _plain_block(rows, start, layout == "rowwise") is None
 
