@@ -11,8 +11,11 @@ Equal variances
     268–282: with ``s_p^2 = SSW / (N - k)``,
     ``T = [(N - k) ln s_p^2 - sum (n_i - 1) ln s_i^2] / C``,
     ``C = 1 + [sum 1/(n_i - 1) - 1/(N - k)] / (3 (k - 1))``, referred to chi-square(k - 1).
-    It is evaluated as ``sum (n_i - 1) [u_i - ln(1 + u_i)] / C`` with ``u_i = s_i^2 / s_p^2 - 1``
-    taken exactly, which is the same number without the cancellation of the textbook form.
+    It is evaluated as ``sum (n_i - 1) [(r_i - 1) - ln r_i] / C`` with ``r_i = s_i^2 / s_p^2``
+    taken exactly, which is the same number without the cancellation of the textbook form: near
+    ``r_i = 1`` as ``u_i - ln(1 + u_i)`` with ``u_i = r_i - 1`` rounded once, below ``r_i = 1/2``
+    from ``r_i`` itself, with ``ln r_i`` formed from the exact ratio scaled by a power of two
+    (so variances that differ by more than the double range still give a finite statistic).
 
 Normal residuals
     Shapiro & Wilk (1965), *Biometrika* 52, 591–611, with the coefficients and p-value
@@ -55,7 +58,7 @@ from .errors import InputError
 from .groups import Groups, as_groups
 from .moments import ExactMoments, FloatMoments, compute_moments
 from .oneway import OneWayResult, oneway, oneway_from_moments, require_two_groups
-from .validate import check_alpha
+from .validate import check_alpha, shown
 
 __all__ = [
     "LeveneResult",
@@ -214,7 +217,7 @@ def _parse_center(center: Any) -> str:
         return s
     raise InputError(
         f'sheetfuncs: center must be "median" (Brown-Forsythe, the default) or "mean" '
-        f"(Levene's original), not {center!r}"
+        f"(Levene's original), not {shown(center)}"
     )
 
 
@@ -284,6 +287,37 @@ def _u_minus_log1p(u: float) -> float:
     return total
 
 
+def _log_fraction(r: Fraction) -> float:
+    """``ln r`` of a positive rational, accurate however large or small its terms: ``r`` is
+    scaled by a power of two to lie near 1, converted once, and the power added back."""
+    e = r.numerator.bit_length() - r.denominator.bit_length()
+    m = r / (Fraction(2) ** e) if e >= 0 else r * (Fraction(2) ** -e)  # in (1/2, 2)
+    return math.log(float(m)) + e * math.log(2.0)
+
+
+def _bartlett_term_exact(r: Fraction) -> float:
+    """``(r - 1) - ln r`` for the exact variance ratio ``r = s_i^2 / s_p^2 > 0``.
+
+    Near ``r = 1`` it is ``u - ln(1 + u)`` with ``u = r - 1`` rounded once; below ``r = 1/2``
+    (``u < -1/2``, where rounding ``u`` would lose the digits of ``1 + u``, or round it to 0
+    when the variances differ by more than about 2^53) it is formed from ``r`` itself.
+    """
+    u = r - 1
+    if u >= Fraction(-1, 2):
+        return _u_minus_log1p(float(u))
+    return float(u) - _log_fraction(r)
+
+
+def _bartlett_term_float(ss: float, df: int, sp2: float) -> float:
+    """``(r - 1) - ln r`` for ``r = (ss / df) / sp2`` on the floating-point path (as above)."""
+    v = ss / df
+    u = (v - sp2) / sp2
+    if u >= -0.5:
+        return _u_minus_log1p(u)
+    # ln r from the logarithms of its parts, so that a ratio below the double range stays finite
+    return (v / sp2 - 1.0) - (math.log(ss) - math.log(df) - math.log(sp2))
+
+
 def bartlett(groups: Any, *, exact: bool | None = None) -> BartlettResult:
     """Bartlett's chi-square test that the group variances are equal.
 
@@ -304,11 +338,11 @@ def bartlett(groups: Any, *, exact: bool | None = None) -> BartlettResult:
             )
     if mom.exact:
         ssw = sum(ss, Fraction(0))
-        u = [float(s * dfw / (ssw * (n - 1)) - 1) for s, n in zip(ss, ns)]
+        terms = [_bartlett_term_exact(s * dfw / (ssw * (n - 1))) for s, n in zip(ss, ns)]
     else:
         sp2 = math.fsum(float(s) for s in ss) / dfw
-        u = [(float(s) / (n - 1) - sp2) / sp2 for s, n in zip(ss, ns)]
-    num = math.fsum((n - 1) * _u_minus_log1p(ui) for ui, n in zip(u, ns))
+        terms = [_bartlett_term_float(float(s), n - 1, sp2) for s, n in zip(ss, ns)]
+    num = math.fsum((n - 1) * t for t, n in zip(terms, ns))
     corr = 1.0 + (math.fsum(1.0 / (n - 1) for n in ns) - 1.0 / dfw) / (3.0 * (k - 1))
     t = max(num / corr, 0.0)
     p = float(stats.chi2.sf(t, k - 1)) if t > 0 else 1.0
@@ -519,6 +553,15 @@ class ChecksResult:
     * ``oneway`` — the :class:`~sheetfuncs.oneway.OneWayResult`;
     * ``not_available`` — ``(test, reason)`` pairs for the tests that could not run;
     * ``caution`` — the caution that pre-testing assumptions is itself a judgement.
+
+    Sources of the reading rule: the thresholds (largest SD more than twice the smallest;
+    Kruskal–Wallis alongside the F test below 15 values in the smallest group) are rules of
+    thumb of common practice, not published results. The tests it combines are published:
+    Brown & Forsythe (1974), *JASA* 69, 364–367 (median-centred Levene; Levene 1960);
+    Shapiro & Wilk (1965), *Biometrika* 52, 591–611, with Royston (1992, 1995), or above 5,000
+    residuals D'Agostino & Pearson (1973), *Biometrika* 60, 613–622; Welch (1951),
+    *Biometrika* 38, 330–336; Kruskal & Wallis (1952), *JASA* 47, 583–621; Bartlett (1937),
+    *Proc. R. Soc. A* 160, 268–282 (shown for reference only).
     """
 
     read: str
@@ -622,6 +665,15 @@ def _reason_of(err: InputError) -> str:
     return msg[len("sheetfuncs: "):] if msg.startswith("sheetfuncs: ") else msg
 
 
+def _failure_reason(err: Exception) -> str:
+    """The reason recorded for a test that failed on a numerical problem it did not foresee."""
+    detail = str(err).strip() or type(err).__name__
+    return (
+        f"the computation failed on these data ({detail}); the other checks still answer, and "
+        "this is worth reporting to the maintainers with the data"
+    )
+
+
 def _sd_ratio(g: Groups, mom: ExactMoments | FloatMoments) -> float:
     sds = [math.sqrt(float(mom.ss_group(i) / (n - 1))) for i, n in enumerate(g.counts) if n >= 2]
     if len(sds) < 2:
@@ -663,6 +715,10 @@ def checks(groups: Any, alpha: float = 0.05, *, exact: bool | None = None) -> Ch
             return fn(*args, **kw)
         except InputError as err:
             missing.append((name, _reason_of(err)))
+            return None
+        except (ArithmeticError, ValueError) as err:
+            # an unforeseen numerical failure of one secondary test must not hide the others
+            missing.append((name, _failure_reason(err)))
             return None
 
     lev = attempt("Levene (median)", levene, g, "median", exact=exact)

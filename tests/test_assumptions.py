@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 from fractions import Fraction
-from statistics import median
+from statistics import median, stdev
 
 import mpmath
 import numpy as np
@@ -132,6 +132,8 @@ def test_checks_sd_ratio_alone_flags_unequal_variances():
     gs = {"A": [10.0, 10.2, 10.4], "B": [10.1, 10.8, 11.5]}  # SDs 0.2 and 0.7 (invented)
     c = checks(gs)
     assert c.levene.p >= 0.05
+    # reference library: Python's statistics.stdev (exact rational arithmetic), ratio 3.5
+    assert c.sd_ratio == pytest.approx(stdev(gs["B"]) / stdev(gs["A"]), rel=1e-12)
     assert c.sd_ratio == pytest.approx(3.5, rel=1e-12)
     assert c.variances_unequal and c.read == "welch"
 
@@ -205,7 +207,10 @@ def test_checks_needs_a_possible_oneway_analysis():
 def test_checks_accepts_spreadsheet_ranges():
     cells = [["Head 1", "Head 2"], [10.0, 10.1], [10.2, 10.8], [10.4, "void"], [None, 11.5]]
     c = checks(groups_from_range(cells))
-    assert c.read == "welch" and c.sd_ratio == pytest.approx(3.5, rel=1e-12)
+    # reference library: statistics.stdev of the numbers in each column (text and blanks left
+    # out, as the host's own functions do), ratio 3.5
+    ratio = stdev([10.1, 10.8, 11.5]) / stdev([10.0, 10.2, 10.4])
+    assert c.read == "welch" and c.sd_ratio == pytest.approx(ratio, rel=1e-12)
 
 
 # --------------------------------------------------------------------------------------------
@@ -283,15 +288,10 @@ def test_u_minus_log1p_against_mpmath():
         assert _u_minus_log1p(u) == pytest.approx(ref, rel=1e-14)
 
 
-def test_bartlett_nearly_equal_variances_against_mpmath():
-    # source: Bartlett's textbook formula evaluated with mpmath at 50 digits on the exact
-    # decimal values; the variances differ by parts in 1e8, where the plain double-precision
-    # formula loses most of its digits
-    a = [100.0, 100.2, 100.4, 100.6]
-    b = [200.0, 200.2, 200.4, 200.60000002]
-    c = [300.0, 300.2, 300.4, 300.6]
-    mpmath.mp.dps = 50
-    groups = [[mpmath.mpf(repr(x)) for x in g] for g in (a, b, c)]
+def _bartlett_mpmath(groups, dps=50):
+    """Bartlett's textbook formula evaluated with mpmath on the exact decimal values."""
+    mpmath.mp.dps = dps
+    groups = [[mpmath.mpf(repr(float(x))) for x in g] for g in groups]
 
     def var(g):
         m = sum(g) / len(g)
@@ -303,9 +303,94 @@ def test_bartlett_nearly_equal_variances_against_mpmath():
     sp = sum((ni - 1) * vi for ni, vi in zip(ns, v)) / (n - k)
     num = (n - k) * mpmath.log(sp) - sum((ni - 1) * mpmath.log(vi) for ni, vi in zip(ns, v))
     corr = 1 + (sum(mpmath.mpf(1) / (ni - 1) for ni in ns) - mpmath.mpf(1) / (n - k)) / (3 * (k - 1))
-    ref = float(num / corr)
+    return float(num / corr)
+
+
+def test_bartlett_nearly_equal_variances_against_mpmath():
+    # source: Bartlett's textbook formula evaluated with mpmath at 50 digits on the exact
+    # decimal values; the variances differ by parts in 1e8, where the plain double-precision
+    # formula loses most of its digits
+    a = [100.0, 100.2, 100.4, 100.6]
+    b = [200.0, 200.2, 200.4, 200.60000002]
+    c = [300.0, 300.2, 300.4, 300.6]
+    ref = _bartlett_mpmath([a, b, c])
     assert ref > 0
     assert bartlett([a, b, c]).statistic == pytest.approx(ref, rel=1e-9)
+
+
+@pytest.mark.parametrize(
+    "a,b",
+    [
+        # variances 1e-8 and 1e4: the ratio s_A^2 / s_p^2 is near 2e-12, so 1 + u keeps few digits
+        ([1.0001, 1.0002, 1.0003], [0, 100, 200]),
+        # variances 1e-14 and 1e6: the ratio is below 2^-53, where u = ratio - 1 rounds to -1
+        ([1.0000001, 1.0000002, 1.0000003], [0, 1000, 2000]),
+        # variances 1e-28 and 1e28, 56 orders of magnitude apart
+        ([1e-14, 2e-14, 3e-14], [0, 1e14, 2e14]),
+    ],
+)
+def test_bartlett_very_different_variances_against_mpmath(a, b):
+    # source: Bartlett's textbook formula with mpmath at 50 digits on the exact decimal values
+    # (41.99156280770 for the first case; scipy.stats.bartlett agrees with it there)
+    ref = _bartlett_mpmath([a, b])
+    res = bartlett({"A": a, "B": b})
+    assert res.exact
+    assert res.statistic == pytest.approx(ref, rel=1e-13)
+    assert res.p == pytest.approx(float(stats.chi2.sf(ref, 1)), rel=1e-10)
+
+
+def test_bartlett_first_case_matches_scipy():
+    # reference library: scipy.stats.bartlett (double precision is enough on these data)
+    a, b = [1.0001, 1.0002, 1.0003], [0, 100, 200]
+    ref = stats.bartlett(a, b)
+    assert bartlett([a, b]).statistic == pytest.approx(float(ref.statistic), rel=1e-12)
+    assert bartlett([a, b], exact=False).statistic == pytest.approx(float(ref.statistic), rel=1e-12)
+
+
+def test_bartlett_float_path_with_very_different_variances():
+    # reference library: scipy.stats.bartlett on the same doubles (the float path works on the
+    # doubles, not their decimal values); the variance ratio is below 2^-53
+    a, b = [1.0000001, 1.0000002, 1.0000003], [0, 1000, 2000]
+    ref = stats.bartlett(a, b)
+    res = bartlett({"A": a, "B": b}, exact=False)
+    assert not res.exact
+    assert res.statistic == pytest.approx(float(ref.statistic), rel=1e-12)
+
+
+def test_checks_answer_when_variances_differ_by_more_than_the_double_precision():
+    # the case above once crashed checks(); Bartlett now answers (mpmath, as above) and the
+    # one SD many times the other reads Welch (the rule of docs/checks.md)
+    gs = {"A": [1.0000001, 1.0000002, 1.0000003], "B": [0, 1000, 2000]}
+    c = checks(gs)
+    assert c.bartlett is not None
+    assert c.bartlett.statistic == pytest.approx(_bartlett_mpmath(gs.values()), rel=1e-13)
+    assert c.not_available == () or all(name != "Bartlett" for name, _ in c.not_available)
+    assert c.variances_unequal
+
+
+def test_checks_record_an_unexpected_numerical_failure(monkeypatch):
+    # a secondary test that fails on a numerical problem it did not foresee is recorded as not
+    # available, with the reason, and the other checks still answer
+    import sheetfuncs.assumptions as mod
+
+    def failing(*args, **kwargs):
+        raise ValueError("math domain error")
+
+    monkeypatch.setattr(mod, "bartlett", failing)
+    c = mod.checks(HEADS_WELL_BEHAVED)
+    assert c.bartlett is None
+    why = dict(c.not_available)["Bartlett"]
+    assert "math domain error" in why and "\n" not in why
+    row = next(r for r in c.table() if r[0] == "Bartlett")
+    assert row[1:4] == [None, None, None] and row[4].startswith("not available: the computation failed")
+    assert c.read == "oneway" and c.levene is not None and c.welch is not None
+
+    def overflowing(*args, **kwargs):
+        raise OverflowError("math range error")
+
+    monkeypatch.setattr(mod, "kruskal", overflowing)
+    c = mod.checks(HEADS_WELL_BEHAVED)
+    assert c.kruskal is None and "math range error" in dict(c.not_available)["Kruskal-Wallis"]
 
 
 # --------------------------------------------------------------------------------------------
