@@ -33,7 +33,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any
 
-from scipy import optimize
+from scipy import optimize, stats
 
 from .errors import InputError
 from .fdist import check_df
@@ -41,7 +41,7 @@ from .groups import as_groups
 from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
 from .planning import ncf_cdf
-from .validate import check_conf
+from .validate import check_conf, shown
 
 __all__ = ["EffectSizes", "effect_sizes", "noncentrality_interval"]
 
@@ -65,7 +65,11 @@ class EffectSizes:
     (low, high) at confidence ``conf``, from ``lambda_ci``, the equal-tailed interval for the
     noncentrality of the observed F; ``f``, ``df_between``, ``df_within`` and ``n_total`` of the
     one-way analysis; ``exact`` tells whether the decimal-exact sums of squares were used;
-    ``notes`` holds plain-language remarks (truncation, degenerate intervals).
+    ``notes`` holds plain-language remarks (truncation, degenerate intervals), and
+    ``interval_note`` the one among them about the intervals (``""`` when there is none).
+    ``table()`` puts each note in the Note cell of the rows it concerns. When F lies beyond the
+    double range although the groups vary within, ``lambda_ci`` is ``(inf, inf)`` and the limits
+    for f come from the large-noncentrality limit of the noncentral F.
 
     Sources: Hays (1963) for omega^2, Kelley (1935) for epsilon^2, Cohen (1988) for f,
     Steiger (2004) and Smithson (2003) for the intervals.
@@ -87,6 +91,7 @@ class EffectSizes:
     df_within: int
     n_total: int
     exact: bool
+    interval_note: str = ""
 
     def table(self) -> list[list[Any]]:
         """Header row (Measure, Value, CI low, CI high, Note), then one row per measure."""
@@ -97,6 +102,8 @@ class EffectSizes:
             om_note += f"; negative ({self.omega_squared_raw:.4g}) shown as 0"
         if self.epsilon_squared_raw < 0:
             ep_note += f"; negative ({self.epsilon_squared_raw:.4g}) shown as 0"
+        if self.interval_note:  # said where the intervals are, on both rows that carry one
+            ci += f"; {self.interval_note}"
         return [
             list(TABLE_HEADER),
             ["Eta squared", self.eta_squared, *self.eta_squared_ci,
@@ -122,11 +129,11 @@ def noncentrality_interval(
     try:
         x = float(f_obs)
     except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: the F value must be a number, not {f_obs!r}") from None
+        raise InputError(f"sheetfuncs: the F value must be a number, not {shown(f_obs)}") from None
     if math.isnan(x) or isinstance(f_obs, bool):
-        raise InputError(f"sheetfuncs: the F value must be a number, not {f_obs!r}")
+        raise InputError(f"sheetfuncs: the F value must be a number, not {shown(f_obs)}")
     if x < 0:
-        raise InputError(f"sheetfuncs: the F value must not be negative, not {f_obs!r}")
+        raise InputError(f"sheetfuncs: the F value must not be negative, not {shown(f_obs)}")
     if math.isinf(x):
         return math.inf, math.inf
     a = 1.0 - conf
@@ -150,6 +157,42 @@ def _solve_lambda(x: float, d1: float, d2: float, target: float) -> float:
     return float(optimize.brentq(gap, lo, hi, xtol=1e-300, rtol=1e-13, maxiter=500))
 
 
+def _sqrt_ratio(num: Fraction, den: Fraction) -> float:
+    """``sqrt(num / den)`` for ``num >= 0``, ``den > 0``, rounded from the exact ratio without
+    overflow or underflow on the way: the ratio is scaled by an even power of two to lie near
+    1, its root taken, and half the power added back. ``inf`` only when the root itself lies
+    beyond the largest double."""
+    r = Fraction(num) / Fraction(den)
+    if r == 0:
+        return 0.0
+    e = r.numerator.bit_length() - r.denominator.bit_length()
+    e -= e % 2  # even, so that the root of 2**e is a whole power of two
+    m = r / (Fraction(2) ** e) if e >= 0 else r * (Fraction(2) ** -e)  # in (1/4, 4)
+    try:
+        return math.ldexp(math.sqrt(float(m)), e // 2)
+    except OverflowError:
+        return math.inf
+
+
+def _overflow_f_limits(
+    ssb: Fraction, ssw: Fraction, dfw: int, n: int, conf: float
+) -> tuple[float, float]:
+    """Interval for Cohen's f when the observed F lies beyond the double range (``ssw > 0``).
+
+    The noncentrality is then beyond the double range too, where the noncentral F
+    ``(chi'^2(d1, lambda) / d1) / (chi^2(d2) / d2)`` has ``chi'^2 / lambda -> 1`` (relative
+    spread about ``1/sqrt(lambda)``), so ``P(F' <= F_obs; lambda) = P(chi^2(d2) >= d2 lambda /
+    (d1 F_obs))``: the same limit that :func:`sheetfuncs.planning.ncf_cdf` uses for large
+    noncentrality (Patnaik 1949). Solving for each target gives ``lambda = d1 F_obs q / d2`` with
+    ``q`` the chi-square(d2) point, and since ``d1 F_obs = SSB d2 / SSW``,
+    ``f = sqrt(lambda / N) = sqrt(SSB q / (SSW N))``, formed without overflow.
+    """
+    a = 1.0 - conf
+    q_lo = float(stats.chi2.ppf(a / 2.0, dfw))  # P(F' <= F_obs) = 1 - a/2 at the lower limit
+    q_hi = float(stats.chi2.isf(a / 2.0, dfw))  # ... = a/2 at the upper limit
+    return (_sqrt_ratio(ssb * Fraction(q_lo), ssw * n), _sqrt_ratio(ssb * Fraction(q_hi), ssw * n))
+
+
 def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) -> EffectSizes:
     """Eta^2, omega^2, epsilon^2 and Cohen's f of the groups, with intervals for eta^2 and f.
 
@@ -170,7 +213,7 @@ def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) ->
     eta = float(ssb / sst)
     omega_raw = float(corrected / (sst + msw))
     eps_raw = float(corrected / sst)
-    f_eff = math.inf if ssw == 0 else math.sqrt(ssb / ssw)
+    f_eff = math.inf if ssw == 0 else _sqrt_ratio(ssb, ssw)
 
     notes: list[str] = []
     negative = [nm for nm, v in (("omega squared", omega_raw), ("epsilon squared", eps_raw)) if v < 0]
@@ -181,22 +224,32 @@ def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) ->
         )
 
     lam_lo, lam_hi = noncentrality_interval(res.f, dfb, dfw, cf)
-    if math.isinf(res.f):
-        notes.append(
+    interval_note = ""
+    if math.isinf(res.f) and ssw == 0:
+        interval_note = (
             "there is no variation within groups, so F is infinite: eta squared is 1, Cohen's f "
             "is infinite and the intervals collapse onto those values"
         )
+    elif math.isinf(res.f):
+        interval_note = (
+            "F lies beyond the largest double (about 1.8e308) and is shown as infinite: the "
+            "variation within groups is tiny next to that between them; eta squared and its "
+            "limits round to 1, and the limits for Cohen's f come from the large-noncentrality "
+            "limit of the noncentral F"
+        )
     elif lam_hi == 0.0:
-        notes.append(
+        interval_note = (
             f"both interval limits are 0: the observed F ({res.f:.4g}) is below the lower "
             f"{(1 - cf) / 2:g} point of F({dfb}, {dfw}); group means this close together are "
             "unusual, so check the data"
         )
     elif lam_lo == 0.0:
-        notes.append(
+        interval_note = (
             f"the lower interval limits are 0: at {_pct(cf)} confidence the data are consistent "
             "with no difference between the group means"
         )
+    if interval_note:
+        notes.append(interval_note)
 
     def to_eta(lam: float) -> float:
         return 1.0 if math.isinf(lam) else lam / (lam + n)
@@ -204,13 +257,18 @@ def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) ->
     def to_f(lam: float) -> float:
         return math.inf if math.isinf(lam) else math.sqrt(lam / n)
 
+    if math.isinf(res.f) and ssw != 0:
+        f_ci = _overflow_f_limits(ssb, ssw, dfw, n, cf)
+    else:
+        f_ci = (to_f(lam_lo), to_f(lam_hi))
+
     return EffectSizes(
         eta_squared=eta,
         omega_squared=max(omega_raw, 0.0),
         epsilon_squared=max(eps_raw, 0.0),
         cohens_f=f_eff,
         eta_squared_ci=(to_eta(lam_lo), to_eta(lam_hi)),
-        cohens_f_ci=(to_f(lam_lo), to_f(lam_hi)),
+        cohens_f_ci=f_ci,
         conf=cf,
         lambda_ci=(lam_lo, lam_hi),
         notes=tuple(notes),
@@ -221,4 +279,5 @@ def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) ->
         df_within=dfw,
         n_total=n,
         exact=res.exact,
+        interval_note=interval_note,
     )

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 
+import mpmath
 import numpy as np
 import pytest
 from hypothesis import assume, given, settings, strategies as st
@@ -138,6 +139,9 @@ def test_tiny_f_gives_zero_interval_with_a_note():
     assert e.eta_squared_ci == (0.0, 0.0)
     assert e.cohens_f_ci == (0.0, 0.0)
     assert any("both interval limits are 0" in nt for nt in e.notes)
+    t = e.table()  # the note reaches the sheet, on both rows that carry an interval
+    assert "both interval limits are 0" in t[1][4] and "both interval limits are 0" in t[4][4]
+    assert "both interval limits" not in t[2][4] + t[3][4]
 
 
 def test_no_within_variation_gives_infinite_f():
@@ -149,13 +153,89 @@ def test_no_within_variation_gives_infinite_f():
     assert e.cohens_f_ci == (math.inf, math.inf)
     assert e.omega_squared == 1.0 and e.epsilon_squared == 1.0
     assert any("infinite" in nt for nt in e.notes)
+    t = e.table()
+    assert "no variation within groups" in t[1][4] and "no variation within groups" in t[4][4]
+
+
+def _exact_ss(groups):
+    """SSB and SSW of the decimal values, with mpmath at 60 digits."""
+    mpmath.mp.dps = 60
+    gs = [[mpmath.mpf(repr(float(x))) for x in g] for g in groups]
+    allv = [x for g in gs for x in g]
+    grand = sum(allv) / len(allv)
+    means = [sum(g) / len(g) for g in gs]
+    ssb = sum(len(g) * (m - grand) ** 2 for g, m in zip(gs, means))
+    ssw = sum(sum((x - m) ** 2 for x in g) for g, m in zip(gs, means))
+    return ssb, ssw, len(allv)
+
+
+def test_cohens_f_beyond_the_double_range_of_its_square():
+    # SSB / SSW is about 3e600, beyond the largest double, while f = sqrt(SSB / SSW) is about
+    # 1.8e300: reference values from mpmath at 60 digits on the decimal values
+    groups = [[1.25], [8e-301, 0.0]]
+    e = effect_sizes(groups)
+    ssb, ssw, n = _exact_ss(groups)
+    assert e.cohens_f == pytest.approx(float(mpmath.sqrt(ssb / ssw)), rel=1e-15)
+    assert math.isinf(e.f) and e.eta_squared == 1.0
+    # the F overflows although the groups vary within: the note says so, not "no variation"
+    assert e.interval_note.startswith("F lies beyond the largest double")
+    assert not any("no variation within groups" in nt for nt in e.notes)
+    t = e.table()
+    assert "F lies beyond the largest double" in t[4][4]
+    # limits for f: the large-noncentrality limit of the noncentral F (Patnaik 1949), where
+    # P(F' <= F_obs; lambda) = P(chi2(d2) >= lambda SSW / SSB), so f = sqrt(SSB q / (SSW N)) with
+    # q the chi-square(d2) points of scipy.stats.chi2 (here d2 = 1), evaluated with mpmath
+    q_lo, q_hi = stats.chi2.ppf(0.025, 1), stats.chi2.isf(0.025, 1)
+    lo = float(mpmath.sqrt(ssb * mpmath.mpf(float(q_lo)) / (ssw * n)))
+    hi = float(mpmath.sqrt(ssb * mpmath.mpf(float(q_hi)) / (ssw * n)))
+    assert e.cohens_f_ci == pytest.approx((lo, hi), rel=1e-14)
+    assert e.cohens_f_ci[0] < e.cohens_f < e.cohens_f_ci[1]
+
+
+def test_overflow_limits_continue_the_noncentral_f_interval():
+    # where F is large but finite, the intervals from the noncentral F (sheetfuncs.planning's
+    # distribution function, checked against scipy.stats.ncf elsewhere) and from its
+    # large-noncentrality limit must agree: the relative spread of the noncentral chi-square is
+    # about 1/sqrt(lambda), here below 1e-6 (common practice)
+    from fractions import Fraction
+
+    from sheetfuncs.effects import _overflow_f_limits
+    from sheetfuncs.oneway import oneway
+
+    groups = [[1.0, 1.000001, 1.000002], [5.0, 5.000001, 5.000002], [9.0, 9.000001, 9.000002]]
+    e = effect_sizes(groups)
+    r = oneway(groups)
+    assert 1e12 < e.f < 1e15
+    limit = _overflow_f_limits(Fraction(r.ss_between_exact), Fraction(r.ss_within_exact), r.df_within, r.n_total, 0.95)
+    assert limit == pytest.approx(e.cohens_f_ci, rel=1e-6)
+
+
+def test_cohens_f_overflows_only_when_the_root_does():
+    # exact powers of two (common practice): the root of 2^2100 lies beyond the double range
+    from fractions import Fraction
+
+    from sheetfuncs.effects import _sqrt_ratio
+
+    assert _sqrt_ratio(Fraction(2) ** 2100, Fraction(1)) == math.inf
+    assert _sqrt_ratio(Fraction(2) ** 2046, Fraction(1)) == 2.0**1023
+    assert _sqrt_ratio(Fraction(1), Fraction(2) ** 2100) == 2.0**-1050  # subnormal, still there
+    assert _sqrt_ratio(Fraction(1), Fraction(2) ** 2200) == 0.0  # below the smallest double
+    assert _sqrt_ratio(Fraction(0), Fraction(3)) == 0.0
+    assert _sqrt_ratio(Fraction(9, 4), Fraction(1)) == 1.5
 
 
 def test_lower_limit_zero_note():
     groups = _seeded_groups(7, k=3, n=5, shift=0.2)
     e = effect_sizes(groups)
-    if e.lambda_ci[0] == 0.0 and e.lambda_ci[1] > 0:
-        assert any("lower interval limits are 0" in nt for nt in e.notes)
+    # F is about 0.66, below the central F's upper 2.5% point, so the lower limit is 0 while
+    # the upper one is not (scipy.stats.f gives the points the two limits are judged against)
+    assert stats.f.cdf(e.f, 2, e.df_within) < 0.975
+    assert stats.f.cdf(e.f, 2, e.df_within) > 0.025
+    assert e.lambda_ci[0] == 0.0 and e.lambda_ci[1] > 0
+    assert any("lower interval limits are 0" in nt for nt in e.notes)
+    assert e.interval_note.startswith("the lower interval limits are 0")
+    t = e.table()
+    assert "lower interval limits are 0" in t[1][4] and "lower interval limits are 0" in t[4][4]
     big = effect_sizes(_seeded_groups(7, k=3, n=30, shift=2.0))
     assert big.lambda_ci[0] > 0 and big.eta_squared_ci[0] > 0
     assert not any("lower interval limits" in nt for nt in big.notes)
