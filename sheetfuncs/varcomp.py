@@ -48,7 +48,10 @@ from .validate import check_conf
 
 __all__ = ["VarianceComponents", "variance_components"]
 
-TABLE_HEADER = ("Component", "Estimate", "CI low", "CI high", "Share of total")
+TABLE_HEADER = ("Component", "Estimate", "CI low", "CI high", "Share of total", "Note")
+
+#: The rows of ``VarianceComponents.table()`` after the header, in order.
+ROWS = ("Between groups", "Within groups", "Total", "Intraclass correlation", "Effective group size n0")
 
 METHOD = (
     "ANOVA estimators; within: chi-square interval; between: modified large-sample interval "
@@ -97,14 +100,55 @@ class VarianceComponents:
     exact: bool
 
     def table(self) -> list[list[Any]]:
-        """Header row, then Between groups, Within groups, Total and the intraclass correlation."""
+        """Header row (Component, Estimate, CI low, CI high, Share of total, Note), then Between
+        groups, Within groups, Total, Intraclass correlation and Effective group size n0. Each
+        Note cell holds the notes that concern its row (joined by "; "), or is blank."""
+        by_row = _row_notes(
+            between_raw=self.between_raw, n0=self.n0, balanced=self.balanced,
+            within_zero=self.ms_within == 0.0, k=self.k, df_between=self.df_between,
+        )
+
+        def note(row: str) -> str | None:
+            return "; ".join(by_row[row]) or None
+
         return [
             list(TABLE_HEADER),
-            ["Between groups", self.between, *self.between_ci, self.icc],
-            ["Within groups", self.within, *self.within_ci, 1.0 - self.icc],
-            ["Total", self.total, *self.total_ci, 1.0],
-            ["Intraclass correlation", self.icc, *self.icc_ci, None],
+            [ROWS[0], self.between, *self.between_ci, self.icc, note(ROWS[0])],
+            [ROWS[1], self.within, *self.within_ci, 1.0 - self.icc, note(ROWS[1])],
+            [ROWS[2], self.total, *self.total_ci, 1.0, note(ROWS[2])],
+            [ROWS[3], self.icc, *self.icc_ci, None, note(ROWS[3])],
+            [ROWS[4], self.n0, None, None, None, note(ROWS[4])],
         ]
+
+
+def _row_notes(
+    *, between_raw: float, n0: float, balanced: bool, within_zero: bool, k: int, df_between: int
+) -> dict[str, list[str]]:
+    """The plain-language notes of a result, keyed by the table row each concerns (a note may
+    concern several rows; the result's ``notes`` lists each once)."""
+    out: dict[str, list[str]] = {row: [] for row in ROWS}
+    between, within, total, icc, size = ROWS
+    if between_raw < 0:
+        out[between].append(
+            f"the estimate (MSB - MSW)/n0 came out negative ({between_raw:.4g}) and is shown "
+            "as 0: the groups vary no more than the values within them"
+        )
+        out[icc].append("0 because the between-group estimate is shown as 0")
+    if not balanced:
+        approx = "approximate: group sizes differ, and n0 stands in for the common size"
+        for row in (between, total, icc):
+            out[row].append(f"interval {approx}")
+        out[size].append(f"group sizes differ: n0 = {n0:.6g} stands in for the common group size")
+    else:
+        out[size].append("the common group size (sizes are equal)")
+    if within_zero:
+        out[within].append("no variation within groups: the estimate and its interval are 0")
+    if df_between < 4:
+        out[between].append(
+            f"only {k} groups ({df_between} degrees of freedom), so the interval is wide; more "
+            "groups narrow it more than more values per group"
+        )
+    return out
 
 
 def _upper_chi2_ratio(q: float, df: int) -> float:

@@ -129,14 +129,53 @@ def test_coverage_by_seeded_simulation():
 def test_table_layout_and_shares():
     v = variance_components(DYESTUFF)
     t = v.table()
-    assert t[0] == ["Component", "Estimate", "CI low", "CI high", "Share of total"]
-    assert [r[0] for r in t[1:]] == ["Between groups", "Within groups", "Total", "Intraclass correlation"]
-    assert all(len(r) == 5 for r in t)
+    assert t[0] == ["Component", "Estimate", "CI low", "CI high", "Share of total", "Note"]
+    assert [r[0] for r in t[1:]] == [
+        "Between groups", "Within groups", "Total", "Intraclass correlation", "Effective group size n0",
+    ]
+    assert all(len(r) == 6 for r in t)
     assert t[1][4] + t[2][4] == pytest.approx(1.0)
     assert t[1][1:4] == [v.between, *v.between_ci]
-    for row in t[1:]:
+    for row in t[1:5]:
         assert row[2] <= row[1] <= row[3]
+    # balanced Dyestuff (six batches): no remark on the components, n0 is the common size 5
+    assert [r[5] for r in t[1:5]] == [None, None, None, None]
+    assert t[5][1:5] == [5.0, None, None, None] and "common group size" in t[5][5]
     assert "Ting" in v.method and "Graybill & Wang" in v.method and "Searle" in v.method
+
+
+def test_truncation_note_reaches_the_table():
+    # the between estimate (MSB - MSW)/n0 is negative here (checked against the field), so the
+    # sheet must say why Between and the ICC show 0
+    groups = [[1.0, 5.0, 3.0, 2.0], [4.0, 2.0, 3.0, 3.0], [3.0, 2.0, 4.0, 3.2], [1.0, 4.0, 3.0, 3.1], [5.0, 1.0, 2.0, 4.0]]
+    v = variance_components(groups)
+    assert v.between_raw < 0
+    rows = {r[0]: r for r in v.table()[1:]}
+    assert rows["Between groups"][1] == 0.0
+    assert "negative" in rows["Between groups"][5] and "shown as 0" in rows["Between groups"][5]
+    assert rows["Intraclass correlation"][1] == 0.0
+    assert "between-group estimate is shown as 0" in rows["Intraclass correlation"][5]
+    assert rows["Within groups"][5] is None
+    assert rows["Effective group size n0"][1] == 4.0
+
+
+def test_unequal_sizes_and_few_groups_notes_reach_the_table():
+    # sizes 3, 5, 8: n0 = 4.9375 (Searle, Casella & McCulloch 1992, ch. 3, as above)
+    groups = [[10.1, 10.4, 9.8], [11.0, 11.3, 10.7, 11.1, 10.9], [9.5, 9.9, 9.7, 9.2, 9.8, 9.6, 9.4, 10.0]]
+    rows = {r[0]: r for r in variance_components(groups).table()[1:]}
+    assert rows["Effective group size n0"][1] == 4.9375
+    assert "n0 = 4.9375" in rows["Effective group size n0"][5]
+    for name in ("Between groups", "Total", "Intraclass correlation"):
+        assert "approximate" in rows[name][5]
+    assert "only 3 groups" in rows["Between groups"][5]
+    assert rows["Within groups"][5] is None  # the chi-square interval is exact whatever the sizes
+
+
+def test_no_within_variation_note_reaches_the_table():
+    groups = [[2.0, 2.0, 2.0], [5.0, 5.0, 5.0], [3.0, 3.0, 3.0], [7.0, 7.0, 7.0]]
+    rows = {r[0]: r for r in variance_components(groups).table()[1:]}
+    assert rows["Within groups"][1:4] == [0.0, 0.0, 0.0]
+    assert "no variation within groups" in rows["Within groups"][5]
 
 
 def test_few_groups_note():
