@@ -1005,7 +1005,8 @@ _LOTS_SHEET: tuple[tuple[Any, ...], ...] = (
     result="table",
     columns=VARCOMP_HEADER,
     returns="A header row, then Between groups, Within groups, Total and Intraclass correlation, "
-    "each with its estimate, interval and share of the total variance. Estimators: ANOVA "
+    "each with its estimate, interval and share of the total variance, and a last row with the "
+    "effective group size n0; the Note column carries each row's notes. Estimators: ANOVA "
     "(method of moments), with the effective group size n0 when sizes differ. Intervals: "
     "chi-square (within), modified large-sample (between: Ting et al. 1990; total: Graybill & "
     "Wang 1980), F-based (intraclass correlation: Searle 1971). A between estimate that comes "
