@@ -53,6 +53,27 @@ def convert(src: Path, fmt: str, outdir: Path, timeout: int = TIMEOUT) -> Path:
     return out
 
 
+def convert_many(srcs: list[Path], fmt: str, outdir: Path, timeout: int = TIMEOUT) -> list[Path]:
+    """One ``soffice --convert-to`` call for many files (it accepts any number): one office
+    start-up for the lot. Returns the converted files, in the order of ``srcs``."""
+    exe = soffice()
+    assert exe, "LibreOffice is not installed"
+    stems = [p.stem for p in srcs]
+    assert len(set(stems)) == len(stems), "files converted together need distinct names"
+    outdir.mkdir(parents=True, exist_ok=True)
+    profile = Path(tempfile.mkdtemp(prefix="sheetfuncs-lo-"))
+    try:
+        cmd = [exe, f"-env:UserInstallation={profile.as_uri()}", "--headless", "--norestore",
+               "--nolockcheck", "--convert-to", fmt, "--outdir", str(outdir), *map(str, srcs)]
+        done = subprocess.run(cmd, capture_output=True, text=True, timeout=timeout + 30 * len(srcs))
+    finally:
+        shutil.rmtree(profile, ignore_errors=True)
+    outs = [outdir / (p.stem + "." + fmt.split(":")[0]) for p in srcs]
+    missing = [str(o) for o in outs if not o.exists()]
+    assert not missing, f"LibreOffice did not write {missing}: {done.stdout} {done.stderr}"
+    return outs
+
+
 def render_png(pdf: Path, prefix: Path, first: int = 1, last: int = 3, dpi: int = 50) -> list[Path]:
     """Pages ``first..last`` of a PDF as PNG files (poppler's pdftoppm)."""
     prefix.parent.mkdir(parents=True, exist_ok=True)

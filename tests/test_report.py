@@ -119,6 +119,51 @@ def test_audit_formulas_use_the_hosts_functions_on_the_centred_column(demo):
     assert "F.DIST.RT(" not in formulas.replace("_xlfn.F.DIST.RT(", "")
 
 
+# invented: three groups that are the same seven values in different orders (SS between = 0);
+# their centred mean is not a double, so a host's SUM/n and SUMIF/COUNT can differ in the last
+# bit (LibreOffice recalculates SS between as about 1e-33)
+_SEVEN = [5.9, 5.2, 5.5, 4.9, 5.8, 4.1, 5.3]
+EQUAL_MEANS = {f"Head {i + 1}": _SEVEN[i:] + _SEVEN[:i] for i in range(3)}
+
+
+def test_audit_checks_allow_rounding_noise_at_the_scale_of_the_analysis(tmp_path):
+    # exactly equal means: a host's floating-point sums give SS between ~1e-33, not 0; the
+    # check compares it at the scale of SS total (and MS, F, p at theirs), never with no room
+    assert oneway(EQUAL_MEANS).ss_between == 0
+    wb = openpyxl.load_workbook(_write(tmp_path, EQUAL_MEANS))
+    checks_ = {row[0].value: row[4].value for row in wb["Audit"].iter_rows(min_row=7, max_col=5)
+               if isinstance(row[4].value, str) and row[4].value.startswith("=IF(")}
+    ss_total_row = next(r[0].row for r in wb["Audit"].iter_rows(min_row=7, max_col=1) if r[0].value == "SS total")
+    for name in ("SS between", "SS within (residual)", "SS total"):
+        assert f"1E-9*ABS(C{ss_total_row})" in checks_[name]
+    assert "1E-9*MAX(ABS(C" in checks_["MS between"] and "1E-9*MAX(ABS(C" in checks_["MS within"]
+    assert "MAX(1E-9*ABS(C" in checks_["F"] and ",1E-9)" in checks_["F"]
+    assert ",1E-12)" in checks_["p"]
+    assert "MAX(1E-9*ABS(C" in checks_["df between"] and ",0)" in checks_["df between"]
+
+
+def test_values_chart_stays_within_the_series_limit(tmp_path, monkeypatch):
+    # the host allows 255 series per chart (Excel's specifications, from memory); the cap is
+    # lowered here so that the many-groups layout is exercised on five groups (a report of 251
+    # groups spends most of its time on 31,375 pairwise comparisons)
+    import sheetfuncs.report._sheets as sheets_mod
+
+    assert sheets_mod.MAX_GROUP_SERIES + 1 <= 255
+    monkeypatch.setattr(sheets_mod, "MAX_GROUP_SERIES", 4)
+    g = {f"Lot {i}": [1.0 + (i % 7) * 0.1, 1.2 + (i % 5) * 0.1, 1.1] for i in range(5)}
+    path = _write(tmp_path, g)
+    with zipfile.ZipFile(path) as z:
+        xml = [z.read(n).decode() for n in z.namelist() if n.startswith("xl/charts/chart")]
+    values = next(x for x in xml if "scatterChart" in x)
+    assert values.count("<c:ser>") + values.count("<ser>") == 2  # all values, and the means
+    ws = openpyxl.load_workbook(path)["Chart"]
+    assert "With 5 groups the values chart draws all groups as one series" in _cells_text(ws)
+    head = [c.row for (c,) in ws.iter_rows(min_col=1, max_col=1) if c.value == "Chart data: plotted values"][0]
+    plotted = [r for r in ws.iter_rows(min_row=head + 2, max_col=3, values_only=True) if isinstance(r[0], int)]
+    assert len(plotted) == 15  # every value is still plotted, in the one series
+    assert f"$C${head + 2}:$C${head + 16}" in values
+
+
 def test_chart_is_native_with_error_bars(demo):
     _, path, wb = demo
     charts = wb["Chart"]._charts
@@ -161,6 +206,73 @@ def test_number_formats_follow_the_data_precision(demo, tmp_path):
     wb3 = openpyxl.load_workbook(three)
     assert wb3["Data"]["C2"].number_format == "0.000"
     assert wb3["Groups"]["C5"].number_format == "0.00000"
+
+
+def _shown(value: float, fmt: str) -> str:
+    """What a spreadsheet shows for ``value`` in the fixed or scientific format ``fmt``
+    (common practice: 0.000 = three decimals, 0.000E+00 = four significant digits)."""
+    if "E" in fmt:
+        return f"{value:.{len(fmt.split('E')[0].split('.')[1])}E}"
+    return f"{value:.{len(fmt.split('.')[1]) if '.' in fmt else 0}f}"
+
+
+def _has_digits(text: str) -> bool:
+    return any(ch in "123456789" for ch in text)
+
+
+# invented: float-path measurements of about 1e-6 (not shortest decimals: formula results)
+TINY_FLOAT = {f"Probe {i + 1}": (1e-6 + 4e-8 * np.random.default_rng(7 + i).standard_normal(7) + i * 3e-8).tolist()
+              for i in range(3)}
+# invented: exact-path readings with seven decimals; SS about 1e-13
+TINY_EXACT = {"a": [0.0000012, 0.0000013, 0.0000011, 0.0000012], "b": [0.0000014, 0.0000013, 0.0000015, 0.0000014]}
+
+
+@pytest.mark.parametrize("groups", [TINY_FLOAT, TINY_EXACT], ids=["float path", "exact path"])
+def test_very_small_figures_never_show_as_zeros(tmp_path, groups):
+    path = _write(tmp_path, groups)
+    wb = openpyxl.load_workbook(path)
+    ws = wb["Tables"]
+    start = next(r for r in range(1, 20) if ws.cell(r, 1).value == "Source")
+    for r in range(start + 1, start + 4):
+        for c in (3, 4):  # SS and MS
+            cell = ws.cell(r, c)
+            if isinstance(cell.value, float):
+                assert _has_digits(_shown(cell.value, cell.number_format)), (cell.coordinate, cell.value, cell.number_format)
+    g = wb["Groups"]
+    for r in range(5, 5 + len(groups)):
+        for c in (3, 4):  # mean and SD
+            cell = g.cell(r, c)
+            assert _has_digits(_shown(cell.value, cell.number_format)), (cell.coordinate, cell.value, cell.number_format)
+    ow = oneway(groups)
+    want = {"SS between": ow.ss_between, "SS within (residual)": ow.ss_within, "SS total": ow.ss_total,
+            "MS between": ow.ms_between, "MS within": ow.ms_within}
+    seen = 0
+    for row in wb["Audit"].iter_rows(min_row=7, max_col=2):
+        if row[0].value in want:  # the Audit's formula cells are formatted for the Python value
+            assert _has_digits(_shown(want[row[0].value], row[1].number_format)), row[0].value
+            seen += 1
+    assert seen == 5
+    text = _findings_sheet(path)
+    spread = text[text.index("a spread of "):].split()[3].rstrip(".")
+    assert _has_digits(spread), spread
+    assert "a spread of 0.000000." not in text
+
+
+def test_float_path_decimals_follow_the_spread(tmp_path):
+    # invented: formula-result weights (g) around 250 with SD about 2: decimals from the SD,
+    # two more for means (common practice), not a fixed four
+    rng = np.random.default_rng(3)
+    g = {f"Cell {i}": (250 + 2 * rng.standard_normal(8)).tolist() for i in range(3)}
+    an = analyse(g)
+    assert not an.exact
+    assert an.precision.value == 2 and an.precision.mean == 4
+    from sheetfuncs.report._formats import Precision, format_measure, spread_decimals
+
+    assert spread_decimals(0.0195) == 4 and spread_decimals(None) is None
+    assert Precision(None).value == 4  # no spread known: four decimals
+    assert Precision(6).square_format(7e-14) == "0.000E+00" and Precision(6).square_format(0.5) == "0." + "0" * 12
+    assert format_measure(4.4e-8, 6) == "0.00000004400" and format_measure(0.25, 3) == "0.250"
+    assert format_measure(0.0, 6) == "0.000000"
 
 
 # ---------------------------------------------------------------------------------------------
@@ -306,6 +418,60 @@ def test_findings_unequal_variances_reads_welch(tmp_path):
     text = _findings_sheet(_write(tmp_path, UNEQUAL, factor="Supplier", response="bore diameter", unit="mm"))
     assert "Read Welch's test (it does not assume equal variances)" in text
     assert "Games–Howell" in text  # the safer reading of pairs is named
+
+
+def test_findings_unequal_variances_lead_with_games_howell_and_do_not_contradict():
+    # The invented UNEQUAL scenario: Welch's p is about 0.0001, far from alpha, and the pooled
+    # Tukey–Kramer comparisons find no pair while Games–Howell finds one (scipy.stats'
+    # tukey_hsd is not needed: the report's own pairs are what the text must follow).
+    an = analyse(UNEQUAL, factor="Supplier", response="bore diameter", unit="mm")
+    fi = findings(an)
+    assert fi.read == "welch" and fi.verdict == "differs" and an.welch.p < 0.001
+    differ = dict(fi.sections)["Which groups differ"]
+    assert differ[0].startswith("The group spreads look unequal and Welch's test is the result to read")
+    assert "Games–Howell" in differ[0] and "1 of the 3 pairs of groups differs clearly" in differ[0]
+    assert differ[1].startswith('• "Supplier 2" is higher than "Supplier 1"')
+    pooled = next(i for i, t in enumerate(differ) if "Tukey–Kramer" in t)
+    assert pooled > 1 and "pool the group variances" in differ[pooled]
+    assert "near the threshold" not in fi.text()  # p = 0.0001 is not near alpha = 0.05
+    letters_line = next(t for t in differ if "share a letter" in t)
+    assert "pooled Tukey–Kramer" in letters_line
+    text = fi.text()
+    assert "about less than" not in text and "1 of the 3 pairs differ " not in text
+    notes = dict(fi.sections)["Notes on the data"]
+    consistent = [t for t in notes if "consistent with no difference" in t]
+    assert consistent and all("not from Welch's test" in t for t in consistent)
+
+
+def test_findings_near_threshold_sentence_only_near_alpha():
+    # invented: three lots, the third a little higher; F's p is just below alpha (0.04) and
+    # Scheffé's pairwise comparisons (never more significant than the F test) find no pair
+    lots = {"Lot 1": [10.0, 10.4, 9.7, 10.2, 9.9, 10.3], "Lot 2": [10.1, 9.8, 10.3, 10.0, 10.4, 9.9],
+            "Lot 3": [10.51, 10.21, 10.71, 10.41, 10.11, 10.61]}
+    an = analyse(lots, method="scheffe")
+    fi = findings(an)
+    assert fi.verdict == "differs" and fi.read == "oneway" and 0.01 <= an.oneway.p < 0.05
+    assert not any(r.differs for r in an.pairwise.rows)
+    assert "No pair of groups differs clearly (Scheffé comparisons" in fi.text()
+    assert "disagree near the threshold" in fi.text()
+
+
+def test_findings_typo_notes_appear_once(tmp_path):
+    g = groups_from_range([["Lot a", "Lot A", "Lot b"], [1.0, 2.0, 1.5], [1.2, 2.2, 1.4], [1.1, 2.1, 1.6]])
+    fi = findings(analyse(g))
+    assert len(fi.typo_notes) == 1
+    assert fi.text().count(fi.typo_notes[0]) == 1
+    sheet = _findings_sheet(_write(tmp_path, g))
+    assert sheet.count(fi.typo_notes[0]) == 1
+
+
+def test_findings_percent_wording():
+    from sheetfuncs.report._findings import _percent
+
+    assert _percent(0.004) == "less than 1%"
+    assert _percent(0.25) == "about 25%"
+    fi = findings(analyse(NONE))
+    assert "accounts for less than 1%" in fi.text()
 
 
 def test_findings_rank_test_read_and_disagreeing(tmp_path):

@@ -180,6 +180,17 @@ def centred_values(a: np.ndarray, mom: ExactMoments | FloatMoments, centre: Deci
     return np.array([float(Decimal(repr(v)) - centre) for v in x.tolist()], dtype=np.float64)
 
 
+def _smallest_spread(desc: DescribeResult, ow: OneWayResult) -> float | None:
+    """The smallest positive group SD (the overall SD when no group varies): it sets the
+    decimals of the floating-point path, whose values carry no decimals of their own."""
+    sds = [float(s.sd) for s in desc if s.n > 1 and math.isfinite(float(s.sd)) and float(s.sd) > 0]
+    if sds:
+        return min(sds)
+    if ow.df_total > 0 and ow.ss_total > 0 and math.isfinite(ow.ss_total):
+        return math.sqrt(ow.ss_total / ow.df_total)
+    return None
+
+
 def _label_option(control: Any, g: Groups) -> str | None:
     if control is None:
         return None
@@ -242,7 +253,7 @@ def analyse(
     if chk.variances_unequal and m != "games-howell":
         gh = _attempt(METHOD_NAMES["games-howell"], pairwise, g, "games-howell", a)
     centre = centring_constant(mom, ow)
-    prec = Precision(mom.scale if isinstance(mom, ExactMoments) else None)
+    prec = Precision(mom.scale if isinstance(mom, ExactMoments) else None, _smallest_spread(desc, ow))
     return Analysis(
         groups=g, alpha=a, conf=conf, method=m, control=ctrl, factor=fac, response=resp,
         unit=un, title=ttl, moments=mom, oneway=ow, describe=desc, checks=chk, welch=wel,

@@ -12,7 +12,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from ._analysis import Analysis, Unavailable
-from ._formats import format_number, format_p, format_sig
+from ._formats import format_measure, format_number, format_p, format_sig
 
 __all__ = ["Findings", "findings", "CAUTIONS", "effect_label"]
 
@@ -46,7 +46,7 @@ class Findings:
 
     def text(self) -> str:
         """Everything as one string (for logs and tests)."""
-        parts = [self.headline]
+        parts = [self.headline, *self.typo_notes]
         for head, paras in self.sections:
             parts.append(head)
             parts.extend(paras)
@@ -146,43 +146,99 @@ def _pair_sentence(an: Analysis, row: Any, interval: str) -> str:
     dec = an.precision.mean
     return (
         f"{_quote(a_lab)} is higher than {_quote(b_lab)} by "
-        f"{an.units(format_number(d, dec))} ({interval} interval {format_number(lo, dec)} to "
-        f"{format_number(hi, dec)}; {format_p(row.p)})."
+        f"{an.units(format_measure(d, dec))} ({interval} interval {format_measure(lo, dec)} to "
+        f"{format_measure(hi, dec)}; {format_p(row.p)})."
     )
 
 
 _MAX_PAIRS = 12
 
 
-def _differ_section(an: Analysis, verdict: str) -> tuple[str, ...]:
+def _count_phrase(hits: int, pairs: int) -> str:
+    verb = "differs" if hits == 1 else "differ"
+    return f"{hits} of the {pairs} pair{'' if pairs == 1 else 's'} of groups {verb} clearly"
+
+
+def _hits(res: Any) -> list[Any]:
+    return sorted((r for r in res.rows if r.differs), key=lambda r: -abs(r.difference))
+
+
+def _pair_lines(an: Analysis, res: Any, name: str, lead: str = "") -> list[str]:
+    """A count of the pairs that differ, with one line per pair (largest difference first)."""
+    hits = _hits(res)
+    a = _alpha(an.alpha)
+    if not hits:
+        return [f"{lead}No pair of groups differs clearly ({name} comparisons at alpha = {a})."]
+    interval = getattr(res, "interval", "") or "confidence"
+    out = [f"{lead}{_count_phrase(len(hits), len(res.rows))} ({name} comparisons at alpha = {a}; "
+           f"intervals: {interval}):"]
+    out.extend("• " + _pair_sentence(an, r, "the") for r in hits[:_MAX_PAIRS])
+    if len(hits) > _MAX_PAIRS:
+        out.append(f"… and {len(hits) - _MAX_PAIRS} more pairs; see the Comparisons sheet.")
+    return out
+
+
+def _p_read(an: Analysis, read: str) -> float:
+    if read == "welch":
+        return an.welch.p
+    if read == "kruskal":
+        return an.kruskal.p
+    return an.oneway.p
+
+
+def _near_alpha(p: float, alpha: float) -> bool:
+    """A p-value within a factor of five below alpha, or at most twice alpha (common practice
+    for "near the threshold": a small change in the data could move it across)."""
+    return math.isfinite(p) and alpha / 5 <= p < 2 * alpha
+
+
+def _differ_section(an: Analysis, verdict: str, read: str = "oneway") -> tuple[str, ...]:
     out: list[str] = []
     pw = an.pairwise
+    gh = an.unequal_pairs
     a = an.alpha
-    if isinstance(pw, Unavailable):
-        out.append(f"The {an.method_name} comparisons could not run: {pw.reason}.")
-    else:
-        rows = list(pw.rows)
-        hits = sorted((r for r in rows if r.differs), key=lambda r: -abs(r.difference))
-        interval = getattr(pw, "interval", "") or "confidence"
-        if hits:
-            out.append(
-                f"{len(hits)} of the {len(rows)} pairs of groups differ clearly "
-                f"({an.method_name} comparisons at alpha = {_alpha(a)}; intervals: {interval}):"
-            )
-            for r in hits[:_MAX_PAIRS]:
-                out.append("• " + _pair_sentence(an, r, "the"))
-            if len(hits) > _MAX_PAIRS:
-                out.append(f"… and {len(hits) - _MAX_PAIRS} more pairs; see the Comparisons sheet.")
+    # When Welch's test is read and the chosen method pools the variances, the pairs are read
+    # from Games–Howell (which does not pool them) and the pooled method comes second.
+    welch_lead = read == "welch" and gh is not None
+    primary: Any = None
+    if welch_lead:
+        lead = ("The group spreads look unequal and Welch's test is the result to read, so the pairs "
+                "are read from the Games–Howell comparisons, which do not pool the variances")
+        if isinstance(gh, Unavailable):
+            out.append(f"{lead}; they could not run: {gh.reason}.")
         else:
+            primary = gh
+            out.extend(_pair_lines(an, gh, "Games–Howell", lead + ". "))
+        if isinstance(pw, Unavailable):
+            out.append(f"The {an.method_name} comparisons could not run: {pw.reason}.")
+        else:
+            n_pooled = len(_hits(pw))
+            found = ("find no pair that differs clearly" if n_pooled == 0 else
+                     f"find that {_count_phrase(n_pooled, len(pw.rows))}")
             out.append(
-                f"No pair of groups differs clearly ({an.method_name} comparisons at alpha = "
-                f"{_alpha(a)})."
+                f"For reference, the {an.method_name} comparisons (the chosen method) {found}; they "
+                "pool the group variances, which spreads as unequal as these do not support, so "
+                "they are shown on the Comparisons sheet but not read here."
             )
+    else:
+        if isinstance(pw, Unavailable):
+            out.append(f"The {an.method_name} comparisons could not run: {pw.reason}.")
+        else:
+            primary = pw
+            out.extend(_pair_lines(an, pw, an.method_name))
+    if primary is not None:
+        hits = _hits(primary)
         if verdict == "differs" and not hits:
-            out.append(
-                "The overall test and the pairwise comparisons can disagree near the threshold: "
-                "the overall difference is not pinned on any single pair."
-            )
+            if _near_alpha(_p_read(an, read), a):
+                out.append(
+                    "The overall test and the pairwise comparisons can disagree near the threshold: "
+                    "the overall difference is not pinned on any single pair."
+                )
+            else:
+                out.append(
+                    "The overall test finds a difference that no single pair pins down: it may be "
+                    "spread over several groups; see the intervals on the Comparisons sheet."
+                )
         if verdict == "no difference" and hits:
             out.append(
                 "Some pairs differ although the overall test does not: treat them with care, "
@@ -191,7 +247,11 @@ def _differ_section(an: Analysis, verdict: str) -> tuple[str, ...]:
     let = an.letters
     if not isinstance(let, Unavailable):
         shown = ", ".join(f"{_quote(row[0])} ({row[2]})" for row in let.table()[1:])
-        out.append(f"Groups that share a letter are not shown to differ: {shown}.")
+        if welch_lead:
+            out.append(f"Compact letters, from the pooled {an.method_name} comparisons (read them "
+                       f"with the same reserve): groups that share a letter are not shown to differ: {shown}.")
+        else:
+            out.append(f"Groups that share a letter are not shown to differ: {shown}.")
     dn = an.dunnett
     if dn is not None:
         if isinstance(dn, Unavailable):
@@ -199,14 +259,15 @@ def _differ_section(an: Analysis, verdict: str) -> tuple[str, ...]:
         else:
             hits = [r for r in dn.rows if r.differs]
             quiet = [r.group_a for r in dn.rows if not r.differs]
-            lead = f"Against the control {_quote(an.control)} (Dunnett, alpha = {_alpha(a)}): "
+            pooled = ", which pools the group variances" if welch_lead else ""
+            lead = f"Against the control {_quote(an.control)} (Dunnett{pooled}, alpha = {_alpha(a)}): "
             if hits:
                 parts = []
                 for r in hits:
                     word = "higher" if r.difference > 0 else "lower"
                     parts.append(
                         f"{_quote(r.group_a)} is {word} by "
-                        f"{an.units(format_number(abs(r.difference), an.precision.mean))} ({format_p(r.p)})"
+                        f"{an.units(format_measure(abs(r.difference), an.precision.mean))} ({format_p(r.p)})"
                     )
                 text = lead + "; ".join(parts) + "."
                 if quiet:
@@ -214,16 +275,15 @@ def _differ_section(an: Analysis, verdict: str) -> tuple[str, ...]:
             else:
                 text = lead + "no group is shown to differ from the control."
             out.append(text)
-    gh = an.unequal_pairs
-    if gh is not None:
+    if gh is not None and not welch_lead:
         lead = ("The group spreads look unequal, so the Games–Howell comparisons (which do not "
                 "pool the variances) are the safer reading of pairs")
         if isinstance(gh, Unavailable):
             out.append(f"{lead}, but they could not run: {gh.reason}.")
         else:
-            hits = sorted((r for r in gh.rows if r.differs), key=lambda r: -abs(r.difference))
+            hits = _hits(gh)
             if hits:
-                out.append(f"{lead}: by them {len(hits)} of the {len(gh.rows)} pairs differ clearly "
+                out.append(f"{lead}: by them {_count_phrase(len(hits), len(gh.rows))} "
                            f"(intervals: {gh.interval}):")
                 for r in hits[:_MAX_PAIRS]:
                     out.append("• " + _pair_sentence(an, r, "the"))
@@ -249,9 +309,9 @@ def _size_section(an: Analysis, verdict: str) -> tuple[str, ...]:
     hi_m, hi_l = max(means)
     dec = an.precision.mean
     out.append(
-        f"The group means run from {format_number(lo_m, dec)} ({_quote(lo_l)}) to "
-        f"{format_number(hi_m, dec)} ({_quote(hi_l)}): a spread of "
-        f"{an.units(format_number(hi_m - lo_m, dec))}."
+        f"The group means run from {format_measure(lo_m, dec)} ({_quote(lo_l)}) to "
+        f"{format_measure(hi_m, dec)} ({_quote(hi_l)}): a spread of "
+        f"{an.units(format_measure(hi_m - lo_m, dec))}."
     )
     eff = an.effects
     if isinstance(eff, Unavailable):
@@ -261,7 +321,7 @@ def _size_section(an: Analysis, verdict: str) -> tuple[str, ...]:
     e_lo, e_hi = eff.eta_squared_ci
     cl = f"{an.conf:.0%}"
     out.append(
-        f"{an.factor} accounts for about {_percent(eta)} of the variation in {an.response} "
+        f"{an.factor} accounts for {_percent(eta)} of the variation in {an.response} "
         f"(η² = {format_number(eta, 3)}, {cl} interval {format_number(e_lo, 3)} to "
         f"{format_number(e_hi, 3)}; ω² = {format_number(eff.omega_squared, 3)}, which corrects "
         "η²'s upward bias)."
@@ -289,9 +349,9 @@ def _size_section(an: Analysis, verdict: str) -> tuple[str, ...]:
 def _percent(x: float) -> str:
     if math.isnan(x):
         return "an undefined share"
-    if 0 < x < 0.01:
+    if 0 < x < 0.005:
         return "less than 1%"
-    return f"{x:.0%}"
+    return f"about {x:.0%}"
 
 
 def _read_section(an: Analysis, read: str) -> tuple[str, ...]:
@@ -321,11 +381,21 @@ def _sentence(text: str) -> str:
     return text if text.endswith((".", "!", "?")) else text + "."
 
 
-def _data_notes(an: Analysis) -> tuple[tuple[str, ...], tuple[str, ...]]:
+_READ_NAMES = {"oneway": "the one-way F test", "welch": "Welch's test",
+               "kruskal": "the Kruskal–Wallis rank test"}
+
+
+def _data_notes(an: Analysis, read: str = "oneway") -> tuple[tuple[str, ...], tuple[str, ...]]:
+    """(notes, possible-typo notes). The typo notes are shown once, under the answer; the notes
+    only point to them."""
     g = an.groups
     notes: list[str] = []
     typos = tuple("Possible typo: " + n for n in g.notes)
-    notes.extend(typos)
+    if typos:
+        notes.append(
+            f"Labels that differ only in case are kept as separate groups ({len(typos)} possible "
+            f"typo{'' if len(typos) == 1 else 's'}, listed under the answer above)."
+        )
     ignored = [c for c in g.cells if c.action == "ignored"]
     if ignored:
         kinds: dict[str, int] = {}
@@ -348,7 +418,17 @@ def _data_notes(an: Analysis) -> tuple[tuple[str, ...], tuple[str, ...]]:
             notes.append(f"{res.what[:1].upper() + res.what[1:]} not available: {res.reason}.")
     eff = an.effects
     if not isinstance(eff, Unavailable):
-        notes.extend(_sentence(n) for n in (getattr(eff, "notes", ()) or ()))
+        eff_notes = [n for n in (getattr(eff, "notes", ()) or ()) if n]
+        if read == "oneway":
+            notes.extend(_sentence(n) for n in eff_notes)
+        else:
+            # the effect sizes come from the one-way table: say so when another result is read
+            if eff_notes:
+                notes.append(
+                    f"About the effect sizes, which come from the one-way table and not from "
+                    f"{_READ_NAMES[read]} (the result read here), so they describe the one-way "
+                    "analysis only: " + " ".join(_sentence(n) for n in eff_notes)
+                )
     if an.exact:
         notes.append(
             "Sums of squares were computed exactly for the decimal value of every cell and "
@@ -395,9 +475,9 @@ def _key_figures(an: Analysis) -> tuple[tuple[str, Any, str | None, Any, str], .
 def findings(an: Analysis) -> Findings:
     """Work out the plain-words reading of ``an``."""
     verdict, read, headline = _headline(an)
-    notes, typos = _data_notes(an)
+    notes, typos = _data_notes(an, read)
     sections = (
-        ("Which groups differ", _differ_section(an, verdict)),
+        ("Which groups differ", _differ_section(an, verdict, read)),
         ("How large", _size_section(an, verdict)),
         ("Which result to read, and why", _read_section(an, read)),
         ("Notes on the data", notes),

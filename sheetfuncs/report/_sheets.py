@@ -25,7 +25,7 @@ from openpyxl.utils import get_column_letter
 
 from ._analysis import Analysis, Unavailable
 from ._findings import CAUTIONS, Findings
-from ._formats import P_FORMAT, Precision, fixed, sig_decimals
+from ._formats import P_FORMAT, Precision, fixed, format_measure, sig_decimals
 from ._grid import Formula, Grid, Style, cell_ref, quote_sheet, safe_text
 
 __all__ = [
@@ -113,11 +113,11 @@ def _kind_style(kind: str, v: Any, prec: Precision) -> Style:
     if kind == "n":
         return INT_STYLE
     if kind == "value":
-        return Style(num=prec.value_format())
+        return Style(num=prec.value_format(v))
     if kind == "mean":
-        return Style(num=prec.mean_format())
+        return Style(num=prec.mean_format(v))
     if kind == "square":
-        return Style(num=prec.square_format())
+        return Style(num=prec.square_format(v))
     if kind == "share":
         return Style(num="0.000")
     if kind == "stat":
@@ -322,7 +322,7 @@ def build_findings(an: Analysis, fi: Findings, written: str) -> Grid:
             if "η²" in fig or "Cohen" in fig:
                 g.put(r, 2, val, Style(num="0.000"))
             elif fig.startswith("Residual"):
-                g.put(r, 2, val, Style(num=an.precision.mean_format()))
+                g.put(r, 2, val, Style(num=an.precision.mean_format(val)))
             else:
                 g.put(r, 2, val, _stat_style(val))
         if df is not None:
@@ -386,7 +386,7 @@ def build_tables(an: Analysis) -> tuple[Grid, Positions]:
     r = last + 1
     g.put(r, 1, f"F is referred to the F distribution on ({an.oneway.df_between}, "
           f"{an.oneway.df_within}) degrees of freedom; p is its upper tail. R² = "
-          f"{an.oneway.r_squared:.4f}; residual SD = {an.oneway.residual_sd:.{prec.mean}f}.", NOTE)
+          f"{an.oneway.r_squared:.4f}; residual SD = {format_measure(an.oneway.residual_sd, prec.mean)}.", NOTE)
     g.merge(r, 1, r, 7)
     r += 2
 
@@ -555,6 +555,9 @@ def build_groups(an: Analysis) -> tuple[Grid, dict[str, Any]]:
 # Chart
 
 _DIRECT_LIMIT = 10_000
+#: Above this many groups the values chart draws one series for all groups: the host allows
+#: 255 series per chart (the means are one more series).
+MAX_GROUP_SERIES = 250
 _PLOTTED_PER_GROUP = 201
 
 
@@ -574,12 +577,10 @@ def build_chart(an: Analysis, layout: DataLayout) -> Grid:
         r = top + i
         g.put(r, 1, i, INT_STYLE)
         g.put(r, 2, s.label)
-        g.put(r, 3, s.mean, Style(num=prec.mean_format()))
+        g.put(r, 3, s.mean, Style(num=prec.mean_format(s.mean)))
         if s.n > 1:
-            g.put(r, 4, s.ci_low, Style(num=prec.mean_format()))
-            g.put(r, 5, s.ci_high, Style(num=prec.mean_format()))
-            g.put(r, 6, s.mean - s.ci_low, Style(num=prec.mean_format()))
-            g.put(r, 7, s.ci_high - s.mean, Style(num=prec.mean_format()))
+            for col, v in ((4, s.ci_low), (5, s.ci_high), (6, s.mean - s.ci_low), (7, s.ci_high - s.mean)):
+                g.put(r, col, v, Style(num=prec.mean_format(v)))
         else:
             g.put(r, 4, math.nan)
             g.put(r, 5, math.nan)
@@ -621,6 +622,8 @@ def build_chart(an: Analysis, layout: DataLayout) -> Grid:
     g.put(vtop - 1, col0, "Chart data: plotted values", HEADING)
     g.put_row(vtop, col0, ["Position", "Plotted at", an.response], TH)
     sample = layout.n_values > _DIRECT_LIMIT
+    vstyle = Style(num=prec.value_format())
+    merged = k > MAX_GROUP_SERIES  # one series per group would pass the host's series limit
     r = vtop
     for i, arr in enumerate(an.groups.arrays, start=1):
         pts = np.sort(arr)
@@ -631,11 +634,19 @@ def build_chart(an: Analysis, layout: DataLayout) -> Grid:
             r += 1
             g.put(r, col0, i, INT_STYLE)
             g.put(r, col0 + 1, i + _LANES[j % len(_LANES)], Style(num="0.00"))
-            g.put(r, col0 + 2, v, Style(num=prec.value_format()))
+            g.put(r, col0 + 2, v, vstyle)
+        if merged:
+            continue
         ser = Series(Reference(_Ref(g.name), min_col=col0 + 2, min_row=r0, max_row=r),
                      Reference(_Ref(g.name), min_col=col0 + 1, min_row=r0, max_row=r),
                      title=safe_text(an.groups.labels[i - 1]))
         _markers_only(ser, "circle", 5, _PALETTE[(i - 1) % len(_PALETTE)])
+        scatter.series.append(ser)
+    if merged:
+        ser = Series(Reference(_Ref(g.name), min_col=col0 + 2, min_row=vtop + 1, max_row=r),
+                     Reference(_Ref(g.name), min_col=col0 + 1, min_row=vtop + 1, max_row=r),
+                     title="Values")
+        _markers_only(ser, "circle", 4, _PALETTE[0])
         scatter.series.append(ser)
     if sample:
         g.put(note_row, 1, f"The values chart plots, for groups of more than {_PLOTTED_PER_GROUP} "
@@ -645,6 +656,11 @@ def build_chart(an: Analysis, layout: DataLayout) -> Grid:
     else:
         g.put(note_row, 1, "The values chart plots every value (a copy of the Data sheet's values, "
               "sorted within each group and spread sideways so that equal values stay visible).", NOTE)
+    if merged:
+        g.put(note_row + 1, 1, f"With {k} groups the values chart draws all groups as one series "
+              f"(one colour): spreadsheet programs allow at most 255 series in a chart, so one "
+              f"series per group is drawn only up to {MAX_GROUP_SERIES} groups.", NOTE)
+        g.merge(note_row + 1, 1, note_row + 1, 8)
     g.merge(note_row, 1, note_row, 8)
     means = Series(Reference(_Ref(g.name), min_col=3, min_row=top + 1, max_row=last),
                    Reference(_Ref(g.name), min_col=1, min_row=top + 1, max_row=last), title="Mean")
@@ -705,7 +721,10 @@ def build_audit(an: Analysis, layout: DataLayout, tables: Positions) -> tuple[Gr
         "Column D of the Data sheet holds each value minus the centring constant below, written "
         "as the exact decimal difference, so that the spreadsheet's floating-point arithmetic "
         "reproduces the exact figures even when the values share many leading digits. "
-        "'agrees' means within 1e-9 relative (p-values: or 1e-12 absolute) of the Tables sheet."
+        "'agrees' means within 1e-9 relative of the Tables sheet, or, for a figure near 0, within "
+        "a floor set by the figures' scale: 1e-9 of SS total for sums of squares, 1e-9 of the "
+        "larger mean square for mean squares, 1e-9 for F and 1e-12 for p (equal group means give "
+        "SS between = 0, which floating-point sums reproduce only to rounding noise)."
     ), NOTE)
     g.merge(3, 1, 3, 7)
     g.put(5, 1, "Centring constant", KEY)
@@ -714,6 +733,7 @@ def build_audit(an: Analysis, layout: DataLayout, tables: Positions) -> tuple[Gr
     c_ref = "$B$5"
     top = 7
     g.put_row(top, 1, ["Group no.", an.factor, "n", "Mean (centred)", "Mean", "SS within group"], TH)
+    summaries = list(an.describe)
     for i, label in enumerate(an.groups.labels, start=1):
         r = top + i
         g.put(r, 1, i, INT_STYLE)
@@ -721,32 +741,36 @@ def build_audit(an: Analysis, layout: DataLayout, tables: Positions) -> tuple[Gr
         n_f = "+".join(f"COUNTIF({s.col('A')},$A{r})" for s in vsegs)
         s_f = "+".join(f"SUMIF({s.col('A')},$A{r},{s.col('D')})" for s in vsegs)
         q_f = "+".join(f"SUMPRODUCT(({s.col('A')}=$A{r})*({s.col('D')}-$D{r})^2)" for s in vsegs)
+        s_i = summaries[i - 1]
+        ss_i = float(s_i.sd) ** 2 * (s_i.n - 1) if s_i.n > 1 else 0.0
         g.put(r, 3, Formula(f"={n_f}"), INT_STYLE)
-        g.put(r, 4, Formula(f"=({s_f})/C{r}"), Style(num=prec.mean_format()))
-        g.put(r, 5, Formula(f"={c_ref}+D{r}"), Style(num=prec.mean_format()))
-        g.put(r, 6, Formula(f"={q_f}"), Style(num=prec.square_format()))
+        g.put(r, 4, Formula(f"=({s_f})/C{r}"), Style(num=prec.mean_format(s_i.mean - float(an.centre))))
+        g.put(r, 5, Formula(f"={c_ref}+D{r}"), Style(num=prec.mean_format(s_i.mean)))
+        g.put(r, 6, Formula(f"={q_f}"), Style(num=prec.square_format(ss_i)))
     g1, gk = top + 1, top + k
     r = gk + 2
     g.put_row(r, 1, ["Quantity", "Recomputed", "Tables", "Relative difference", "Check"], TH)
     g.put(r, 7, "Formula in words", TH)
     d_all = ",".join(s.col("D") for s in vsegs)
+    ow = an.oneway
+    grand = (sum(float(s_.mean) * s_.n for s_ in an.describe) / ow.n_total) - float(an.centre)
     rows: dict[str, int] = {}
     spec = [
         ("n", "Values (n)", f"=COUNT({d_all})", None, "COUNT of the centred values", INT_STYLE),
         ("k", "Groups (k)", f'=COUNTIF(C{g1}:C{gk},">0")', None, "groups with values", INT_STYLE),
-        ("grand", "Grand mean (centred)", f"=SUM({d_all})/B{{n}}", None, "SUM / n", Style(num=prec.mean_format())),
+        ("grand", "Grand mean (centred)", f"=SUM({d_all})/B{{n}}", None, "SUM / n", Style(num=prec.mean_format(grand))),
         ("ss_between", "SS between", f"=SUMPRODUCT(C{g1}:C{gk},(D{g1}:D{gk}-B{{grand}})^2)", "ss_between",
-         "Σ n·(group mean − grand mean)²", Style(num=prec.square_format())),
+         "Σ n·(group mean − grand mean)²", Style(num=prec.square_format(ow.ss_between))),
         ("ss_within", "SS within (residual)", f"=SUM(F{g1}:F{gk})", "ss_within",
-         "Σ of the groups' SUMPRODUCT of squared deviations", Style(num=prec.square_format())),
+         "Σ of the groups' SUMPRODUCT of squared deviations", Style(num=prec.square_format(ow.ss_within))),
         ("ss_total", "SS total", f"=DEVSQ({d_all})", "ss_total", "DEVSQ of all centred values",
-         Style(num=prec.square_format())),
+         Style(num=prec.square_format(ow.ss_total))),
         ("df_between", "df between", "=B{k}-1", "df_between", "k − 1", INT_STYLE),
         ("df_within", "df within", "=B{n}-B{k}", "df_within", "n − k", INT_STYLE),
         ("ms_between", "MS between", "=B{ss_between}/B{df_between}", "ms_between", "SS / df",
-         Style(num=prec.square_format())),
+         Style(num=prec.square_format(ow.ms_between))),
         ("ms_within", "MS within", "=B{ss_within}/B{df_within}", "ms_within", "SS / df",
-         Style(num=prec.square_format())),
+         Style(num=prec.square_format(ow.ms_within))),
         ("f_ratio", "F", '=IF(B{ms_within}=0,"infinite",B{ms_between}/B{ms_within})', "f_ratio",
          "MS between / MS within", _stat_style(an.oneway.f)),
         ("p_value", "p", "=IF(ISNUMBER(B{f_ratio}),_xlfn.F.DIST.RT(B{f_ratio},B{df_between},B{df_within}),0)",
@@ -767,7 +791,7 @@ def build_audit(an: Analysis, layout: DataLayout, tables: Positions) -> tuple[Gr
             ref = twin if twin in NAMES else tables.cells[twin]
             g.put(rr, 3, Formula(f"={ref}"), style)
         if key not in ("grand",):
-            tol = "1E-12" if key == "p_value" else "0"
+            tol = _audit_floor(key, rows)
             g.put(rr, 4, Formula(
                 f'=IF(AND(ISNUMBER(B{rr}),ISNUMBER(C{rr})),IF(C{rr}=0,ABS(B{rr}-C{rr}),'
                 f'ABS(B{rr}-C{rr})/ABS(C{rr})),"")'), Style(num="0.0E+00"))
@@ -787,6 +811,21 @@ def build_audit(an: Analysis, layout: DataLayout, tables: Positions) -> tuple[Gr
     g.landscape = True
     _finish_rules(g, an.alpha)
     return g, audit_refs
+
+
+def _audit_floor(key: str, rows: dict[str, int]) -> str:
+    """The absolute part of an Audit check's tolerance (a formula over the Tables twins in column
+    C): figures that are exactly 0 in Python are reproduced by the host's floating-point sums only
+    to rounding noise at the scale of the whole analysis, so they are compared at that scale."""
+    if key in ("ss_between", "ss_within", "ss_total"):
+        return f"1E-9*ABS(C{rows['ss_total']})"
+    if key in ("ms_between", "ms_within"):
+        return f"1E-9*MAX(ABS(C{rows['ms_between']}),ABS(C{rows['ms_within']}))"
+    if key == "f_ratio":
+        return "1E-9"
+    if key == "p_value":
+        return "1E-12"
+    return "0"
 
 
 # ---------------------------------------------------------------------------------------------

@@ -136,7 +136,10 @@ def _write_data(wb: Workbook, sheets: list[Any], an: Analysis, layout: DataLayou
                    if h else None for j, h in enumerate(header)])
         # Reused cells must carry a style: openpyxl's streaming writer keeps working on an
         # unstyled cell object after writing it, which would corrupt a reused one.
-        label_cells = [make_cell(ws, lab, _LABEL) for lab in an.groups.labels]
+        # A label is handed over as plain text (the cheapest cell to stream) unless it begins
+        # with "=", which openpyxl would take for a formula: that one goes as a styled text cell.
+        label_cells = [make_cell(ws, lab, _LABEL) if safe_text(lab).startswith("=") else safe_text(lab)
+                       for lab in an.groups.labels]
         vcell = WriteOnlyCell(ws)
         apply_style(vcell, Style(num=vfmt))
         vcell.data_type = "n"
