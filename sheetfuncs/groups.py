@@ -21,6 +21,7 @@ import numbers
 import operator
 import struct
 from collections.abc import Mapping, Sequence
+from functools import cached_property
 from dataclasses import dataclass, field
 from itertools import chain
 from typing import Any
@@ -116,11 +117,11 @@ class Groups:
     def k(self) -> int:
         return len(self.labels)
 
-    @property
+    @cached_property
     def counts(self) -> tuple[int, ...]:
         return tuple(int(a.size) for a in self.arrays)
 
-    @property
+    @cached_property
     def n_total(self) -> int:
         return int(sum(a.size for a in self.arrays))
 
