@@ -40,6 +40,7 @@ statistic and ``p = 0``, and a pair with equal means has statistic 0 and ``p = 1
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any
@@ -50,7 +51,9 @@ from .errors import InputError
 from .fdist import f_critical, f_tail
 from .groups import Groups, as_groups, format_label
 from .moments import ExactMoments, FloatMoments, compute_moments
-from .mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
+from .mvt import (
+    many_to_one_critical, many_to_one_tails, range_critical, range_criticals, range_tails,
+)
 from .oneway import oneway_from_moments, require_two_groups
 from .validate import check_alpha
 
@@ -230,6 +233,19 @@ def _se(mse: float, mse_x: Fraction | None, na: int, nb: int) -> float:
     return math.sqrt(mse * (1.0 / na + 1.0 / nb))
 
 
+def _se_table(mse: float, mse_x: Fraction | None) -> Callable[[int, int], float]:
+    """:func:`_se` for one family, each pair of group sizes computed once."""
+    seen: dict[tuple[int, int], float] = {}
+
+    def se(na: int, nb: int) -> float:
+        key = (na, nb) if na <= nb else (nb, na)
+        if key not in seen:
+            seen[key] = _se(mse, mse_x, na, nb)
+        return seen[key]
+
+    return se
+
+
 def _ratio(d: float, se: float) -> float:
     """``d / se`` with the degenerate cases of no variation answered (see module notes)."""
     if se > 0.0:
@@ -260,8 +276,9 @@ def _holm(raw: list[float]) -> list[float]:
 def _check_variances(g: Groups, mom: ExactMoments | FloatMoments, method: str) -> list[float]:
     """Each group's variance (n - 1), with the messages for groups that have none."""
     out = []
+    counts = g.counts
     for i, lab in enumerate(g.labels):
-        n = g.counts[i]
+        n = counts[i]
         if n < 2:
             raise InputError(
                 f'sheetfuncs: group "{lab}" has only one value; {method} uses each group\'s own '
@@ -305,6 +322,7 @@ def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> Pairwis
     meth = parse_method(method)
     g, a, mom = _prepare(groups, alpha)
     k = g.k
+    counts = g.counts
     pairs = [(i, j) for i in range(k) for j in range(i + 1, k)]
     m = len(pairs)
     diffs = [_difference(mom, i, j) for i, j in pairs]
@@ -312,32 +330,37 @@ def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> Pairwis
 
     if meth == "games-howell":
         var = _check_variances(g, mom, "Games–Howell")
-        rows = []
-        row_df = []
-        mults = []
+        ses, row_df, stat = [], [], []
         for (i, j), d in zip(pairs, diffs):
-            va, vb = var[i] / g.counts[i], var[j] / g.counts[j]
-            se = math.sqrt(va + vb)
-            dfw = (va + vb) ** 2 / (va * va / (g.counts[i] - 1) + vb * vb / (g.counts[j] - 1))
-            q = abs(_ratio(d, se)) * _SQRT2
-            p = range_tail(q, k, dfw)
-            mult = range_critical(a, k, dfw) / _SQRT2
-            rows.append(_row(g, i, j, d, se, mult, q, p, a))
-            row_df.append(dfw)
-            mults.append(mult)
+            va, vb = var[i] / counts[i], var[j] / counts[j]
+            ses.append(math.sqrt(va + vb))
+            row_df.append(
+                (va + vb) ** 2 / (va * va / (counts[i] - 1) + vb * vb / (counts[j] - 1))
+            )
+            stat.append(abs(_ratio(d, ses[-1])) * _SQRT2)
+        # one call each: the tails of all pairs, and one critical value per distinct Welch df
+        ps = range_tails(stat, k, row_df).tolist()
+        distinct = sorted(set(row_df))
+        crit = dict(zip(distinct, (range_criticals(a, k, distinct) / _SQRT2).tolist()))
+        mults = [crit[v] for v in row_df]
+        rows = [
+            _row(g, i, j, d, se, mult, q, p, a)
+            for (i, j), d, se, mult, q, p in zip(pairs, diffs, ses, mults, stat, ps)
+        ]
         return _result(g, mom, meth, a, rows, None, None, row_df, mults, notes)
 
     mse, df, mse_x = _pooled(g, mom)
     if mse == 0.0:
         notes.append(_NO_VARIATION)
-    ses = [_se(mse, mse_x, g.counts[i], g.counts[j]) for i, j in pairs]
+    se_of = _se_table(mse, mse_x)
+    ses = [se_of(counts[i], counts[j]) for i, j in pairs]
     ts = [_ratio(d, se) for d, se in zip(diffs, ses)]
 
     if meth == "tukey":
         stat = [abs(t) * _SQRT2 for t in ts]
-        ps = [range_tail(q, k, df) for q in stat]
-        mult = range_critical(a, k, df) / _SQRT2
-        if len(set(g.counts)) > 1:
+        ps = range_tails(stat, k, df).tolist()  # one call shares the work between the pairs
+        mult = range_critical(a, k, df) / _SQRT2  # one value for the whole family
+        if len(set(counts)) > 1:
             notes.append(
                 "group sizes differ: the Tukey–Kramer intervals are conservative (their joint "
                 "coverage is at least the stated level)"
@@ -422,16 +445,16 @@ def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
     if mse == 0.0:
         notes.append(_NO_VARIATION)
     treat = [i for i in range(g.k) if i != c]
-    n0 = g.counts[c]
-    lam = [math.sqrt(g.counts[i] / (g.counts[i] + n0)) for i in treat]
+    counts = g.counts
+    n0 = counts[c]
+    lam = [math.sqrt(counts[i] / (counts[i] + n0)) for i in treat]
     crit = many_to_one_critical(a, lam, df)
-    rows = []
-    for i in treat:
-        d = _difference(mom, i, c)
-        se = _se(mse, mse_x, g.counts[i], n0)
-        t = _ratio(d, se)
-        p = 0.0 if math.isinf(t) else many_to_one_tail(abs(t), lam, df)
-        rows.append(_row(g, i, c, d, se, crit, t, p, a))
+    ds = [_difference(mom, i, c) for i in treat]
+    se_of = _se_table(mse, mse_x)
+    ses = [se_of(counts[i], n0) for i in treat]
+    ts = [_ratio(d, se) for d, se in zip(ds, ses)]
+    ps = many_to_one_tails([abs(t) for t in ts], lam, df).tolist()  # inf gives 0
+    rows = [_row(g, i, c, d, se, crit, t, p, a) for i, d, se, t, p in zip(treat, ds, ses, ts, ps)]
     m = len(treat)
     return _result(g, mom, "dunnett", a, rows, mse, float(df), [float(df)] * m, [crit] * m,
                    notes, control=lab)
