@@ -68,7 +68,7 @@ def run(k: int, repeat: int) -> None:
         t = best_time(fn, repeat)
         if base is None:
             base = t
-        print(f"  {name:34s} {t * 1e3:10.1f} ms   x{t / base:8.1f} baseline")
+        print(f"  {name:34s} {t * 1e3:10.1f} ms   {t / base:10.3g} x baseline")
 
 
 def main() -> None:

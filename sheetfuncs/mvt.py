@@ -239,6 +239,7 @@ def _check_dfs(df: Any, size: int) -> np.ndarray:
 # the outer integral: trapezoid rule in log s on one grid shared by every argument of a call
 
 _H0 = 0.125  # the coarsest step in t = log s
+_FIRST_STEP = 0.5  # the first step, in widths 1/sqrt(2 df + kappa) of the integrand's peak
 _FINEST = 30  # grid keys count steps of base / 2**_FINEST, so every level's nodes share keys
 _LOG_CUT = 45.0  # the rule stops where the integrand is below exp(-45) of its peak
 _GUARD = 1e-7  # the sums on every node and on every other node must agree to this, relatively
@@ -412,8 +413,8 @@ def _mixture(c: np.ndarray, df: np.ndarray, fam: _Family, table: _Table
     t_a[idx], t_b[idx] = _regions(c[idx], df[idx], const[idx], fam)
     span = t_b - t_a
     with np.errstate(divide="ignore", invalid="ignore"):
-        want = np.minimum.reduce([
-            np.full(m, _H0), 0.5 / np.sqrt(2.0 * df + fam.kappa), span / 40.0,
+        want = _FIRST_STEP * np.minimum.reduce([
+            np.full(m, 2.0 * _H0), 1.0 / np.sqrt(2.0 * df + fam.kappa), span / 20.0,
         ])
     if table.base == 0.0:  # the first use: the coarsest step that the arguments want
         table.base = float(np.max(want[todo]))
