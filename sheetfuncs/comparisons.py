@@ -50,12 +50,12 @@ from scipy import stats
 from .errors import InputError
 from .fdist import f_critical, f_tail
 from .groups import Groups, as_groups, format_label
-from .moments import ExactMoments, FloatMoments, compute_moments
+from .moments import TOO_LARGE, ExactMoments, FloatMoments, compute_moments, rounded
 from .mvt import (
     many_to_one_critical, many_to_one_tails, range_critical, range_criticals, range_tails,
 )
 from .oneway import oneway_from_moments, require_two_groups
-from .validate import check_alpha
+from .validate import check_alpha, shown
 
 __all__ = ["METHODS", "PairRow", "PairwiseResult", "pairwise", "dunnett", "parse_method"]
 
@@ -103,7 +103,7 @@ def parse_method(method: Any) -> str:
                 "methods: " + ", ".join(f'"{m}"' for m in METHODS)
             )
     raise InputError(
-        f"sheetfuncs: unknown comparison method {method!r}; use one of "
+        f"sheetfuncs: unknown comparison method {shown(method)}; use one of "
         + ", ".join(f'"{m}"' for m in METHODS)
     )
 
@@ -292,7 +292,10 @@ def _check_variances(g: Groups, mom: ExactMoments | FloatMoments, method: str) -
                 f"{method} divides by each group's own variance, so it cannot be used here; "
                 'use a pooled method such as "tukey", or check the measurement resolution'
             )
-        out.append(float(Fraction(ss) / (n - 1)) if mom.exact else float(ss) / (n - 1))
+        var = rounded(Fraction(ss) / (n - 1)) if mom.exact else float(ss) / (n - 1)
+        if not math.isfinite(var):
+            raise InputError(TOO_LARGE)
+        out.append(var)
     return out
 
 

@@ -47,3 +47,9 @@ def test_message_quoting_a_huge_label_fits_a_cell():
     label = "L" * 32_767
     out = harness.call("SF_TABLE", [[label, "B"], [None, 1.0], [None, 2.0]])
     assert isinstance(out, str) and out.startswith("sheetfuncs: ") and len(out) <= 1000
+
+
+def test_games_howell_with_variances_beyond_doubles_gives_a_message():
+    # a variance near 1e597 cannot be held in a double: a clear message, not an OverflowError
+    with pytest.raises(sf.InputError, match="too large"):
+        sf.pairwise([[9.303, 9.18, 10.39], [8.95e298, 1.25, 3.0]], "games-howell")
