@@ -29,6 +29,7 @@ from typing import Any
 import numpy as np
 
 from .errors import InputError
+from .validate import shown
 
 __all__ = [
     "CellNote",
@@ -112,6 +113,24 @@ class Groups:
                 f"sheetfuncs: {len(self.labels)} labels for {len(self.arrays)} groups; "
                 "give one label per group"
             )
+        # a Groups built by hand gets the same guarantees as one built by the cleaning step
+        checked = []
+        for lab, a in zip(self.labels, self.arrays):
+            if not (isinstance(a, np.ndarray) and a.dtype == np.float64 and a.ndim == 1):
+                a = _numbers(a, str(lab))
+            if a.size == 0:
+                raise InputError(
+                    f'sheetfuncs: group "{lab}" has no numbers; give it values or leave it out'
+                )
+            if not np.isfinite(a).all():
+                i = int(np.flatnonzero(~np.isfinite(a))[0])
+                raise InputError(_bad_number_message(float(a[i]), f'position {i + 1} of group "{lab}"'))
+            if a.flags.writeable:
+                a = a.copy()
+                a.setflags(write=False)
+            checked.append(a)
+        object.__setattr__(self, "labels", tuple(str(x) for x in self.labels))
+        object.__setattr__(self, "arrays", tuple(checked))
 
     @property
     def k(self) -> int:
@@ -191,7 +210,7 @@ def _case_notes(labels: Sequence[str]) -> tuple[str, ...]:
 
 
 def _com_error_name(code: int) -> str:
-    return _COM_NAMES.get(code - _COM_BASE, f"error code {code}")
+    return _COM_NAMES.get(code - _COM_BASE, f"with code {code}")
 
 
 def _error_text(v: Any) -> str | None:
@@ -301,7 +320,7 @@ def _parse_labels_arg(labels: Any) -> str:
         if s in ("false", "no", "n", "0"):
             return "no"
     raise InputError(
-        f"sheetfuncs: labels must be \"auto\", TRUE or FALSE, not {labels!r}"
+        f"sheetfuncs: labels must be \"auto\", TRUE or FALSE, not {shown(labels)}"
     )
 
 
@@ -313,7 +332,7 @@ def _parse_layout(layout: Any) -> str:
         return "wide"
     if s not in LAYOUTS:
         raise InputError(
-            f"sheetfuncs: unknown layout {layout!r}; use \"wide\" (one group per column), "
+            f"sheetfuncs: unknown layout {shown(layout)}; use \"wide\" (one group per column), "
             "\"long\" (label and value columns) or \"rowwise\" (one group per row)"
         )
     return s
@@ -351,13 +370,15 @@ class _Collector:
             msg = (
                 f"sheetfuncs: a date at {first.position} of the range{more}: dates are not "
                 "measurements; clear the cell, or format it as a number"
+                + ("; if the first row (or column) holds dates as group labels, set labels to TRUE"
+                   if first.row == 0 or first.col == 0 else "")
             )
         elif first.kind == "nan":
             msg = _bad_number_message(first.value, f"{first.position} of the range") + more
         else:
             msg = (
                 f"sheetfuncs: unsupported cell value {first.value!r} at {first.position} of the "
-                f"range{more}"
+                f"range{more}; clear the cell or enter a number"
             )
         raise InputError(msg, cells=tuple((e.row, e.col) for e in errs))
 
@@ -742,5 +763,5 @@ def as_groups(data: Any) -> Groups:
         raise InputError(f'sheetfuncs: the label "{dup}" is used twice; give each group its own label')
     for lab, a in zip(labels, arrays):
         if a.size == 0:
-            raise InputError(f'sheetfuncs: group "{lab}" has no numbers')
+            raise InputError(f'sheetfuncs: group "{lab}" has no numbers; give it values or leave it out')
     return _make_groups(labels, arrays, (), "python", source)

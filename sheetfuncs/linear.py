@@ -74,14 +74,11 @@ class LinearTestResult:
     p: float
     pools: tuple[tuple[str, tuple[str, ...]], ...]
     exact: bool
+    ss_difference: float = math.nan  # SSE(R) - SSE(F), rounded once (not the difference of the rounded parts)
 
     @property
     def df_difference(self) -> int:
         return self.df_reduced - self.df_full
-
-    @property
-    def ss_difference(self) -> float:
-        return self.ss_reduced - self.ss_full
 
     def table(self) -> list[list[Any]]:
         return [
@@ -128,6 +125,8 @@ def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = Non
     ss_full_x = mom.ss_within_parts([[i] for i in range(g.k)])
     ss_red_x = mom.ss_within_parts(parts)
     check_ss_range(ss_red_x)
+    if ss_full_x != 0:
+        check_ss_range(ss_full_x)
     if not mom.exact:
         check_float_zero_spread(g, ss_full_x, within=True)
     num = (ss_red_x - ss_full_x) / (df_red - df_full)
@@ -143,7 +142,7 @@ def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = Non
     pools = tuple((lab, tuple(g.labels[i] for i in idx)) for lab, idx in order.items())
     return LinearTestResult(
         ss_reduced=float(ss_red_x), df_reduced=df_red, ss_full=float(ss_full_x), df_full=df_full,
-        f=f, p=p, pools=pools, exact=mom.exact,
+        f=f, p=p, pools=pools, exact=mom.exact, ss_difference=float(ss_red_x - ss_full_x),
     )
 
 
@@ -161,6 +160,7 @@ class ContrastResult:
     ci_low: float
     ci_high: float
     conf: float
+    exact: bool = False
 
     def table(self) -> list[list[Any]]:
         return [
@@ -219,13 +219,16 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     if not mom.exact:
         check_float_zero_spread(g, ssw, within=True)
     if mom.exact:
-        est_x = sum(Fraction(wi) * mom.mean(i) for i, wi in enumerate(ws))
+        # once the weights pass the tolerance they are a contrast: their rounding residue
+        # (e.g. 1, -1/3, -1/3, -1/3 sum to 5.6e-17) must not multiply a mean near 1e12
+        diffs_x = mom.mean_differences(0)
+        est_x = sum(Fraction(wi) * diffs_x[i] for i, wi in enumerate(ws))
         var_x = ssw / df * sum(Fraction(wi) ** 2 / g.counts[i] for i, wi in enumerate(ws))
         est = rounded(est_x)
         se = math.sqrt(rounded(var_x))
     else:
         diffs = mom.mean_differences(0)  # sum(w) is ~0, so the common part cancels exactly
-        est = math.fsum(wi * diffs[i] for i, wi in enumerate(ws)) + total * mom.mean(0)
+        est = math.fsum(wi * diffs[i] for i, wi in enumerate(ws))
         se = math.sqrt(float(ssw) / df * math.fsum(wi * wi / g.counts[i] for i, wi in enumerate(ws)))
     if se == 0:
         if est == 0:
@@ -243,5 +246,5 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     est, se, lo, hi = (_scale_back(v, e) for v in (est, se, lo, hi))
     return ContrastResult(
         weights=tuple(w), estimate=est, se=se, t=t, df=df, p=min(p, 1.0),
-        ci_low=lo, ci_high=hi, conf=c,
+        ci_low=lo, ci_high=hi, conf=c, exact=mom.exact,
     )

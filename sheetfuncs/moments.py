@@ -423,6 +423,10 @@ def _exact_moments(arrays: Sequence[np.ndarray]) -> ExactMoments:
 def compute_moments(groups: Groups, exact: bool | None = None) -> ExactMoments | FloatMoments:
     """Moments of every group: decimal-exact when possible (``exact=None``), demanded
     (``exact=True``, an :class:`InputError` when impossible) or floating point (``False``)."""
+    if exact is not None and not isinstance(exact, (bool, np.bool_)):
+        raise InputError(
+            f"sheetfuncs: exact must be None (automatic), True or False, not {exact!r}"
+        )
     if exact is False:
         return _float_moments(groups.arrays)
     try:

@@ -21,7 +21,7 @@ from typing import Any
 import numpy as np
 
 from .errors import InputError
-from .validate import shown
+from .validate import as_real, shown
 from .fdist import f_tail
 from .groups import Groups, as_groups, format_label
 from .moments import (
@@ -114,6 +114,8 @@ def _finish(
             "that the range holds the measurements"
         )
     check_ss_range(sst)
+    if ssw != 0:
+        check_ss_range(ssw)  # a within-group SS too small for a double is not shown as a subnormal
     if exact:
         msb_x = ssb / dfb
         msw_x = ssw / dfw
@@ -189,11 +191,10 @@ def _summary_column(values: Any, name: str) -> list[Any]:
 
 
 def _to_fraction(v: Any, what: str, i: int) -> Fraction:
-    try:
-        f = float(v)
-    except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: {what} {i + 1} is {shown(v)}, not a number") from None
-    if isinstance(v, bool) or not math.isfinite(f):
+    f = as_real(v)
+    if f is None:
+        raise InputError(f"sheetfuncs: {what} {i + 1} is {shown(v)}, not a number")
+    if not math.isfinite(f):
         raise InputError(f"sheetfuncs: {what} {i + 1} is {shown(v)}, not a finite number")
     mant, exp, _ = decimal_parts(f)
     return Fraction(mant) * (Fraction(10) ** exp)

@@ -34,6 +34,8 @@ def as_real(value: Any) -> float | None:
         return None
     try:
         return float(value)
+    except OverflowError:  # an integer beyond the largest double
+        return math.inf if value > 0 else -math.inf
     except (TypeError, ValueError):
         return None
 

@@ -170,9 +170,10 @@ def _exact_ss(groups):
 
 
 def test_cohens_f_beyond_the_double_range_of_its_square():
-    # SSB / SSW is about 3e600, beyond the largest double, while f = sqrt(SSB / SSW) is about
-    # 1.8e300: reference values from mpmath at 60 digits on the decimal values
-    groups = [[1.25], [8e-301, 0.0]]
+    # SSB / SSW is about 3e309, beyond the largest double, while f = sqrt(SSB / SSW) is about
+    # 5.8e154 (SSW = 2e-290 is still within the range of a double): reference values from
+    # mpmath at 60 digits on the decimal values
+    groups = [[1e10], [2e-145, 0.0]]
     e = effect_sizes(groups)
     ssb, ssw, n = _exact_ss(groups)
     assert e.cohens_f == pytest.approx(float(mpmath.sqrt(ssb / ssw)), rel=1e-15)

@@ -50,7 +50,7 @@ def test_labelled_group_with_no_numbers():
     )
     msg = message_of(sf.groups_from_range, [["H1", 1.0], ["H3", "n/a"]], layout="long")
     assert msg.startswith('sheetfuncs: group "H3" has no numbers')
-    assert message_of(sf.oneway, {"A": [1.0], "B": []}) == 'sheetfuncs: group "B" has no numbers'
+    assert message_of(sf.oneway, {"A": [1.0], "B": []}) == 'sheetfuncs: group "B" has no numbers; give it values or leave it out'
 
 
 def test_no_residual_degrees_of_freedom():
@@ -108,11 +108,11 @@ def test_label_and_value_columns_of_different_lengths():
 def test_unknown_layout():
     msg = message_of(sf.groups_from_range, [["A", "B"], [1.0, 2.0]], layout="columns")
     assert msg == (
-        "sheetfuncs: unknown layout 'columns'; use \"wide\" (one group per column), \"long\" "
+        "sheetfuncs: unknown layout \"columns\"; use \"wide\" (one group per column), \"long\" "
         "(label and value columns) or \"rowwise\" (one group per row)"
     )
     msg = message_of(sf.groups_from_range, [["A", "B"], [1.0, 2.0]], labels="sometimes")
-    assert msg == "sheetfuncs: labels must be \"auto\", TRUE or FALSE, not 'sometimes'"
+    assert msg == 'sheetfuncs: labels must be "auto", TRUE or FALSE, not "sometimes"'
 
 
 def test_bad_contrast_weights():

@@ -196,7 +196,7 @@ def test_every_error_text_in_the_data_is_an_error_with_its_position(err):
 
 
 @pytest.mark.parametrize("code, name", [(COM_NA, "#N/A"), (COM_SPILL, "#SPILL!"),
-                                        (-2146826281, "#DIV/0!"), (-2146826300, "error code -2146826300")])
+                                        (-2146826281, "#DIV/0!"), (-2146826300, "with code -2146826300")])
 def test_com_error_codes_are_errors(code, name):
     with pytest.raises(InputError, match=f"^sheetfuncs: the data hold the error {name} at row 2, column 1"):
         groups_from_range([["A", "B"], [code, 2.0], [3.0, 4.0]])

@@ -149,7 +149,7 @@ def test_from_summary_accepts_spreadsheet_columns():
     (([4, 3], [1.0, "x"], [1.0, 1.0]), 'mean 2 is "x", not a number'),
     (([4, 3], [1.0, 2.0], [1.0, -0.5]), "SD 2 is negative"),
     (([4, 3], [1.0, float("nan")], [1.0, 1.0]), "mean 2 is nan, not a finite number"),
-    (([4, True], [1.0, 2.0], [1.0, 1.0]), "count 2 is TRUE, not a finite number"),
+    (([4, True], [1.0, 2.0], [1.0, 1.0]), "count 2 is TRUE, not a number"),
 ])
 def test_from_summary_bad_input(args, message):
     with pytest.raises(InputError) as e:

@@ -584,8 +584,8 @@ DATA = wide(GROUPS)
 
 PROBLEMS = [
     # (label, function, arguments, phrase in the message)
-    ("unknown method", "SF_PAIRS", (DATA, MISSING, MISSING, "fisher"), "unknown comparison method 'fisher'"),
-    ("method as a number", "SF_PAIRS", (DATA, MISSING, MISSING, 3), "unknown comparison method '3'"),
+    ("unknown method", "SF_PAIRS", (DATA, MISSING, MISSING, "fisher"), 'unknown comparison method "fisher"'),
+    ("method as a number", "SF_PAIRS", (DATA, MISSING, MISSING, 3), 'unknown comparison method "3"'),
     ("dunnett as a pairwise method", "SF_PAIRS", (DATA, MISSING, MISSING, "dunnett"), "SF_DUNNETT"),
     ("unknown letters method", "SF_LETTERS", (DATA, MISSING, MISSING, "lsd"), "unknown comparison method"),
     ("letters by dunnett", "SF_LETTERS", (DATA, MISSING, MISSING, "Dunnett"), "letters need every pair"),
