@@ -16,28 +16,18 @@ the machine and on what else runs on it.
 from __future__ import annotations
 
 import argparse
-import gc
 import os
 import sys
-import time
 
 import numpy as np
 from scipy import stats
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), ".."))
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 
 import sheetfuncs as sf  # noqa: E402
+from timing import best_time  # noqa: E402
 from sheetfuncs.comparisons import dunnett, pairwise  # noqa: E402
-
-
-def best_time(fn, repeat: int) -> float:
-    best = float("inf")
-    for _ in range(repeat):
-        gc.collect()
-        t0 = time.perf_counter()
-        fn()
-        best = min(best, time.perf_counter() - t0)
-    return best
 
 
 def make_groups(k: int, seed: int = 30) -> list[np.ndarray]:

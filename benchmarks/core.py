@@ -19,25 +19,16 @@ import argparse
 import gc
 import os
 import sys
-import time
 import tracemalloc
 
 import numpy as np
 from scipy import stats
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), ".."))
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 
 import sheetfuncs as sf  # noqa: E402
-
-
-def best_time(fn, repeat: int) -> float:
-    best = float("inf")
-    for _ in range(repeat):
-        gc.collect()
-        t0 = time.perf_counter()
-        fn()
-        best = min(best, time.perf_counter() - t0)
-    return best
+from timing import best_time  # noqa: E402
 
 
 def peak_bytes(fn) -> int:

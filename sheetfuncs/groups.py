@@ -22,7 +22,7 @@ import operator
 import struct
 from collections.abc import Mapping, Sequence
 from functools import cached_property
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from itertools import chain
 from typing import Any
 

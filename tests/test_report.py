@@ -8,7 +8,6 @@ with it (NIST StRD, scipy.stats).
 
 from __future__ import annotations
 
-import math
 import os
 import zipfile
 from decimal import Decimal

@@ -26,7 +26,7 @@ from openpyxl.utils import get_column_letter
 from ._analysis import Analysis, Unavailable
 from ._findings import CAUTIONS, Findings
 from ._formats import P_FORMAT, Precision, fixed, format_measure, sig_decimals
-from ._grid import Formula, Grid, Style, cell_ref, quote_sheet, safe_text
+from ._grid import Formula, Grid, Style, quote_sheet, safe_text
 
 __all__ = [
     "DataLayout", "Segment", "NAMES", "build_findings", "build_tables", "build_comparisons",
@@ -607,7 +607,7 @@ def build_chart(an: Analysis, layout: DataLayout) -> Grid:
     g.charts.append((line, "A4"))
 
     scatter = ScatterChart()
-    scatter.title = f"Individual values, with the group means"
+    scatter.title = "Individual values, with the group means"
     scatter.scatterStyle = "lineMarker"
     scatter.y_axis.title = safe_text(f"{an.response}{unit}")
     scatter.x_axis.title = safe_text(f"{an.factor} (position 1 to {k}; see the table below)")

@@ -7,7 +7,6 @@ write-only mode, so a report of a million observations needs little memory.
 
 from __future__ import annotations
 
-import math
 import os
 import tempfile
 from collections.abc import Callable
@@ -21,7 +20,7 @@ from openpyxl.workbook.defined_name import DefinedName
 from ..errors import InputError
 from ._analysis import Analysis, analyse, centred_values
 from ._findings import findings
-from ._grid import PLAIN, Style, apply_style, make_cell, safe_text, setup_print
+from ._grid import Style, apply_style, make_cell, safe_text, setup_print
 from ._sheets import (
     NAMES, TH, DataLayout, build_about, build_audit, build_chart, build_comparisons,
     build_findings, build_groups, build_tables, timestamp,
