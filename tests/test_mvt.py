@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import math
 
-import mpmath as mp
 import numpy as np
 import pytest
 from scipy import stats
@@ -23,6 +22,7 @@ from sheetfuncs.mvt import (
     many_to_one_critical, many_to_one_tail, many_to_one_tails, range_critical, range_criticals,
     range_tail, range_tails,
 )
+from test_comparisons import _mp_many_to_one_normal  # mpmath reference (Dunnett 1955 reduction)
 
 SQRT2 = math.sqrt(2.0)
 
@@ -98,22 +98,6 @@ def test_many_to_one_tails_of_one_treatment_are_t_tails():
         for df in (2.0, 23.0, 4000.0):
             got = many_to_one_tails(c, [lam], df)
             assert got == pytest.approx(2 * stats.t.sf(c, df), rel=1e-9)
-
-
-def _mp_many_to_one_normal(h: float, lam: list[float]) -> float:
-    """P(max |Z_j| > h), corr l_i l_j, by mpmath at 30 digits (Dunnett 1955 reduction)."""
-    with mp.workdps(30):
-        h = mp.mpf(h)
-        ls = [mp.mpf(x) for x in lam]
-        ss = [mp.sqrt(1 - x * x) for x in ls]
-
-        def f(u):
-            inside = mp.mpf(1)
-            for l, s in zip(ls, ss):
-                inside *= mp.ncdf((h - l * u) / s) - mp.ncdf((-h - l * u) / s)
-            return mp.npdf(u) * (1 - inside)
-
-        return float(mp.quad(f, [-mp.inf, -h, -h / 2, 0, h / 2, h, mp.inf]))
 
 
 def test_many_to_one_with_repeated_factors_matches_mpmath():
