@@ -340,23 +340,53 @@ def _exact_sums(r: np.ndarray, offset: int, hi: float, lo: float) -> tuple[int, 
     return s, q
 
 
+#: The largest scale ``D`` for which ``10.0**D`` is exact (and the vectorised check applies).
+_MAX_VECTOR_SCALE = 22
+
+
+def _sample_scale(values: np.ndarray) -> tuple[int, np.ndarray] | None:
+    """The scale of the sampled values and their scaled integers, in a few vectorised passes.
+
+    The smallest ``D <= 22`` at which every value passes the check of the module docstring
+    (``r = rint(x * 10**D)`` has at most 15 digits and ``r / 10**D == x``) is the largest
+    number of decimals among the values' shortest round-trip decimals: a value that passes at
+    ``D`` is ``r * 10**-D`` exactly, so its shortest decimal has at most ``D`` decimals, and a
+    value with ``s <= D`` decimals and at most 15 digits passes at ``D`` as long as
+    ``r < 10**15``. ``None`` when no ``D`` works (a wide or long value, or more than 22
+    decimals): the caller then reads the sample one value at a time.
+    """
+    for d in range(_MAX_VECTOR_SCALE + 1):
+        p = 10.0**d
+        r = np.rint(values * p)
+        if not (np.abs(r) < 1e15).all():
+            return None  # a larger D only makes the scaled values wider
+        if (r / p == values).all():
+            return d, r
+    return None
+
+
 def _exact_moments(arrays: Sequence[np.ndarray]) -> ExactMoments:
     sample = _sample(arrays)
-    parts = []
-    for g, v in sample:
-        mant, exp, nd = decimal_parts(v)
-        if nd > MAX_DIGITS:
-            raise _NotExact(v, g, nd)
-        parts.append((mant, exp))
-    scale = max(0, max(-e for _, e in parts))
-    vector = scale <= 22
-    if vector:
-        ints = sorted(m * 10 ** (e + scale) for m, e in parts)
-        offset = ints[len(ints) // 2]
-        if abs(offset) >= 2**53:
-            offset = 0
-    else:
+    found = _sample_scale(np.array([v for _, v in sample], dtype=np.float64))
+    if found is not None:
+        scale, scaled = found
+        ints = sorted(map(int, scaled.tolist()))
+        offset = ints[len(ints) // 2] if ints else 0
+    else:  # one value at a time, through its shortest round-trip decimal
+        parts = []
+        for g, v in sample:
+            mant, exp, nd = decimal_parts(v)
+            if nd > MAX_DIGITS:
+                raise _NotExact(v, g, nd)
+            parts.append((mant, exp))
+        scale = max(0, max(-e for _, e in parts))
         offset = 0
+        if scale <= _MAX_VECTOR_SCALE:
+            ints = sorted(m * 10 ** (e + scale) for m, e in parts)
+            offset = ints[len(ints) // 2]
+            if abs(offset) >= 2**53:
+                offset = 0
+    vector = scale <= _MAX_VECTOR_SCALE
     ns: list[int] = []
     ss: list[int] = []
     qs: list[int] = []

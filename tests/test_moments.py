@@ -12,11 +12,13 @@ from fractions import Fraction
 
 import numpy as np
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
 import sheetfuncs as sf
 from sheetfuncs import InputError, as_groups
 from sheetfuncs.moments import (
-    _CHUNK, ExactMoments, FloatMoments, _sample, compute_moments, decimal_parts,
+    _CHUNK, ExactMoments, FloatMoments, _sample, _sample_scale, compute_moments, decimal_parts,
 )
 
 
@@ -47,6 +49,51 @@ def assert_exact(arrays) -> ExactMoments:
 def test_decimal_parts_are_the_shortest_round_trip(x, parts):
     # common practice: Python's repr gives the shortest decimal that round-trips the double
     assert decimal_parts(x) == parts
+
+
+def _slow_scale(values) -> int:
+    """The sample's scale one value at a time: the most decimals of any shortest decimal."""
+    return max(0, max(-decimal_parts(v)[1] for v in values))
+
+
+@pytest.mark.parametrize("values", [
+    [0.1, 2.0, 3.25], [1234.5, -0.001, 7.0], [0.0, -0.0, 5.0], [250.125] * 3,
+    [123456789012345.0, 1.0], [0.5, 1e-7, 3.0], [99999999999999.9],
+])
+def test_vectorised_sample_scale_matches_the_decimal_reading(values):
+    # common practice: repr gives the shortest round-trip decimal (decimal_parts reads it)
+    found = _sample_scale(np.array(values))
+    assert found is not None
+    scale, scaled = found
+    assert scale == _slow_scale(values)
+    assert [int(r) for r in scaled] == [
+        m * 10 ** (e + scale) for m, e, _ in map(decimal_parts, values)
+    ]
+
+
+@pytest.mark.parametrize("values", [
+    [0.30000000000000004],          # 17 digits
+    [1e-23, 1.0],                   # more than 22 decimals
+    [1e20], [1e22, 2e22],           # integers wider than 15 digits
+    [123456789012345.0, 0.5],       # 16 digits once both share one scale
+    [math.pi],
+])
+def test_vectorised_sample_scale_gives_way_to_the_decimal_reading(values):
+    assert _sample_scale(np.array(values)) is None
+
+
+@given(st.lists(st.tuples(st.integers(-10**12, 10**12), st.integers(0, 9)), min_size=1, max_size=40))
+def test_vectorised_sample_scale_on_random_decimals(pairs):
+    # values N / 10**d typed with at most 13 digits: both readings agree whenever the
+    # vectorised one applies, and it applies unless a scaled value reaches 15 digits
+    values = [float(Fraction(n, 10**d)) for n, d in pairs]
+    found = _sample_scale(np.array(values))
+    slow = _slow_scale(values)
+    widest = max(abs(Fraction(repr(v))) * 10**slow for v in values)
+    if widest < 10**15:
+        assert found is not None and found[0] == slow
+    else:
+        assert found is None
 
 
 def test_exact_sums_for_typical_three_decimal_data():
