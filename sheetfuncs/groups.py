@@ -464,7 +464,8 @@ def _plain_block(rows: Sequence[Sequence[Any]], start: int, transpose: bool) -> 
     packed as doubles in one C-speed pass through ``float.conjugate``, which returns a float's
     stored double and refuses anything that is not a float (``None``, bool, int, text ...). A
     block it refuses has its cell types counted; when they are floats and blanks only, it is
-    converted with blanks as NaN.
+    converted with blanks as NaN. Each block goes straight into one array holding a line per
+    row (no intermediate copy of the whole range), whose rows become the groups.
     """
     if transpose:
         data = rows if start == 0 else [r[start:] for r in rows]
@@ -472,41 +473,41 @@ def _plain_block(rows: Sequence[Sequence[Any]], start: int, transpose: bool) -> 
     else:
         data = rows[start:]
         width = len(rows[0])
-    if not data or width <= 0:
+    n = len(data)
+    if not n or width <= 0:
         return None
     step = max(1, _BLOCK_CELLS // width)
-    packed: list[bytes] = []
+    # one line per row of ``lines``: the range's rows (rowwise) or its columns (wide)
+    lines = np.empty((n, width) if transpose else (width, n), dtype=np.float64)
     n_blank = 0
-    for i in range(0, len(data), step):
+    for i in range(0, n, step):
         part = data[i:i + step]
         m = len(part) * width
         try:  # all floats: their stored doubles, unchanged
-            packed.append(struct.pack(f"{m}d", *map(_FLOAT_ONLY, chain.from_iterable(part))))
-            continue
+            block = np.frombuffer(struct.pack(f"{m}d", *map(_FLOAT_ONLY, chain.from_iterable(part))))
         except (TypeError, struct.error):
-            pass
-        kinds = list(map(type, chain.from_iterable(part)))
-        if len(kinds) != m:
-            return None
-        n_float = kinds.count(float)  # cheap: the identity test settles every float
-        nb = kinds.count(_NONE_TYPE)
-        if n_float + nb != m:
-            return None
-        n_blank += nb
-        packed.append(np.fromiter(chain.from_iterable(part), dtype=np.float64, count=m).tobytes())
-    flat = np.frombuffer(b"".join(packed), dtype=np.float64)  # None became NaN
-    table = flat.reshape(len(data), width)
+            kinds = list(map(type, chain.from_iterable(part)))
+            if len(kinds) != m:
+                return None
+            nb = kinds.count(_NONE_TYPE)
+            if kinds.count(float) + nb != m:  # cheap: the identity test settles every float
+                return None
+            n_blank += nb
+            block = np.fromiter(chain.from_iterable(part), dtype=np.float64, count=m)  # None: NaN
+        if transpose:
+            lines[i:i + len(part)] = block.reshape(len(part), width)
+        else:
+            lines[:, i:i + len(part)] = block.reshape(len(part), width).T
     if not n_blank:
-        if not np.isfinite(flat).all():
+        if not np.isfinite(lines).all():
             return None  # NaN or infinity: rejected with its position cell by cell
-        return [ln.copy() for ln in (table if transpose else table.T)]
-    blank = np.isnan(flat)
-    if int(np.count_nonzero(blank)) != n_blank or np.isinf(flat).any():
+        lines.setflags(write=False)  # the groups are read-only views of it, not copies
+        return list(lines)
+    blank = np.isnan(lines)
+    if int(np.count_nonzero(blank)) != n_blank or np.isinf(lines).any():
         return None  # a genuine NaN (more NaNs than blanks) or an infinity
-    keep = ~blank.reshape(len(data), width)
-    if not transpose:
-        table, keep = table.T, keep.T
-    return [ln[k] for ln, k in zip(table, keep)]
+    keep = ~blank
+    return [ln[k] for ln, k in zip(lines, keep)]
 
 
 def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
