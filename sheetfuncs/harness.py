@@ -48,6 +48,7 @@ import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from itertools import chain, filterfalse
+from operator import countOf
 from typing import Any
 
 import numpy as np
@@ -160,10 +161,12 @@ def _clean(v: Any, err_to_str: bool) -> Any:
 def _as_rows(value: Sequence[Any]) -> list[Sequence[Any]]:
     if not value:
         raise TypeError("a range needs at least one cell")
-    if not set(map(type, value)) <= {list, tuple} and not all(isinstance(r, (list, tuple)) for r in value):
-        raise TypeError("give a range as rows of cells, e.g. [[1.0, 2.0], [3.0, None]] (see column() and row())")
-    widths = set(map(len, value))
-    if len(widths) != 1 or 0 in widths:
+    first = type(value[0])
+    if not (first in (list, tuple) and countOf(map(type, value), first) == len(value)):
+        if not all(isinstance(r, (list, tuple)) for r in value):
+            raise TypeError("give a range as rows of cells, e.g. [[1.0, 2.0], [3.0, None]] (see column() and row())")
+    width = len(value[0])
+    if width == 0 or countOf(map(len, value), width) != len(value):
         raise TypeError("a range is a rectangle: every row needs the same number of cells")
     return list(value)
 
