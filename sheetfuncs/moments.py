@@ -380,9 +380,13 @@ def _exact_moments(arrays: Sequence[np.ndarray]) -> ExactMoments:
                 raise _NotExact(v, g, nd)
             parts.append((mant, exp))
         scale = max(0, max(-e for _, e in parts))
+        if scale > _MAX_VECTOR_SCALE:
+            # values with more than 22 decimals cannot be scaled in floats; scale the others
+            # (if any) to theirs, and the main loop reads these few one by one as leftovers
+            scale = max((-e for _, e in parts if -e <= _MAX_VECTOR_SCALE), default=scale)
         offset = 0
         if scale <= _MAX_VECTOR_SCALE:
-            ints = sorted(m * 10 ** (e + scale) for m, e in parts)
+            ints = sorted(m * 10 ** (e + scale) for m, e in parts if -e <= scale)
             offset = ints[len(ints) // 2]
             if abs(offset) >= 2**53:
                 offset = 0

@@ -131,6 +131,23 @@ def test_tiny_and_scale_beyond_22_decimals():
     assert mom.scale == 24
 
 
+def test_one_value_beyond_22_decimals_leaves_the_rest_vectorised(monkeypatch):
+    # a sampled value with 23 decimals among 50,000 two-decimal values: the others are still
+    # scaled in floats, and only the sample and that value are read through their decimals
+    import sheetfuncs.moments as moments_module
+
+    calls = []
+    real = moments_module.decimal_parts
+    monkeypatch.setattr(moments_module, "decimal_parts", lambda x: calls.append(x) or real(x))
+    rng = np.random.default_rng(23)
+    a = np.round(rng.normal(50, 2, 30_000), 2)
+    a[0] = 1e-23  # the first value is always in the sample
+    b = np.round(rng.normal(51, 2, 20_000), 2)
+    mom = assert_exact([a, b])
+    assert mom.scale == 23
+    assert len(calls) <= 2 * len(_sample([a, b]))
+
+
 def test_mixed_decimals_missed_by_the_sample():
     # 50,000 values with one decimal; three values with five decimals sit where the evenly
     # spaced sample does not look, so the first scale (1 decimal) is too coarse for them and
