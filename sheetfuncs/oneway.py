@@ -23,7 +23,7 @@ import numpy as np
 from .errors import InputError
 from .validate import as_real, shown
 from .fdist import f_tail
-from .groups import Groups, as_groups, format_label
+from .groups import Groups, _first_duplicate, as_groups, format_label
 from .moments import (
     ExactMoments, FloatMoments, check_float_zero_spread, check_ss_range, compute_moments,
     decimal_parts, rounded,
@@ -226,6 +226,13 @@ def oneway_from_summary(
             raise InputError(
                 f"sheetfuncs: {len(labs)} names for {len(cs)} groups; give one name per group"
             )
+        dup = _first_duplicate(labs)
+        if dup is not None:
+            idx = [i + 1 for i, x in enumerate(labs) if x == dup]
+            raise InputError(
+                f'sheetfuncs: the name "{dup}" is given to groups {idx[0]} and {idx[1]}; give each '
+                "group its own name"
+            )
     if len(cs) < 2:
         raise InputError(f"sheetfuncs: at least two groups are needed to compare means, got {len(cs)}")
     n_list: list[int] = []
@@ -239,6 +246,11 @@ def oneway_from_summary(
     for i, s in enumerate(s_list):
         if s < 0:
             raise InputError(f"sheetfuncs: SD {i + 1} is negative; standard deviations are at least 0")
+        if s and n_list[i] == 1:  # contradictory: the columns are out of line or the count wrong
+            raise InputError(
+                f"sheetfuncs: SD {i + 1} is {shown(sd[i])} but count {i + 1} is 1, and a single "
+                "value has no standard deviation; check the rows line up, or give 0 for its SD"
+            )
     n = sum(n_list)
     grand = sum(c * m for c, m in zip(n_list, m_list)) / n
     ssb = sum(c * (m - grand) ** 2 for c, m in zip(n_list, m_list))

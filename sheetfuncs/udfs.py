@@ -579,11 +579,15 @@ _COUNTS = Arg(
     "means and SDs is skipped.",
 )
 _MEANS = Arg("means", "range", "The mean of each group, in the same order.")
-_SDS = Arg("sds", "range", "The standard deviation (n - 1 divisor) of each group, in the same order.")
+_SDS = Arg(
+    "sds", "range",
+    "The standard deviation (n - 1 divisor) of each group, in the same order; 0 for a group of "
+    "one value.",
+)
 _NAMES = Arg(
     "names", "range",
-    "Group names, in the same order; checked to match the number of groups (the table itself "
-    "names no groups).",
+    "Group names, in the same order, each different; checked to match the number of groups "
+    "(the table itself names no groups).",
     default=None,
 )
 

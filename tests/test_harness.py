@@ -462,6 +462,8 @@ PROBLEMS = [
     ("summary gap", "SF_FROMSTATS", (column([5, None, 4]), column([1.0, 2.0, 3.0]), column([0.1, 0.2, 0.3])), "entry 2 of counts is blank"),
     ("summary error", "SF_FROMSTATS", (column([5, 4]), column([1.0, VALUE]), column([0.1, 0.2])), "#VALUE!"),
     ("summary one group", "SF_FROMSTATS", (column([5]), column([1.0]), column([0.1])), "at least two groups"),
+    ("summary SD for one value", "SF_FROMSTATS", (column([5, 1]), column([1.0, 2.0]), column([0.1, 0.2])), "count 2 is 1"),
+    ("summary names twice", "SF_FROMSTATS", (column([5, 4]), column([1.0, 2.0]), column([0.1, 0.2]), column(["A", "A"])), 'name "A" is given to groups 1 and 2'),
     ("summary text count", "SF_FROMSTATS", (column(["n", 5, 4]), column([1.0, 2.0, 3.0]), column([0.1, 0.2, 0.3])), 'count 1 is "n", not a number'),
     ("df negative", "SF_FTAIL", (2.0, -1, 10), "df1 must be a positive number"),
     ("x blank", "SF_FTAIL", (None, 2, 10), "x is missing"),

@@ -126,6 +126,19 @@ def test_from_summary_equals_raw_data_within_1e_12():
         assert summ.df_between == raw.df_between and summ.df_within == raw.df_within
 
 
+def test_from_summary_group_of_one_needs_sd_zero():
+    # common practice: a single value has no standard deviation; it adds nothing to SSW
+    r = sf.oneway_from_summary([4, 1], [10.5, 12.0], [1.5, 0.0])
+    assert r.ss_within_exact == 3 * Fraction("2.25") and r.df_within == 3
+    with pytest.raises(sf.InputError, match="count 2 is 1"):
+        sf.oneway_from_summary([4, 1], [10.5, 12.0], [1.5, 0.4])
+
+
+def test_from_summary_names_must_differ():
+    with pytest.raises(sf.InputError, match='"Line A" is given to groups 1 and 3'):
+        sf.oneway_from_summary([4, 6, 5], [10.5, 12.0, 11.0], [1.5, 2.0, 1.0], ["Line A", "B", "Line A"])
+
+
 def test_from_summary_exact_decimal_arithmetic():
     # counts, means and SDs as typed; sums of squares as exact decimals
     r = sf.oneway_from_summary([4, 6], [10.5, 12.0], [1.5, 2.0], labels=["Line A", "Line B"])
