@@ -27,7 +27,7 @@ from .fdist import f_tail
 from .groups import Groups, as_groups, format_label
 from .moments import check_float_zero_spread, check_ss_range, compute_moments, rounded
 from .oneway import require_two_groups
-from .validate import as_real, check_conf, shown
+from .validate import as_real, check_conf, one_line, shown
 
 __all__ = ["LinearTestResult", "ContrastResult", "linear_test", "contrast", "per_group_argument"]
 
@@ -35,18 +35,11 @@ __all__ = ["LinearTestResult", "ContrastResult", "linear_test", "contrast", "per
 def per_group_argument(values: Any, g: Groups, what: str) -> list[Any]:
     """A per-group argument (pooling labels, weights) as a flat list checked for length.
 
-    2-D inputs (a spreadsheet row or column) are flattened in reading order; blank cells at
-    the end are dropped, so a range drawn longer than needed still fits.
+    2-D inputs (a spreadsheet row or column) are flattened; blank cells at the end are dropped,
+    so a range drawn longer than needed still fits. A block of several rows and columns is an
+    input error (it has no one order).
     """
-    if isinstance(values, (str, bytes)) or not hasattr(values, "__iter__"):
-        flat = [values]
-    else:
-        flat = []
-        for v in values:
-            if isinstance(v, (list, tuple, np.ndarray)):
-                flat.extend(list(v))
-            else:
-                flat.append(v)
+    flat = one_line(values, what)
     while flat and (flat[-1] is None or flat[-1] == ""):
         flat.pop()
     if len(flat) != g.k:

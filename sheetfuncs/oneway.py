@@ -21,7 +21,7 @@ from typing import Any
 import numpy as np
 
 from .errors import InputError
-from .validate import as_real, shown
+from .validate import as_real, one_line, shown
 from .fdist import f_tail
 from .groups import Groups, _first_duplicate, as_groups, format_label
 from .moments import (
@@ -187,7 +187,7 @@ def oneway(groups: Any, *, exact: bool | None = None) -> OneWayResult:
 def _summary_column(values: Any, name: str) -> list[Any]:
     if isinstance(values, (str, bytes)) or not hasattr(values, "__len__"):
         values = [values]
-    return list(np.asarray(values, dtype=object).ravel().tolist())
+    return list(np.asarray(one_line(values, name), dtype=object).ravel().tolist())
 
 
 def _to_fraction(v: Any, what: str, i: int) -> Fraction:

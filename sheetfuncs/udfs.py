@@ -89,7 +89,7 @@ from .oneway import TABLE_HEADER, oneway, oneway_from_summary
 from .comparisons import dunnett, pairwise
 from .planning import detectable_effect, sample_size
 from .planning import power as power_of
-from .validate import check_number
+from .validate import check_number, one_line
 from .varcomp import TABLE_HEADER as VARCOMP_HEADER
 from .varcomp import variance_components
 
@@ -340,11 +340,11 @@ def _range_errors(cells: Any, arg: Arg) -> None:
 
 
 def _column(cells: Any, arg: Arg) -> list[Any] | None:
-    """A per-group range as a flat list in reading order; blanks at the end are dropped."""
+    """A per-group range (one row or one column) as a flat list; blanks at the end are dropped."""
     if cells is None:
         return None
     _range_errors(cells, arg)
-    flat = [v for row in cells for v in (row if isinstance(row, (list, tuple, np.ndarray)) else [row])]
+    flat = one_line(cells, arg.name)
     while flat and (flat[-1] is None or (isinstance(flat[-1], str) and flat[-1].strip() == "")):
         flat.pop()
     for i, v in enumerate(flat):
@@ -636,12 +636,13 @@ def _without_headers(cols: list[list[Any] | None]) -> list[list[Any] | None]:
 
 _POOLING = Arg(
     "pooling", "range",
-    "One label per group, in group order: groups with the same label share one mean in the "
-    "reduced model.",
+    "One label per group, in group order, in one row or one column: groups with the same label "
+    "share one mean in the reduced model.",
 )
 _WEIGHTS = Arg(
     "weights", "range",
-    "One weight per group, in group order, summing to zero (e.g. 1, -0.5, -0.5).",
+    "One weight per group, in group order, in one row or one column, summing to zero (e.g. 1, "
+    "-0.5, -0.5).",
 )
 
 

@@ -7,7 +7,10 @@ from typing import Any
 
 from .errors import InputError
 
-__all__ = ["check_conf", "check_alpha", "check_probability", "check_number", "shown", "as_real"]
+__all__ = [
+    "check_conf", "check_alpha", "check_probability", "check_number", "one_line", "shown",
+    "as_real",
+]
 
 
 def shown(value: Any) -> str:
@@ -70,3 +73,39 @@ def check_conf(conf: Any) -> float:
 def check_alpha(alpha: Any) -> float:
     """A significance level in (0, 1)."""
     return check_probability(alpha, "alpha", "0.05")
+
+
+
+def _blank(v: Any) -> bool:
+    return v is None or (isinstance(v, str) and v.strip() == "")
+
+
+def one_line(cells: Any, name: str) -> list[Any]:
+    """A per-group argument (one row or one column of cells, or a flat list) as a flat list.
+
+    A column drawn wider than its values (the other columns entirely blank), or a row drawn
+    taller, still reads as that column or row. A block of several rows and columns that all
+    hold values has no one order of the groups: that is an input error, rather than reading it
+    in some order without a word. Blanks are kept (the caller says what a gap means).
+    """
+    if isinstance(cells, (str, bytes)) or not hasattr(cells, "__iter__"):
+        return [cells]
+    items = list(cells)
+    is_row = [isinstance(r, (list, tuple)) or getattr(r, "ndim", 0) >= 1 for r in items]
+    if not any(is_row):
+        return items  # a flat list of values
+    rows = [list(r) if row else [r] for r, row in zip(items, is_row)]
+    used_rows = [r for r in rows if not all(map(_blank, r))]
+    width = max(map(len, rows))
+    used_cols = [j for j in range(width) if any(j < len(r) and not _blank(r[j]) for r in rows)]
+    if len(used_rows) > 1 and len(used_cols) > 1:
+        raise InputError(
+            f"sheetfuncs: {name} fill a block of {len(used_rows)} rows and {len(used_cols)} "
+            "columns; give one per group in a single row or column"
+        )
+    if len(rows) > 1 and len(used_cols) == 1:  # a column
+        j = used_cols[0]
+        return [r[j] if j < len(r) else None for r in rows]
+    if len(used_rows) == 1:  # a row
+        return list(used_rows[0])
+    return [v for r in rows for v in r]  # nothing but blanks

@@ -56,6 +56,34 @@ def test_pooling_labels_may_be_numbers_and_a_spreadsheet_row():
     assert a.pools[0][0] == "1"
 
 
+def test_per_group_arguments_as_a_column_drawn_wider_or_a_row_drawn_taller():
+    # common practice: a range drawn larger than its values, the extra cells blank
+    plain = sf.contrast(ZONES, [1, -1, 0, 0]).estimate
+    wider = [[1, None], [-1, ""], [0, None], [0, None], [None, None]]
+    taller = [[1, -1, 0, 0, None], [None, None, None, None, None]]
+    assert sf.contrast(ZONES, wider).estimate == plain
+    assert sf.contrast(ZONES, taller).estimate == plain
+    assert sf.linear_test(ZONES, [["a", None], ["a", None], ["b", None], ["b", None]]).f == \
+        sf.linear_test(ZONES, ["a", "a", "b", "b"]).f
+
+
+@pytest.mark.parametrize("block", [
+    [[1, -1], [0, 0]],                   # 2 x 2 for four groups: which order?
+    [[1, -1, None], [None, 0, None]],
+    np.array([[1.0, -1.0], [0.0, 0.0]]),
+])
+def test_per_group_argument_as_a_block_is_an_input_error(block):
+    with pytest.raises(InputError, match="^sheetfuncs: weights fill a block of 2 rows and 2 columns; "
+                       "give one per group in a single row or column$"):
+        sf.contrast(ZONES, block)
+
+
+def test_a_gap_in_a_per_group_column_is_kept():
+    # a blank inside the column is not dropped (that would shift the weights silently)
+    with pytest.raises(InputError):
+        sf.contrast(ZONES, [[1], [None], [-1], [0], [0]])
+
+
 def test_pooling_everything_is_the_one_way_test():
     r = sf.linear_test(ZONES, ["all"] * 4)
     one = sf.oneway(ZONES)
