@@ -695,3 +695,19 @@ def test_progress_is_reported(tmp_path):
     stages = [s for s, _, _ in seen]
     assert stages[0] == "analysis" and "data" in stages and stages[-1] == "saving"
     assert ("data", 18, 18) in seen
+
+
+def test_a_folder_that_refuses_new_files_gets_a_clear_message(tmp_path, monkeypatch):
+    # e.g. a read-only share, or /proc on Linux (which answers "No such file or directory")
+    def refuse(*args, **kwargs):
+        raise PermissionError(13, "Permission denied")
+
+    monkeypatch.setattr(writer_mod.tempfile, "mkstemp", refuse)
+    target = tmp_path / "report.xlsx"
+    with pytest.raises(InputError) as e:
+        write_report({"A": [1.0, 2.0, 3.0], "B": [2.0, 3.0, 4.5]}, target)
+    assert str(e.value) == (
+        f"sheetfuncs: cannot create a file in the folder {str(tmp_path)!r} (the system says: "
+        "Permission denied); choose a folder you can write to"
+    )
+    assert list(tmp_path.iterdir()) == []

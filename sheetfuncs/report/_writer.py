@@ -249,7 +249,10 @@ def write_report(
     try:
         fd, tmp_name = tempfile.mkstemp(dir=folder, prefix=f".{target.stem}.", suffix=".tmp")
     except OSError as err:
-        raise InputError(f"sheetfuncs: cannot write in the folder {str(folder)!r}: {err.strerror}") from None
+        raise InputError(
+            f"sheetfuncs: cannot create a file in the folder {str(folder)!r} (the system says: "
+            f"{err.strerror or err}); choose a folder you can write to"
+        ) from None
     os.close(fd)
     tmp = Path(tmp_name)
     try:
