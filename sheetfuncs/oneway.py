@@ -187,7 +187,7 @@ def oneway(groups: Any, *, exact: bool | None = None) -> OneWayResult:
 def _summary_column(values: Any, name: str) -> list[Any]:
     if isinstance(values, (str, bytes)) or not hasattr(values, "__len__"):
         values = [values]
-    return list(np.asarray(one_line(values, name), dtype=object).ravel().tolist())
+    return np.asarray(one_line(values, name), dtype=object).tolist()
 
 
 def _to_fraction(v: Any, what: str, i: int) -> Fraction:

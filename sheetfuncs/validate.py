@@ -75,7 +75,6 @@ def check_alpha(alpha: Any) -> float:
     return check_probability(alpha, "alpha", "0.05")
 
 
-
 def _blank(v: Any) -> bool:
     return v is None or (isinstance(v, str) and v.strip() == "")
 
