@@ -282,6 +282,31 @@ def test_encrypted_workbook(tmp_path):
     )
 
 
+def test_workbook_encrypted_by_an_independent_implementation(tmp_path):
+    # reference library: msoffcrypto-tool encrypts with a password as [MS-OFFCRYPTO] (agile
+    # encryption); the reader must recognise the result without the password
+    import io
+
+    import openpyxl
+    from msoffcrypto.format.ooxml import OOXMLFile
+
+    wb = openpyxl.Workbook()
+    for row in (("Zone 1", "Zone 2"), (181.2, 182.4), (180.7, 181.9)):  # invented readings
+        wb.active.append(row)
+    plain = io.BytesIO()
+    wb.save(plain)
+    plain.seek(0)
+    path = tmp_path / "locked.xlsx"
+    with open(path, "wb") as out:
+        OOXMLFile(plain).encrypt("a password", out)
+    with pytest.raises(InputError) as ei:
+        read_cells(path)
+    assert str(ei.value) == (
+        "sheetfuncs: locked.xlsx is encrypted (password-protected); remove the password in a "
+        "spreadsheet program (save a copy without one) and read that copy"
+    )
+
+
 def test_old_binary_workbook_in_disguise(tmp_path):
     path = tmp_path / "old.xlsx"
     path.write_bytes(_cfb({"Workbook": b"\x09\x08"}))
