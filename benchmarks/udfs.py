@@ -125,7 +125,7 @@ def print_steps(t: dict[str, float]) -> None:
         ("write", "xlwings' writing of the table (emulated)"),
     ]
     rows = [(k, t[k], what) for k, what in parts]
-    rows.append(("other", total - sum(v for _, v, _ in rows), "argument handling between the steps"))
+    rows.append(("other", total - sum(v for _, v, _ in rows), "argument handling, and freeing the 10,001 row lists after the call"))
     print("10,000x10, the harness path step by step (collector paused):")
     print(f"  {'step':<10} {'time':>9} {'share':>6} {'/plain':>7}")
     for key, v, what in rows + [("harness", total, "the whole path")]:
