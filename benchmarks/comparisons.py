@@ -27,7 +27,7 @@ sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 
 import sheetfuncs as sf  # noqa: E402
 from timing import best_time  # noqa: E402
-from sheetfuncs.comparisons import dunnett, pairwise  # noqa: E402
+from sheetfuncs.stats.comparisons import dunnett, pairwise  # noqa: E402
 
 
 def make_groups(k: int, seed: int = 30) -> list[np.ndarray]:

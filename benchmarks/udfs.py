@@ -42,7 +42,11 @@ import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from sheetfuncs import groups_from_range, harness, oneway, udfs  # noqa: E402
+from sheetfuncs import groups_from_range, oneway
+
+from sheetfuncs.worksheet import harness
+
+from sheetfuncs.worksheet import functions as udfs  # noqa: E402
 
 
 def _per_call(f: Callable[[], object], loops: int) -> float:

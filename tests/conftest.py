@@ -1,9 +1,4 @@
-import sys
-from pathlib import Path
-
 from hypothesis import HealthCheck, settings
-
-sys.path.insert(0, str(Path(__file__).parent))
 
 # Property tests repeat exactly from run to run (no flaky CI) and have no per-example deadline.
 settings.register_profile(

@@ -166,12 +166,12 @@ def test_other_option_errors_are_one_line_too():
     (5, "sheetfuncs: alpha must lie strictly between 0 and 1 (e.g. 0.05), not 5"),
 ])
 def test_shared_option_checks(value, expected):
-    from sheetfuncs.validate import check_alpha
+    from sheetfuncs.input.options import check_alpha
     assert message_of(check_alpha, value) == expected
 
 
 def test_shared_option_checks_accept_good_values():
-    from sheetfuncs.validate import check_alpha, check_conf, check_number, check_probability
+    from sheetfuncs.input.options import check_alpha, check_conf, check_number, check_probability
     assert check_alpha(0.05) == 0.05 and check_conf(0.99) == 0.99
     assert check_number(3, "the count") == 3.0
     assert check_probability(0.5, "the power", "0.8") == 0.5

@@ -2,7 +2,7 @@
 
     python tools/make_demo_workbook.py [OUT.xlsx]
 
-The data come from :func:`sheetfuncs.demo.demo_rows`, so the workbook and the package's demo
+The data come from :func:`sheetfuncs.input.demo.demo_rows`, so the workbook and the package's demo
 cannot drift apart (tests/test_readers.py reads the committed file back and compares).
 """
 
@@ -18,10 +18,10 @@ if str(ROOT) not in sys.path:
 from openpyxl import Workbook  # noqa: E402
 from openpyxl.styles import Font  # noqa: E402
 
-from sheetfuncs.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_rows  # noqa: E402
+from sheetfuncs.input.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_rows  # noqa: E402
 
 #: Name of the data sheet in the demo workbook (the first sheet, so it is read by default).
-from sheetfuncs.cli import DEMO_SHEET as DATA_SHEET  # noqa: E402
+from sheetfuncs.cli.commands import DEMO_SHEET as DATA_SHEET  # noqa: E402
 
 NOTES = (
     DEMO_TITLE,

@@ -16,7 +16,7 @@ from fractions import Fraction
 import pytest
 from scipy import stats
 
-import nist
+from tests.support import nist
 import sheetfuncs as sf
 
 FIELDS = ("ss_between", "ss_within", "ms_between", "ms_within", "f", "r_squared", "residual_sd")

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import pytest
 
-from sheetfuncs.planning import power, sample_size
+from sheetfuncs.stats.planning import power, sample_size
 
 
 def test_acceptance_entry_k4_f025():

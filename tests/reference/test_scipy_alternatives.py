@@ -12,8 +12,8 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from sheetfuncs.alternatives import kruskal, welch
-from sheetfuncs.assumptions import bartlett, levene, residuals, shapiro_residuals
+from sheetfuncs.stats.alternatives import kruskal, welch
+from sheetfuncs.stats.assumptions import bartlett, levene, residuals, shapiro_residuals
 
 SEEDS = range(12)
 

@@ -23,8 +23,8 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from sheetfuncs.mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
-from sheetfuncs.comparisons import dunnett, pairwise
+from sheetfuncs.distributions.mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
+from sheetfuncs.stats.comparisons import dunnett, pairwise
 
 
 def random_groups(seed: int, k_max: int = 6) -> list[np.ndarray]:

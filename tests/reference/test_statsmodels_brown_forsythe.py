@@ -12,7 +12,7 @@ import numpy as np
 import pytest
 from statsmodels.stats.oneway import anova_oneway
 
-from sheetfuncs.alternatives import brown_forsythe, welch
+from sheetfuncs.stats.alternatives import brown_forsythe, welch
 
 
 def random_groups(seed: int) -> list[np.ndarray]:

@@ -17,7 +17,7 @@ import pytest
 from scipy import stats
 from statsmodels.stats.multitest import multipletests
 
-from sheetfuncs.comparisons import pairwise
+from sheetfuncs.stats.comparisons import pairwise
 
 
 def random_groups(seed: int) -> list[np.ndarray]:

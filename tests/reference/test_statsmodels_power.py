@@ -12,7 +12,7 @@ import numpy as np
 import pytest
 from statsmodels.stats.power import FTestAnovaPower
 
-from sheetfuncs.planning import detectable_effect, power, sample_size
+from sheetfuncs.stats.planning import detectable_effect, power, sample_size
 
 RNG = np.random.default_rng(20240603)
 CASES = [

@@ -15,7 +15,7 @@ import numpy as np
 import pytest
 import statsmodels.api as sm
 
-from sheetfuncs.varcomp import variance_components
+from sheetfuncs.stats.varcomp import variance_components
 
 
 def _reml(y: np.ndarray) -> tuple[float, float]:

@@ -12,8 +12,8 @@ from __future__ import annotations
 
 import pytest
 
-from nist import NAMES, lre, load
-from sheetfuncs.harness import call
+from tests.support.nist import NAMES, lre, load
+from sheetfuncs.worksheet.harness import call
 
 
 def _long(ds) -> list[list[object]]:

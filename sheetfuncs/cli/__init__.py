@@ -1,0 +1,1 @@
+from .commands import main  # noqa: F401

@@ -1,0 +1,376 @@
+"""Alternatives to the one-way F test: Welch, Brown–Forsythe F* and Kruskal–Wallis.
+
+Welch (1951), "On the comparison of several mean values: an alternative approach",
+*Biometrika* 38, 330–336. With ``w_i = n_i / s_i^2``, ``W = sum w_i``, the weighted mean
+``m_w = sum w_i ybar_i / W`` and ``L = sum (1 - w_i / W)^2 / (n_i - 1)``,
+
+    F_W = [sum w_i (ybar_i - m_w)^2 / (k - 1)] / [1 + 2 (k - 2) L / (k^2 - 1)],
+
+referred to F(k - 1, (k^2 - 1) / (3 L)).
+
+Brown & Forsythe (1974), "The small sample behavior of some statistics which test the equality
+of several means", *Technometrics* 16, 129–132. With ``N`` values in all and ``ybar`` the grand
+mean,
+
+    F* = sum n_i (ybar_i - ybar)^2 / sum (1 - n_i / N) s_i^2,
+
+referred to F(k - 1, f) with Satterthwaite's (1946) degrees of freedom
+``1 / f = sum c_i^2 / (n_i - 1)``, ``c_i = (1 - n_i/N) s_i^2 / sum_j (1 - n_j/N) s_j^2``.
+
+Kruskal & Wallis (1952), "Use of ranks in one-criterion variance analysis", *JASA* 47, 583–621.
+Ranks over all ``N`` values (ties share their average rank), ``R_i`` the rank sum of group i,
+
+    H = [12 / (N (N + 1)) sum R_i^2 / n_i - 3 (N + 1)] / [1 - sum (t^3 - t) / (N^3 - N)],
+
+the divisor being the tie correction over the tie blocks of size ``t``; H is referred to
+chi-square with k - 1 df. The rank-based effect size (Tomczak & Tomczak 2014, *Trends in Sport
+Sciences* 21, 19–25) is ``epsilon^2 = H (N + 1) / (N^2 - 1)``.
+
+Means and variances come from the decimal-exact moments when that path applies
+(:mod:`sheetfuncs.moments`): Brown–Forsythe's F* and its df and Kruskal–Wallis' H are computed as
+exact rationals and rounded once; Welch's statistic is formed in floating point from means
+centred exactly on a common value and variances rounded once, so data with many constant leading
+digits lose nothing.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Any, ClassVar
+
+import numpy as np
+from scipy import stats
+
+from ..errors import InputError
+from ..distributions.f import f_tail
+from ..input.groups import Groups, as_groups
+from .moments import ExactMoments, FloatMoments, compute_moments
+from .oneway import require_two_groups
+
+__all__ = [
+    "WelchResult",
+    "BrownForsytheResult",
+    "KruskalResult",
+    "welch",
+    "brown_forsythe",
+    "kruskal",
+    "centred_group_stats",
+    "require_variances",
+    "unit_free_moments",
+    "prepare_with_variances",
+]
+
+_HEADER_F = ("Test", "Statistic", "df1", "df2", "p")
+
+
+# --------------------------------------------------------------------------------------------
+# shared per-group quantities
+
+
+def prepare_with_variances(
+    groups: Any, method: str, exact: bool | None
+) -> tuple[Groups, ExactMoments | FloatMoments]:
+    """The groups and their unit-free moments for a ``method`` that needs every group's
+    variance: at least two groups, each of two or more values (else InputError)."""
+    g = as_groups(groups)
+    require_two_groups(g)
+    require_variances(g, method)
+    return unit_free_moments(g, exact)
+
+
+def require_variances(g: Groups, method: str) -> None:
+    """InputError unless every group has two or more values (``method`` needs each variance)."""
+    for label, n in zip(g.labels, g.counts):
+        if n < 2:
+            raise InputError(
+                f'sheetfuncs: group "{label}" has only one value, but {method} needs the '
+                "variance of every group; add values to that group or leave it out"
+            )
+
+
+def _zero_variance_error(label: str, method: str) -> InputError:
+    return InputError(
+        f'sheetfuncs: group "{label}" has zero variance (all its values are equal), and '
+        f"{method} divides by each group's variance; check the measurement resolution, or use "
+        "the Brown-Forsythe F* test or Kruskal-Wallis instead"
+    )
+
+
+def unit_free_moments(g: Groups, exact: bool | None) -> tuple[Groups, ExactMoments | FloatMoments]:
+    """Moments for statistics that do not depend on the unit of measurement.
+
+    On the floating-point path, data of extreme size (largest magnitude above 2**300 or below
+    2**-300) are first rescaled by a power of two, which is exact, so that squares neither
+    overflow nor underflow. Returns the (possibly rescaled) groups with their moments. The
+    decimal-exact path needs no rescaling: its sums are exact integers.
+    """
+    top = max(float(np.max(np.abs(a))) for a in g.arrays)
+    if top == 0.0 or 2.0**-300 < top < 2.0**300:
+        return g, compute_moments(g, exact)
+    with np.errstate(over="ignore", under="ignore", invalid="ignore"):
+        mom = compute_moments(g, exact)  # the float path's squares may overflow: not used then
+    if mom.exact:
+        return g, mom
+    shift = -math.frexp(top)[1]
+    scaled = Groups(
+        labels=g.labels, arrays=tuple(np.ldexp(a, shift) for a in g.arrays), cells=g.cells,
+        notes=g.notes, layout=g.layout, label_source=g.label_source,
+    )
+    return scaled, compute_moments(scaled, False)
+
+
+def _pow2_exponent(x: Fraction | float) -> int:
+    """An integer e with 2**e within a factor of 2 of x > 0."""
+    if isinstance(x, Fraction):
+        return x.numerator.bit_length() - x.denominator.bit_length()
+    return math.frexp(x)[1]
+
+
+def centred_group_stats(
+    g: Groups, mom: ExactMoments | FloatMoments
+) -> tuple[tuple[float, ...], tuple[float, ...]]:
+    """``(deviations, variances)`` per group, in a common unit ``2**h``.
+
+    ``deviations[i] = (mean_i - mean_1) / 2**h`` and ``variances[i] = SS_i / (n_i - 1) / 4**h``
+    (``nan`` for a group of one value), with ``h`` chosen so that the largest variance is near
+    1: statistics that do not depend on the unit (Welch's F and df) are then free of overflow
+    and underflow whatever the size of the data. On the exact path the differences of means and
+    the variances are exact rationals rounded once, so they keep their full precision however
+    many leading digits the data share.
+    """
+    k = g.k
+    raw_var: list[Fraction | float | None] = []
+    for i in range(k):
+        n = mom.n[i]
+        raw_var.append(mom.ss_group(i) / (n - 1) if n > 1 else None)
+    positive = [v for v in raw_var if v is not None and v > 0]
+    h = _pow2_exponent(max(positive)) // 2 if positive else 0
+    if mom.exact:
+        c = mom.mean(0)
+        unit = Fraction(2) ** h
+        dev = tuple(float((mom.mean(i) - c) / unit) for i in range(k))
+        var = tuple(math.nan if v is None else float(v / (unit * unit)) for v in raw_var)
+    else:
+        dev = tuple(math.ldexp(d, -h) for d in mom.mean_differences(0))
+        var = tuple(math.nan if v is None else math.ldexp(float(v), -2 * h) for v in raw_var)
+    return dev, var
+
+
+# --------------------------------------------------------------------------------------------
+# Welch
+
+
+@dataclass(frozen=True)
+class _HeteroscedasticF:
+    """Fields shared by the F tests for means that allow unequal variances."""
+
+    statistic: float
+    df1: int
+    df2: float
+    p: float
+    exact: bool = False
+
+    name: ClassVar[str] = ""
+
+    def table(self) -> list[list[Any]]:
+        """Header row, then one row for the test."""
+        return [list(_HEADER_F), [self.name, self.statistic, self.df1, self.df2, self.p]]
+
+
+@dataclass(frozen=True)
+class WelchResult(_HeteroscedasticF):
+    """Welch's (1951) test of equal means without assuming equal variances.
+
+    Fields: ``statistic`` (Welch's F), ``df1 = k - 1``, ``df2`` (Welch's approximate
+    denominator degrees of freedom, usually not a whole number), ``p`` (upper tail of
+    F(df1, df2)); ``exact`` says whether the means and variances came from the decimal-exact
+    moments.
+
+    Source: Welch, B. L. (1951), *Biometrika* 38, 330–336.
+    """
+
+    name: ClassVar[str] = "Welch"
+
+
+def welch(groups: Any, *, exact: bool | None = None) -> WelchResult:
+    """Welch's heteroscedastic one-way test of equal means.
+
+    Every group needs two or more values and a non-zero variance (the test weights each group
+    by ``n_i / s_i^2``). See the module docstring for the formula.
+    """
+    g, mom = prepare_with_variances(groups, "Welch's test", exact)
+    dev, var = centred_group_stats(g, mom)
+    k = g.k
+    ns = g.counts
+    for i, label in enumerate(g.labels):
+        if mom.ss_group(i) == 0:
+            raise _zero_variance_error(label, "Welch's test")
+        if var[i] == 0:
+            raise InputError(
+                f'sheetfuncs: the variance of group "{label}" is more than 10^300 times smaller '
+                "than the largest, so Welch's weights cannot be formed; check the data's units"
+            )
+    w = [n / float(v) for n, v in zip(ns, var)]
+    big_w = math.fsum(w)
+    m_w = math.fsum(wi * d for wi, d in zip(w, dev)) / big_w
+    a = math.fsum(wi * (d - m_w) ** 2 for wi, d in zip(w, dev)) / (k - 1)
+    lam = math.fsum((1.0 - wi / big_w) ** 2 / (n - 1) for wi, n in zip(w, ns))
+    b = 1.0 + 2.0 * (k - 2) * lam / (k * k - 1)
+    f = a / b
+    df2 = (k * k - 1) / (3.0 * lam)
+    p = f_tail(f, k - 1, df2) if f > 0 else 1.0
+    return WelchResult(statistic=f, df1=k - 1, df2=df2, p=p, exact=mom.exact)
+
+
+# --------------------------------------------------------------------------------------------
+# Brown–Forsythe F* for means
+
+
+@dataclass(frozen=True)
+class BrownForsytheResult(_HeteroscedasticF):
+    """Brown & Forsythe's (1974) F* test of equal means for unequal variances.
+
+    Fields: ``statistic`` (F*), ``df1 = k - 1`` (the 1974 numerator df), ``df2``
+    (Satterthwaite's denominator df), ``p`` (upper tail of F(df1, df2)); ``exact`` says whether
+    F* and df2 were computed as exact rationals from the decimal-exact moments.
+
+    Source: Brown, M. B. & Forsythe, A. B. (1974), *Technometrics* 16, 129–132;
+    Satterthwaite, F. E. (1946), *Biometrics Bulletin* 2, 110–114.
+    """
+
+    name: ClassVar[str] = "Brown-Forsythe F*"
+
+
+def brown_forsythe(groups: Any, *, exact: bool | None = None) -> BrownForsytheResult:
+    """Brown–Forsythe F* for equal means (not the Brown–Forsythe test for variances, which is
+    :func:`sheetfuncs.assumptions.levene` with ``center="median"``).
+
+    Every group needs two or more values; single groups may have zero variance, but not all.
+    """
+    g, mom = prepare_with_variances(groups, "the Brown-Forsythe F* test", exact)
+    n_tot = g.n_total
+    ns = g.counts
+    every, each = [list(range(g.k))], [[i] for i in range(g.k)]
+    if mom.exact:
+        ssb = mom.ss_within_parts(every) - mom.ss_within_parts(each)
+        parts = [Fraction(n_tot - n, n_tot) * (mom.ss_group(i) / (n - 1)) for i, n in enumerate(ns)]
+        denom = sum(parts, Fraction(0))
+        if denom == 0:
+            raise _all_zero_error()
+        f_x = ssb / denom
+        df2_x = denom * denom / sum((c * c / (n - 1) for c, n in zip(parts, ns)), Fraction(0))
+        f, df2 = float(f_x), float(df2_x)
+    else:
+        # centred means and variances in a common unit (F* and df2 do not depend on it)
+        dev, var = centred_group_stats(g, mom)
+        parts_f = [(n_tot - n) / n_tot * v for n, v in zip(ns, var)]
+        denom_f = math.fsum(parts_f)
+        if denom_f == 0:
+            raise _all_zero_error()
+        grand = math.fsum(n * d for n, d in zip(ns, dev)) / n_tot
+        ssb_f = math.fsum(n * (d - grand) ** 2 for n, d in zip(ns, dev))
+        f = ssb_f / denom_f
+        df2 = denom_f * denom_f / math.fsum(c * c / (n - 1) for c, n in zip(parts_f, ns))
+    p = f_tail(f, g.k - 1, df2) if f > 0 else 1.0
+    return BrownForsytheResult(statistic=f, df1=g.k - 1, df2=df2, p=p, exact=mom.exact)
+
+
+def _all_zero_error() -> InputError:
+    return InputError(
+        "sheetfuncs: every group has zero variance (within each group all values are equal), so "
+        "the Brown-Forsythe F* has no within-group spread to divide by; the one-way F is "
+        "infinite here: check the measurement resolution"
+    )
+
+
+# --------------------------------------------------------------------------------------------
+# Kruskal–Wallis
+
+
+@dataclass(frozen=True)
+class KruskalResult:
+    """Kruskal–Wallis rank test of equal distributions (location shift), tie-corrected.
+
+    Fields: ``statistic`` (H, divided by the tie correction), ``df = k - 1``, ``p`` (upper tail
+    of chi-square(df), the large-sample approximation), ``rank_epsilon_squared``
+    (``H (N + 1) / (N^2 - 1)``, between 0 and 1), ``tie_correction`` (the divisor
+    ``1 - sum (t^3 - t) / (N^3 - N)``; 1 when there are no ties), ``mean_ranks`` per group.
+
+    Sources: Kruskal, W. H. & Wallis, W. A. (1952), *JASA* 47, 583–621; effect size: Tomczak, M.
+    & Tomczak, E. (2014), *Trends in Sport Sciences* 21, 19–25.
+    """
+
+    statistic: float
+    df: int
+    p: float
+    rank_epsilon_squared: float
+    tie_correction: float = 1.0
+    mean_ranks: tuple[float, ...] = ()
+
+    def table(self) -> list[list[Any]]:
+        """Header row, then one row for the test."""
+        return [
+            ["Test", "Statistic", "df", "p", "Rank epsilon squared"],
+            ["Kruskal-Wallis", self.statistic, self.df, self.p, self.rank_epsilon_squared],
+        ]
+
+
+def _twice_ranks(values: np.ndarray) -> tuple[np.ndarray, int]:
+    """Twice the average ranks (whole numbers) and ``sum (t^3 - t)`` over tie blocks."""
+    n = values.size
+    order = np.argsort(values, kind="mergesort")
+    sv = values[order]
+    new_block = np.empty(n, dtype=bool)
+    new_block[0] = True
+    np.not_equal(sv[1:], sv[:-1], out=new_block[1:])
+    starts = np.flatnonzero(new_block)
+    sizes = np.diff(np.append(starts, n))
+    # a block of t values starting at 0-based position s shares rank s + (t + 1) / 2
+    twice_block = 2 * starts.astype(np.int64) + sizes.astype(np.int64) + 1
+    twice_sorted = np.repeat(twice_block, sizes)
+    out = np.empty(n, dtype=np.int64)
+    out[order] = twice_sorted
+    t = [int(x) for x in sizes[sizes > 1].tolist()]
+    return out, sum(x * x * x - x for x in t)
+
+
+def kruskal(groups: Any) -> KruskalResult:
+    """Kruskal–Wallis H test with the tie correction; see the module docstring.
+
+    Groups of one value are allowed. All values tied (one value throughout) is an error: the
+    ranks then carry no information.
+    """
+    g = as_groups(groups)
+    require_two_groups(g)
+    allv = np.concatenate(g.arrays)
+    n_tot = int(allv.size)
+    twice, tie_sum = _twice_ranks(allv)
+    n3 = n_tot**3 - n_tot
+    if tie_sum == n3:
+        raise InputError(
+            "sheetfuncs: every value is the same, so the Kruskal-Wallis test has no ranks to "
+            "compare; check that the range holds the measurements"
+        )
+    sums: list[int] = []
+    start = 0
+    for a in g.arrays:
+        sums.append(int(twice[start : start + a.size].sum(dtype=np.int64)))
+        start += a.size
+    # sum R_i^2 / n_i with R_i = sums_i / 2
+    sr2 = sum((Fraction(s * s, 4 * n) for s, n in zip(sums, g.counts)), Fraction(0))
+    h0 = Fraction(12, n_tot * (n_tot + 1)) * sr2 - 3 * (n_tot + 1)
+    corr = 1 - Fraction(tie_sum, n3)
+    h_x = h0 / corr
+    if h_x < 0:  # cannot happen in exact arithmetic; a guard against misuse
+        h_x = Fraction(0)
+    h = float(h_x)
+    df = g.k - 1
+    p = float(stats.chi2.sf(h, df)) if h > 0 else 1.0
+    eps = float(h_x * (n_tot + 1) / (n_tot * n_tot - 1))
+    mean_ranks = tuple(s / (2.0 * n) for s, n in zip(sums, g.counts))
+    return KruskalResult(
+        statistic=h, df=df, p=p, rank_epsilon_squared=eps, tie_correction=float(corr),
+        mean_ranks=mean_ranks,
+    )

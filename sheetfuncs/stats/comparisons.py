@@ -1,0 +1,463 @@
+"""Pairwise comparisons of group means after a one-way analysis, and many-to-one comparisons.
+
+For groups ``a`` and ``b`` with means ``m_a``, ``m_b`` and sizes ``n_a``, ``n_b`` the
+difference is ``d = m_a - m_b``. The pooled methods use the one-way model's mean square error
+``MSE`` and its residual degrees of freedom ``df = N - k``, with ``SE = sqrt(MSE (1/n_a + 1/n_b))``.
+
+Methods and their published sources:
+
+``tukey``
+    Tukey-Kramer (Tukey 1953; Kramer 1956, *Biometrics* 12, 307-310): ``q = |d| / (SE/sqrt 2)``
+    is referred to the studentized range of ``k`` means with ``df`` degrees of freedom; the
+    intervals ``d +/- q(alpha; k, df)/sqrt 2 * SE`` are simultaneous at ``1 - alpha`` (exactly
+    for equal sizes, conservatively otherwise: Hayter 1984, *Ann. Statist.* 12, 61-75).
+``games-howell``
+    Games & Howell (1976, *J. Educ. Statist.* 1, 113-125): each pair uses its own variances,
+    ``SE = sqrt(s_a^2/n_a + s_b^2/n_b)``, and Welch's degrees of freedom
+    ``(v_a + v_b)^2 / (v_a^2/(n_a - 1) + v_b^2/(n_b - 1))`` with ``v = s^2/n``, in the
+    studentized range of ``k`` means. Intervals are approximate.
+``bonferroni``, ``holm``, ``sidak``
+    Unadjusted two-sided t tests ``t = d/SE`` on ``df``, adjusted for ``m = k(k-1)/2`` pairs:
+    Bonferroni ``min(1, m p)``; Holm (1979, *Scand. J. Statist.* 6, 65-70) step-down
+    ``max_{j <= i} min(1, (m - j + 1) p_(j))``; Šidák (1967, *JASA* 62, 626-633)
+    ``1 - (1 - p)^m``. Intervals: ``d +/- t(alpha/(2m); df) SE`` (Bonferroni; also shown on the
+    Holm rows, since Holm's step-down has no matching intervals) and
+    ``d +/- t((1 - (1 - alpha)^(1/m))/2; df) SE`` (Šidák).
+``scheffe``
+    Scheffé (1953, *Biometrika* 40, 87-104): ``F = t^2 / (k - 1)`` on ``(k - 1, df)``;
+    intervals ``d +/- sqrt((k - 1) F(alpha; k - 1, df)) SE``, simultaneous over all contrasts.
+``dunnett`` (function :func:`dunnett`)
+    Dunnett (1955, *JASA* 50, 1096-1121): each treatment against one control, ``t = d/SE`` and
+    the two-sided maximum of the ``m`` statistics, a multivariate t with correlations
+    ``l_i l_j``, ``l_i = sqrt(n_i / (n_i + n_0))``, integrated by our own deterministic
+    quadrature (:mod:`sheetfuncs.mvt`).
+
+Adjusted p-values never exceed 1 and ``differs`` is ``p < alpha``. When the groups have no
+within-group variation at all (``MSE = 0``) a pair with different means has an infinite
+statistic and ``p = 0``, and a pair with equal means has statistic 0 and ``p = 1``.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Any
+
+from scipy import stats
+
+from ..errors import InputError
+from ..distributions.f import f_critical, f_tail
+from ..input.groups import Groups, as_groups, format_label
+from .moments import TOO_LARGE, ExactMoments, FloatMoments, compute_moments, rounded
+from ..distributions.mvt import (
+    many_to_one_critical, many_to_one_tails, range_critical, range_criticals, range_tails,
+)
+from .oneway import oneway_from_moments, require_two_groups
+from ..input.options import check_alpha, shown
+
+__all__ = ["METHODS", "PairRow", "PairwiseResult", "pairwise", "dunnett", "parse_method"]
+
+#: The pairwise methods, in the order the documentation lists them.
+METHODS = ("tukey", "games-howell", "bonferroni", "holm", "sidak", "scheffe")
+
+_ALIASES = {
+    "tukey": "tukey", "tukey-kramer": "tukey", "tukeykramer": "tukey", "hsd": "tukey",
+    "tukey-hsd": "tukey",
+    "games-howell": "games-howell", "gameshowell": "games-howell", "gh": "games-howell",
+    "bonferroni": "bonferroni", "bonf": "bonferroni",
+    "holm": "holm", "holm-bonferroni": "holm",
+    "sidak": "sidak", "šidák": "sidak", "šidak": "sidak", "sidák": "sidak",
+    "scheffe": "scheffe", "scheffé": "scheffe",
+}
+
+_NAMES = {
+    "tukey": "Tukey–Kramer", "games-howell": "Games–Howell", "bonferroni": "Bonferroni",
+    "holm": "Holm", "sidak": "Šidák", "scheffe": "Scheffé", "dunnett": "Dunnett",
+}
+
+_STATISTIC = {
+    "tukey": "q", "games-howell": "q", "bonferroni": "t", "holm": "t", "sidak": "t",
+    "scheffe": "F", "dunnett": "t",
+}
+
+_SQRT2 = math.sqrt(2.0)
+
+_NO_VARIATION = (
+    "there is no variation within the groups, so every difference between different means is "
+    "infinitely many standard errors; check that the data are measurements"
+)
+
+
+def parse_method(method: Any) -> str:
+    """The canonical method name, or an :class:`InputError` that lists the methods."""
+    if isinstance(method, str):
+        key = method.strip().lower().replace("_", "-").replace(" ", "-").replace("–", "-")
+        if key in _ALIASES:
+            return _ALIASES[key]
+        if key == "dunnett":
+            raise InputError(
+                "sheetfuncs: \"dunnett\" compares treatments with one control; use the dunnett "
+                "function (SF_DUNNETT) with the control's label, or choose one of the pairwise "
+                "methods: " + ", ".join(f'"{m}"' for m in METHODS)
+            )
+    raise InputError(
+        f"sheetfuncs: unknown comparison method {shown(method)}; use one of "
+        + ", ".join(f'"{m}"' for m in METHODS)
+    )
+
+
+def _percent(alpha: float) -> str:
+    return f"{100.0 * (1.0 - alpha):.10g}%"
+
+
+def _interval_label(method: str, alpha: float) -> str:
+    pct = _percent(alpha)
+    if method == "holm":
+        return f"Bonferroni {pct} (Holm rows)"
+    if method == "games-howell":
+        return f"approximate {pct} (Games–Howell)"
+    return f"simultaneous {pct}"
+
+
+@dataclass(frozen=True)
+class PairRow:
+    """One comparison.
+
+    ``difference = mean(group_a) - mean(group_b)``; ``se`` its standard error; ``ci_low`` and
+    ``ci_high`` the interval for it (see the result's ``interval``); ``statistic`` the method's
+    test statistic (``q``, ``t`` or ``F``, see the result's ``statistic_name``); ``p`` the
+    adjusted p-value (at most 1); ``differs`` is ``p < alpha``.
+    """
+
+    group_a: str
+    group_b: str
+    difference: float
+    se: float
+    ci_low: float
+    ci_high: float
+    statistic: float
+    p: float
+    differs: bool
+
+    def cells(self) -> list[Any]:
+        """The row as table cells."""
+        return [
+            self.group_a, self.group_b, self.difference, self.se, self.ci_low, self.ci_high,
+            self.statistic, self.p, self.differs,
+        ]
+
+
+@dataclass(frozen=True)
+class PairwiseResult:
+    """Pairwise (or many-to-one) comparisons of group means.
+
+    ``method``: ``tukey``, ``games-howell``, ``bonferroni``, ``holm``, ``sidak``, ``scheffe``
+    or ``dunnett``; ``method_name`` the method's published name; ``alpha`` the significance
+    level; ``rows`` one :class:`PairRow` per comparison (every unordered pair once, in group
+    order; for Dunnett one row per treatment against the control); ``interval`` a short label
+    of what the intervals are; ``statistic_name`` ``q`` (studentized range), ``t`` or ``F``;
+    ``labels``, ``counts``, ``means`` of the groups; ``mse`` and ``df`` the pooled mean square
+    error and residual degrees of freedom (``None`` for Games–Howell, which uses each pair's own
+    variances); ``row_df`` the degrees of freedom behind each row; ``multipliers`` the factor
+    that turns each row's SE into its interval half-width (for q-based methods ``q/sqrt 2``);
+    ``control`` the control's label (Dunnett only); ``exact`` whether means and sums of squares
+    came from the decimal-exact path; ``notes`` plain-words remarks.
+    """
+
+    method: str
+    alpha: float
+    rows: tuple[PairRow, ...]
+    interval: str
+    statistic_name: str
+    method_name: str
+    labels: tuple[str, ...]
+    counts: tuple[int, ...]
+    means: tuple[float, ...]
+    mse: float | None
+    df: float | None
+    row_df: tuple[float, ...]
+    multipliers: tuple[float, ...]
+    exact: bool
+    control: str | None = None
+    notes: tuple[str, ...] = ()
+
+    def header(self) -> list[str]:
+        """The table's header row; the interval label is part of the CI column names."""
+        return [
+            "Group A", "Group B", "Difference", "SE", f"CI low ({self.interval})",
+            f"CI high ({self.interval})", self.statistic_name, "p", "Differs",
+        ]
+
+    def table(self) -> list[list[Any]]:
+        """Header row, then one row per comparison (spill layout)."""
+        return [self.header()] + [r.cells() for r in self.rows]
+
+    def pair(self, a: str, b: str) -> PairRow:
+        """The row comparing groups ``a`` and ``b`` (in either order as stored)."""
+        for r in self.rows:
+            if (r.group_a, r.group_b) in ((a, b), (b, a)):
+                return r
+        raise KeyError((a, b))
+
+    def differing_pairs(self) -> tuple[tuple[str, str], ...]:
+        """The pairs that the method separates (``p < alpha``)."""
+        return tuple((r.group_a, r.group_b) for r in self.rows if r.differs)
+
+
+# --------------------------------------------------------------------------------------------
+# shared pieces
+
+
+def _difference(mom: ExactMoments | FloatMoments, a: int, b: int) -> float:
+    """``mean(a) - mean(b)``: exact then rounded once, or from the shifted float means."""
+    if mom.exact:
+        return float(mom.mean(a) - mom.mean(b))
+    d = mom.deviations()
+    return d[a] - d[b]
+
+
+def _pooled(g: Groups, mom: ExactMoments | FloatMoments) -> tuple[float, int, Fraction | None]:
+    """``(MSE, df, exact MSE or None)`` of the one-way model (its checks included)."""
+    ow = oneway_from_moments(g, mom)
+    if ow.exact and ow.ss_within_exact is not None:
+        mse_x = ow.ss_within_exact / ow.df_within
+        return float(mse_x), ow.df_within, mse_x
+    return ow.ms_within, ow.df_within, None
+
+
+def _se(mse: float, mse_x: Fraction | None, na: int, nb: int) -> float:
+    if mse_x is not None:
+        return math.sqrt(float(mse_x * Fraction(na + nb, na * nb)))
+    return math.sqrt(mse * (1.0 / na + 1.0 / nb))
+
+
+def _se_table(mse: float, mse_x: Fraction | None) -> Callable[[int, int], float]:
+    """:func:`_se` for one family, each pair of group sizes computed once."""
+    seen: dict[tuple[int, int], float] = {}
+
+    def se(na: int, nb: int) -> float:
+        key = (na, nb) if na <= nb else (nb, na)
+        if key not in seen:
+            seen[key] = _se(mse, mse_x, na, nb)
+        return seen[key]
+
+    return se
+
+
+def _ratio(d: float, se: float) -> float:
+    """``d / se`` with the degenerate cases of no variation answered (see module notes)."""
+    if se > 0.0:
+        return d / se
+    if d == 0.0:
+        return 0.0
+    return math.copysign(math.inf, d)
+
+
+def _t_two_sided(t: float, df: float) -> float:
+    if math.isinf(t):
+        return 0.0
+    return min(1.0, float(2.0 * stats.t.sf(abs(t), df)))
+
+
+def _holm(raw: list[float]) -> list[float]:
+    """Holm's step-down adjusted p-values, in the order given."""
+    m = len(raw)
+    order = sorted(range(m), key=lambda i: raw[i])
+    out = [0.0] * m
+    running = 0.0
+    for rank, i in enumerate(order):
+        running = max(running, min(1.0, (m - rank) * raw[i]))
+        out[i] = running
+    return out
+
+
+def _check_variances(g: Groups, mom: ExactMoments | FloatMoments, method: str) -> list[float]:
+    """Each group's variance (n - 1), with the messages for groups that have none."""
+    out = []
+    counts = g.counts
+    for i, lab in enumerate(g.labels):
+        n = counts[i]
+        if n < 2:
+            raise InputError(
+                f'sheetfuncs: group "{lab}" has only one value; {method} uses each group\'s own '
+                'variance, so every group needs at least two values (or use a pooled method '
+                'such as "tukey")'
+            )
+        ss = mom.ss_group(i)
+        if ss == 0:
+            raise InputError(
+                f'sheetfuncs: group "{lab}" has zero variance (all its values are equal); '
+                f"{method} divides by each group's own variance, so it cannot be used here; "
+                'use a pooled method such as "tukey", or check the measurement resolution'
+            )
+        var = rounded(Fraction(ss) / (n - 1)) if mom.exact else float(ss) / (n - 1)
+        if not math.isfinite(var):
+            raise InputError(TOO_LARGE)
+        out.append(var)
+    return out
+
+
+def _prepare(groups: Any, alpha: Any) -> tuple[Groups, float, ExactMoments | FloatMoments]:
+    g = as_groups(groups)
+    require_two_groups(g)
+    a = check_alpha(alpha)
+    return g, a, compute_moments(g, None)
+
+
+def _means(g: Groups, mom: ExactMoments | FloatMoments) -> tuple[float, ...]:
+    return tuple(float(mom.mean(i)) for i in range(g.k))
+
+
+# --------------------------------------------------------------------------------------------
+# pairwise
+
+
+def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> PairwiseResult:
+    """Compare every pair of group means.
+
+    ``groups`` is anything :func:`sheetfuncs.as_groups` accepts; ``method`` one of
+    :data:`METHODS` (``tukey`` = Tukey–Kramer, ``games-howell``, ``bonferroni``, ``holm``,
+    ``sidak``, ``scheffe``); ``alpha`` the familywise significance level. The formulas and their
+    published sources are listed in the module documentation.
+    """
+    meth = parse_method(method)
+    g, a, mom = _prepare(groups, alpha)
+    k = g.k
+    counts = g.counts
+    pairs = [(i, j) for i in range(k) for j in range(i + 1, k)]
+    m = len(pairs)
+    diffs = [_difference(mom, i, j) for i, j in pairs]
+    notes: list[str] = []
+
+    if meth == "games-howell":
+        var = _check_variances(g, mom, "Games–Howell")
+        ses, row_df, stat = [], [], []
+        for (i, j), d in zip(pairs, diffs):
+            va, vb = var[i] / counts[i], var[j] / counts[j]
+            ses.append(math.sqrt(va + vb))
+            row_df.append(
+                (va + vb) ** 2 / (va * va / (counts[i] - 1) + vb * vb / (counts[j] - 1))
+            )
+            stat.append(abs(_ratio(d, ses[-1])) * _SQRT2)
+        # one call each: the tails of all pairs, and one critical value per distinct Welch df
+        ps = range_tails(stat, k, row_df).tolist()
+        distinct = sorted(set(row_df))
+        crit = dict(zip(distinct, (range_criticals(a, k, distinct) / _SQRT2).tolist()))
+        mults = [crit[v] for v in row_df]
+        rows = [
+            _row(g, i, j, d, se, mult, q, p, a)
+            for (i, j), d, se, mult, q, p in zip(pairs, diffs, ses, mults, stat, ps)
+        ]
+        return _result(g, mom, meth, a, rows, None, None, row_df, mults, notes)
+
+    mse, df, mse_x = _pooled(g, mom)
+    if mse == 0.0:
+        notes.append(_NO_VARIATION)
+    se_of = _se_table(mse, mse_x)
+    ses = [se_of(counts[i], counts[j]) for i, j in pairs]
+    ts = [_ratio(d, se) for d, se in zip(diffs, ses)]
+
+    if meth == "tukey":
+        stat = [abs(t) * _SQRT2 for t in ts]
+        ps = range_tails(stat, k, df).tolist()  # one call shares the work between the pairs
+        mult = range_critical(a, k, df) / _SQRT2  # one value for the whole family
+        if len(set(counts)) > 1:
+            notes.append(
+                "group sizes differ: the Tukey–Kramer intervals are conservative (their joint "
+                "coverage is at least the stated level)"
+            )
+    elif meth == "scheffe":
+        stat = [t * t / (k - 1) for t in ts]
+        ps = [0.0 if math.isinf(f) else f_tail(f, k - 1, df) for f in stat]
+        mult = math.sqrt((k - 1) * f_critical(a, k - 1, df))
+    else:
+        stat = ts
+        raw = [_t_two_sided(t, df) for t in ts]
+        if meth == "bonferroni":
+            ps = [min(1.0, m * p) for p in raw]
+        elif meth == "holm":
+            ps = _holm(raw)
+        else:  # sidak
+            ps = [min(1.0, -math.expm1(m * math.log1p(-p))) if p < 1.0 else 1.0 for p in raw]
+        if meth == "sidak":
+            per = -math.expm1(math.log1p(-a) / m)
+        else:
+            per = a / m
+        mult = float(stats.t.isf(per / 2.0, df))
+    rows = [
+        _row(g, i, j, d, se, mult, s, p, a)
+        for (i, j), d, se, s, p in zip(pairs, diffs, ses, stat, ps)
+    ]
+    return _result(g, mom, meth, a, rows, mse, float(df), [float(df)] * m, [mult] * m, notes)
+
+
+def _row(g: Groups, i: int, j: int, d: float, se: float, mult: float, stat: float, p: float,
+         alpha: float) -> PairRow:
+    half = mult * se
+    p = min(1.0, max(0.0, float(p)))
+    return PairRow(
+        group_a=g.labels[i], group_b=g.labels[j], difference=d, se=se, ci_low=d - half,
+        ci_high=d + half, statistic=float(stat), p=p, differs=bool(p < alpha),
+    )
+
+
+def _result(g, mom, meth, a, rows, mse, df, row_df, mults, notes, control=None) -> PairwiseResult:
+    return PairwiseResult(
+        method=meth, alpha=a, rows=tuple(rows), interval=_interval_label(meth, a),
+        statistic_name=_STATISTIC[meth], method_name=_NAMES[meth], labels=g.labels,
+        counts=g.counts, means=_means(g, mom), mse=mse, df=df, row_df=tuple(row_df),
+        multipliers=tuple(mults), exact=mom.exact, control=control, notes=tuple(notes),
+    )
+
+
+# --------------------------------------------------------------------------------------------
+# many-to-one
+
+
+def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
+    """Compare every treatment group with one control group (Dunnett 1955, two-sided).
+
+    ``control`` is the control group's label (numbers are matched by their shortest form, so
+    ``3`` finds the group labelled ``3``). Rows follow the group order, without the control:
+    ``group_a`` is the treatment, ``group_b`` the control, ``difference`` = treatment mean minus
+    control mean. p-values and the simultaneous critical value come from the many-to-one
+    multivariate t distribution, computed by deterministic quadrature of Dunnett's
+    one-dimensional reduction (see :mod:`sheetfuncs.mvt`), not by random sampling.
+    """
+    g = as_groups(groups)
+    require_two_groups(g)
+    lab = format_label(control) if control is not None else ""
+    if lab == "":
+        raise InputError(
+            "sheetfuncs: no control group given; give the label of the group the others are "
+            "compared with"
+        )
+    if lab not in g.labels:
+        shown = ", ".join(f'"{x}"' for x in g.labels[:12]) + (", ..." if g.k > 12 else "")
+        raise InputError(
+            f'sheetfuncs: the control "{lab}" is not one of the groups ({shown}); give the '
+            "control's label exactly as it appears"
+        )
+    a = check_alpha(alpha)
+    mom = compute_moments(g, None)
+    c = g.labels.index(lab)
+    mse, df, mse_x = _pooled(g, mom)
+    notes: list[str] = []
+    if mse == 0.0:
+        notes.append(_NO_VARIATION)
+    treat = [i for i in range(g.k) if i != c]
+    counts = g.counts
+    n0 = counts[c]
+    lam = [math.sqrt(counts[i] / (counts[i] + n0)) for i in treat]
+    crit = many_to_one_critical(a, lam, df)
+    ds = [_difference(mom, i, c) for i in treat]
+    se_of = _se_table(mse, mse_x)
+    ses = [se_of(counts[i], n0) for i in treat]
+    ts = [_ratio(d, se) for d, se in zip(ds, ses)]
+    ps = many_to_one_tails([abs(t) for t in ts], lam, df).tolist()  # inf gives 0
+    rows = [_row(g, i, c, d, se, crit, t, p, a) for i, d, se, t, p in zip(treat, ds, ses, ts, ps)]
+    m = len(treat)
+    return _result(g, mom, "dunnett", a, rows, mse, float(df), [float(df)] * m, [crit] * m,
+                   notes, control=lab)

@@ -1,0 +1,475 @@
+"""Per-group moments, computed exactly for the decimal value of every cell, or accurately in floats.
+
+Decimal-exact path
+    Every value is read as its shortest round-trip decimal. When each of those has at most 15
+    significant digits (anything typed into a spreadsheet does), every value equals
+    ``N_i / 10**D`` for integers ``N_i`` and one scale ``D``. The integers are centred by one
+    integer offset ``c`` and the counts, sums ``S = sum(N_i - c)`` and sums of squares
+    ``Q = sum((N_i - c)**2)`` are accumulated exactly: int64 in chunks short enough that no sum
+    can overflow, Python integers for the totals (and for chunks whose values are too wide for
+    int64 squares). Sums of squares are then exact rationals, rounded once at the end.
+
+    The scaling is vectorised. For a value ``x`` and scale ``10**D`` (``D <= 22``, so the power
+    is exact), ``r = rint(x * 10**D)`` is accepted when the correctly rounded quotient
+    ``r / 10**D`` gives back ``x`` and ``r`` has at most 15 significant digits: then
+    ``r * 10**-D`` is a decimal of at most 15 digits that rounds to ``x``, and such a decimal
+    is unique (DBL_DIG = 15), so it is the shortest round-trip decimal. Values that fail this
+    check are read one by one through ``repr`` (exact), which also settles whether the exact
+    path applies at all.
+
+Floating-point path
+    Per group, the corrected-sum form (Chan, Golub & LeVeque 1983) about a shift ``t`` near the
+    mean: ``M2 = sum((x - t)**2) - (sum(x - t))**2 / n``. ``t`` is the mean of an evenly spaced
+    sample, and a second pass about the computed mean (the classical two-pass algorithm)
+    follows whenever that sample missed the mean by more than half a standard deviation, so
+    the error stays within a few units of rounding of the two-pass result.
+"""
+
+from __future__ import annotations
+
+import decimal
+import math
+from dataclasses import dataclass
+from fractions import Fraction
+from collections.abc import Sequence
+
+import numpy as np
+
+from ..errors import InputError
+from ..input.groups import Groups
+
+__all__ = [
+    "ExactMoments", "FloatMoments", "compute_moments", "decimal_parts", "check_ss_range",
+    "check_float_zero_spread",
+]
+
+_CHUNK = 32768
+_TWO53 = 9007199254740992.0
+_TWO53_INT = 1 << 53
+_INT64_MAX = (1 << 63) - 1
+_SAMPLE_PER_GROUP = 64
+MAX_DIGITS = 15
+
+
+def rounded(x: Fraction | float) -> float:
+    """``x`` rounded once to the nearest double; ``+-inf`` beyond the largest one."""
+    try:
+        return float(x)
+    except OverflowError:
+        return math.inf if x > 0 else -math.inf
+
+
+def decimal_parts(x: float) -> tuple[int, int, int]:
+    """``(integer, exponent, significant digits)`` of the shortest round-trip decimal of x."""
+    d = decimal.Decimal(repr(float(x)))
+    if d == 0:
+        return 0, 0, 1
+    sign, digits, exp = d.as_tuple()
+    # strip trailing zeros
+    n = len(digits)
+    while n > 1 and digits[n - 1] == 0:
+        n -= 1
+        exp += 1
+    mant = int("".join(map(str, digits[:n])))
+    return (-mant if sign else mant), int(exp), n
+
+
+@dataclass(frozen=True)
+class ExactMoments:
+    """Exact integer moments: value ``= (offset + m) / 10**scale`` for the centred integers m."""
+
+    scale: int
+    offset: int
+    n: tuple[int, ...]
+    s: tuple[int, ...]
+    q: tuple[int, ...]
+
+    exact = True
+
+    @property
+    def denom(self) -> int:
+        return 10 ** self.scale
+
+    def mean(self, g: int) -> Fraction:
+        return (self.offset + Fraction(self.s[g], self.n[g])) / self.denom
+
+    def means(self) -> tuple[Fraction, ...]:
+        return tuple(self.mean(g) for g in range(len(self.n)))
+
+    def mean_differences(self, ref: int = 0) -> tuple[Fraction, ...]:
+        """``mean(g) - mean(ref)`` for every group, exactly."""
+        return tuple(
+            Fraction(self.s[g] * self.n[ref] - self.s[ref] * self.n[g], self.n[g] * self.n[ref])
+            / self.denom
+            for g in range(len(self.n))
+        )
+
+    def ss_within_parts(self, parts: Sequence[Sequence[int]]) -> Fraction:
+        """Sum of squares about the part means, the groups of each part sharing one mean."""
+        total = Fraction(0)
+        for p in parts:
+            n = sum(self.n[g] for g in p)
+            s = sum(self.s[g] for g in p)
+            q = sum(self.q[g] for g in p)
+            total += q - Fraction(s * s, n)
+        return total / (self.denom * self.denom)
+
+    def ss_group(self, g: int) -> Fraction:
+        return self.ss_within_parts([[g]])
+
+
+@dataclass(frozen=True)
+class FloatMoments:
+    """Floating-point moments: count, mean and sum of squared deviations per group.
+
+    ``mean_`` holds the group means; ``dev`` holds the same means minus one common ``shift``
+    (a double near the data), accurate to the last bits even when the data share many leading
+    digits, so that differences between means (and the between-group sum of squares) keep
+    their accuracy where ``mean_[i] - mean_[j]`` would cancel.
+    """
+
+    n: tuple[int, ...]
+    mean_: tuple[float, ...]
+    m2: tuple[float, ...]
+    shift: float = 0.0
+    dev: tuple[float, ...] | None = None
+
+    exact = False
+
+    def means(self) -> tuple[float, ...]:
+        return self.mean_
+
+    def mean(self, g: int) -> float:
+        return self.mean_[g]
+
+    def deviations(self) -> tuple[float, ...]:
+        """Group means minus :attr:`shift`, accurate (see the class docstring)."""
+        if self.dev is not None:
+            return self.dev
+        return tuple(m - self.shift for m in self.mean_)
+
+    def mean_differences(self, ref: int = 0) -> tuple[float, ...]:
+        """``mean(g) - mean(ref)`` for every group, without cancellation."""
+        d = self.deviations()
+        return tuple(x - d[ref] for x in d)
+
+    def ss_within_parts(self, parts: Sequence[Sequence[int]]) -> float:
+        """Sum of squares about the part means, the groups of each part sharing one mean."""
+        d = self.deviations()
+        total = 0.0
+        for p in parts:
+            n = sum(self.n[g] for g in p)
+            m = math.fsum(self.n[g] * d[g] for g in p) / n
+            terms = [self.m2[g] for g in p] + [self.n[g] * ((d[g] - m) * (d[g] - m)) for g in p]
+            total += math.fsum(terms) if all(map(math.isfinite, terms)) else math.inf
+        return total
+
+    def ss_group(self, g: int) -> float:
+        return self.m2[g]
+
+
+# --------------------------------------------------------------------------------------------
+# sums of squares a double can carry
+
+TOO_LARGE = (
+    "sheetfuncs: the values are too large for double-precision sums of squares (they exceed "
+    "about 1e300); rescale the data, e.g. express them in larger units"
+)
+TOO_SMALL = (
+    "sheetfuncs: the values differ by too little for double-precision sums of squares (below "
+    "about 1e-290); rescale the data, e.g. express them in smaller units"
+)
+
+#: Sums of squares outside this range cannot be shown (or computed in floats) to full precision.
+_SS_MAX = 1e300
+_SS_MIN = 1e-290
+
+
+def check_ss_range(ss: Fraction | float) -> None:
+    """An :class:`InputError` when a sum of squares is beyond what a double can carry.
+
+    Values near 1e155 or more make sums of squares overflow the largest double (1.8e308);
+    values that differ by less than about 1e-145 make them underflow. Both are asked to be
+    rescaled rather than answered with an overflowed or underflowed number.
+    """
+    v = ss if isinstance(ss, Fraction) else float(ss)
+    if isinstance(v, float) and (math.isnan(v) or math.isinf(v)) or v > _SS_MAX:
+        raise InputError(TOO_LARGE)
+    if 0 < v < _SS_MIN:
+        raise InputError(TOO_SMALL)
+
+
+def check_float_zero_spread(g: Groups, ss: float, within: bool) -> None:
+    """On the floating-point path, a zero sum of squares must be a real zero, not underflow.
+
+    ``within=True`` checks that every group is constant, ``False`` that all values are equal.
+    """
+    if ss != 0:
+        return
+    arrays = [a for a in g.arrays if a.size]
+    if within:
+        real = all(float(a.min()) == float(a.max()) for a in arrays)
+    else:
+        first = float(arrays[0][0])
+        real = all(float(a.min()) == first == float(a.max()) for a in arrays)
+    if not real:
+        raise InputError(TOO_SMALL)
+
+
+# --------------------------------------------------------------------------------------------
+
+
+def _shifted_sums(a: np.ndarray, c: float, buf: np.ndarray) -> tuple[float, float]:
+    """``sum(x - c)`` and ``sum((x - c)**2)``, chunk by chunk in cache, pairwise within chunks."""
+    s1: list[float] = []
+    s2: list[float] = []
+    with np.errstate(over="ignore", invalid="ignore"):
+        for i in range(0, a.size, _CHUNK):
+            x = a[i : i + _CHUNK]
+            d = buf[: x.size]
+            np.subtract(x, c, out=d)
+            s1.append(float(d.sum()))
+            np.multiply(d, d, out=d)
+            s2.append(float(d.sum()))
+    if not (all(map(math.isfinite, s2)) and all(map(math.isfinite, s1))):
+        # squares beyond the double range: the analyses see inf and say so (check_ss_range)
+        return (math.nan if not all(map(math.isfinite, s1)) else math.fsum(s1)), math.inf
+    return math.fsum(s1), math.fsum(s2)
+
+
+def _float_moments(arrays: Sequence[np.ndarray]) -> FloatMoments:
+    """Floating-point moments (see :func:`_float_moments_impl`); overflow shows as inf in the
+    moments, and the analyses turn it into a message (:func:`check_ss_range`)."""
+    with np.errstate(over="ignore", invalid="ignore"):
+        return _float_moments_impl(arrays)
+
+
+def _float_moments_impl(arrays: Sequence[np.ndarray]) -> FloatMoments:
+    """Per group, the corrected sums about a shift ``t`` near the mean (Chan, Golub & LeVeque 1983):
+    ``e = x - t``, mean ``= t + sum(e)/n``, ``M2 = sum(e^2) - sum(e)^2/n``.
+
+    ``t`` is first the mean of an evenly spaced sample of the group, which saves a pass over the
+    data. The corrected sum leaves an error of about ``(1 + (mean - t)^2 / var)`` units of
+    rounding; when the sample mean misses by more than half a standard deviation
+    (``sum(e)^2/n > M2/4``) a second pass about the computed mean follows: the classical
+    two-pass algorithm. The distance of each group mean from the common shift (the first
+    group's ``t``) is ``(t - shift) + sum(e)/n``, where ``t - shift`` is exact for nearby doubles
+    (Sterbenz' lemma), so differences between group means lose nothing to shared leading digits.
+    """
+    ns, means, m2s, devs = [], [], [], []
+    shift = None
+    buf = np.empty(min(max((a.size for a in arrays), default=1), _CHUNK))
+    for a in arrays:
+        n = a.size
+        step = max(1, n // _SAMPLE_PER_GROUP)
+        t = float(np.mean(a[::step]))
+        s1, s2 = _shifted_sums(a, t, buf)
+        m2 = s2 - s1 * s1 / n
+        if s1 * s1 / n > 0.25 * m2:
+            t = t + s1 / n  # the sample missed the mean: sum again about the mean itself
+            s1, s2 = _shifted_sums(a, t, buf)
+            m2 = s2 - s1 * s1 / n
+        if shift is None:
+            shift = t
+        ns.append(int(n))
+        means.append(t + s1 / n)
+        devs.append((t - shift) + s1 / n)
+        m2s.append(max(m2, 0.0))
+    return FloatMoments(tuple(ns), tuple(means), tuple(m2s), float(shift or 0.0), tuple(devs))
+
+
+class _NotExact(Exception):
+    def __init__(self, value: float, group: int, digits: int) -> None:
+        super().__init__(value)
+        self.value, self.group, self.digits = value, group, digits
+
+
+def _sample(arrays: Sequence[np.ndarray]) -> list[tuple[int, float]]:
+    out = []
+    for g, a in enumerate(arrays):
+        step = max(1, a.size // _SAMPLE_PER_GROUP)
+        for v in a[::step][:_SAMPLE_PER_GROUP].tolist():
+            out.append((g, v))
+        if a.size:
+            out.append((g, float(a[-1])))
+    return out
+
+
+def _blocked_sum(v: np.ndarray, block: int) -> int:
+    """Exact sum of an int64 array whose every run of ``block`` values sums without overflow."""
+    n = v.size
+    if n <= block:
+        return int(v.sum())
+    full = n - n % block
+    parts = v[:full].reshape(-1, block).sum(axis=1)  # each partial sum fits in int64
+    return sum(parts.tolist()) + int(v[full:].sum())
+
+
+def _exact_sums(r: np.ndarray, offset: int, hi: float, lo: float) -> tuple[int, int]:
+    """Exact ``sum(r - offset)`` and ``sum((r - offset)**2)`` of integer-valued floats.
+
+    ``r`` holds integers below 2**53 in size, ``hi``/``lo`` its extremes, and ``r`` may be
+    overwritten. While every partial sum stays below 2**53 the sums run in float64 (then
+    float addition is exact). Otherwise each centred integer is split as ``m = a * 2**h + b``
+    with ``0 <= b < 2**h`` and ``|a|`` of about the same size, so that ``a*a``, ``a*b`` and
+    ``b*b`` fit comfortably in int64; they are summed in int64 blocks short enough never to
+    overflow and combined in Python integers: ``sum m^2 = 4**h sum a^2 + 2**(h+1) sum ab +
+    sum b^2``.
+    """
+    big = int(max(hi - offset, offset - lo, 0.0)) + 2  # a safe bound on |r - offset|
+    n = r.size
+    if n * big * big < _TWO53_INT:
+        # exact in float64: every value, square and partial sum is an integer below 2**53.
+        # (Elementwise square and sum rather than a BLAS dot, which may spin up threads.)
+        np.subtract(r, offset, out=r)
+        s = int(r.sum())
+        np.multiply(r, r, out=r)
+        return s, int(r.sum())
+    m = r.astype(np.int64)
+    m -= offset
+    h = max(1, (big.bit_length() + 1) // 2)
+    a = m >> h                      # floor division by 2**h
+    b = m - (a << h)                # 0 <= b < 2**h
+    top = max(int(abs(a).max()) if a.size else 0, 1 << h)
+    block = max(1, _INT64_MAX // (top * top))
+    s = (_blocked_sum(a, block) << h) + _blocked_sum(b, block)
+    ab = a * b
+    np.multiply(a, a, out=a)
+    np.multiply(b, b, out=b)
+    q = (_blocked_sum(a, block) << (2 * h)) + (_blocked_sum(ab, block) << (h + 1)) + _blocked_sum(b, block)
+    return s, q
+
+
+#: The largest scale ``D`` for which ``10.0**D`` is exact (and the vectorised check applies).
+_MAX_VECTOR_SCALE = 22
+
+
+def _sample_scale(values: np.ndarray) -> tuple[int, np.ndarray] | None:
+    """The scale of the sampled values and their scaled integers, in a few vectorised passes.
+
+    The smallest ``D <= 22`` at which every value passes the check of the module docstring
+    (``r = rint(x * 10**D)`` has at most 15 digits and ``r / 10**D == x``) is the largest
+    number of decimals among the values' shortest round-trip decimals: a value that passes at
+    ``D`` is ``r * 10**-D`` exactly, so its shortest decimal has at most ``D`` decimals, and a
+    value with ``s <= D`` decimals and at most 15 digits passes at ``D`` as long as
+    ``r < 10**15``. ``None`` when no ``D`` works (a wide or long value, or more than 22
+    decimals): the caller then reads the sample one value at a time.
+    """
+    for d in range(_MAX_VECTOR_SCALE + 1):
+        p = 10.0**d
+        r = np.rint(values * p)
+        if not (np.abs(r) < 1e15).all():
+            return None  # a larger D only makes the scaled values wider
+        if (r / p == values).all():
+            return d, r
+    return None
+
+
+def _exact_moments(arrays: Sequence[np.ndarray]) -> ExactMoments:
+    sample = _sample(arrays)
+    found = _sample_scale(np.array([v for _, v in sample], dtype=np.float64))
+    if found is not None:
+        scale, scaled = found
+        ints = sorted(map(int, scaled.tolist()))
+        offset = ints[len(ints) // 2] if ints else 0
+    else:  # one value at a time, through its shortest round-trip decimal
+        parts = []
+        for g, v in sample:
+            mant, exp, nd = decimal_parts(v)
+            if nd > MAX_DIGITS:
+                raise _NotExact(v, g, nd)
+            parts.append((mant, exp))
+        scale = max(0, max(-e for _, e in parts))
+        if scale > _MAX_VECTOR_SCALE:
+            # values with more than 22 decimals cannot be scaled in floats; scale the others
+            # (if any) to theirs, and the main loop reads these few one by one as leftovers
+            scale = max((-e for _, e in parts if -e <= _MAX_VECTOR_SCALE), default=scale)
+        offset = 0
+        if scale <= _MAX_VECTOR_SCALE:
+            ints = sorted(m * 10 ** (e + scale) for m, e in parts if -e <= scale)
+            offset = ints[len(ints) // 2]
+            if abs(offset) >= 2**53:
+                offset = 0
+    vector = scale <= _MAX_VECTOR_SCALE
+    ns: list[int] = []
+    ss: list[int] = []
+    qs: list[int] = []
+    fallbacks: list[list[float]] = []
+    p10 = 10.0**scale if vector else 1.0
+    for g, a in enumerate(arrays):
+        s_tot = 0
+        q_tot = 0
+        fb: list[float] = []
+        if not vector:
+            fb = a.tolist()
+        else:
+            for i in range(0, a.size, _CHUNK):
+                x = a[i : i + _CHUNK]
+                r = x * p10
+                np.rint(r, out=r)
+                ok = r / p10 == x
+                hi, lo = float(r.max()), float(r.min())
+                if max(hi, -lo) >= 1e15:
+                    # 16-digit scaled values are exact only with trailing zeros
+                    ar = np.abs(r)
+                    ok &= (ar < 1e15) | ((ar < _TWO53) & (np.fmod(r, 10.0) == 0.0))
+                if not ok.all():
+                    fb.extend(x[~ok].tolist())
+                    r = r[ok]
+                    if r.size == 0:
+                        continue
+                    hi, lo = float(r.max()), float(r.min())
+                s, q = _exact_sums(r, offset, hi, lo)
+                s_tot += s
+                q_tot += q
+        ns.append(int(a.size))
+        ss.append(s_tot)
+        qs.append(q_tot)
+        fallbacks.append(fb)
+
+    # values the vectorised check could not settle: read them one by one
+    if any(fallbacks):
+        decoded: list[list[tuple[int, int]]] = []
+        new_scale = scale if vector else 0
+        for g, fb in enumerate(fallbacks):
+            row = []
+            for v in fb:
+                mant, exp, nd = decimal_parts(v)
+                if nd > MAX_DIGITS:
+                    raise _NotExact(v, g, nd)
+                row.append((mant, exp))
+                new_scale = max(new_scale, -exp)
+            decoded.append(row)
+        grow = 10 ** (new_scale - scale) if vector else 1
+        offset *= grow
+        for g, row in enumerate(decoded):
+            s_tot = ss[g] * grow
+            q_tot = qs[g] * grow * grow
+            for mant, exp in row:
+                v = mant * 10 ** (exp + new_scale) - offset
+                s_tot += v
+                q_tot += v * v
+            ss[g], qs[g] = s_tot, q_tot
+        scale = new_scale
+    return ExactMoments(scale, offset, tuple(ns), tuple(ss), tuple(qs))
+
+
+def compute_moments(groups: Groups, exact: bool | None = None) -> ExactMoments | FloatMoments:
+    """Moments of every group: decimal-exact when possible (``exact=None``), demanded
+    (``exact=True``, an :class:`InputError` when impossible) or floating point (``False``)."""
+    if exact is not None and not isinstance(exact, (bool, np.bool_)):
+        raise InputError(
+            f"sheetfuncs: exact must be None (automatic), True or False, not {exact!r}"
+        )
+    if exact is False:
+        return _float_moments(groups.arrays)
+    try:
+        return _exact_moments(groups.arrays)
+    except _NotExact as e:
+        if exact:
+            raise InputError(
+                f"sheetfuncs: the exact path needs every value to have at most {MAX_DIGITS} "
+                f"significant digits, but {e.value!r} in group \"{groups.labels[e.group]}\" has "
+                f"{e.digits}; round the data or use exact=False"
+            ) from None
+        return _float_moments(groups.arrays)

@@ -1,0 +1,162 @@
+"""The report in a real spreadsheet program: LibreOffice recalculates the Audit sheet.
+
+``soffice --headless --convert-to xlsx`` opens each report, computes every formula and saves the
+results; openpyxl (``data_only=True``) reads them back. The Audit figures (the host's own COUNT,
+SUMIF, SUMPRODUCT, DEVSQ and F.DIST.RT over the Data sheets) must equal the Python values to
+1e-9 relative (p-values: 1e-9 relative or 1e-12 absolute, whichever is looser; a figure that is
+exactly 0 in Python, such as SS between for equal group means, is compared at the scale of the
+analysis, as the Audit sheet's own check does), on the built-in demo, on NIST StRD SmLs09 (13
+constant leading digits; certified values from NIST), on every Findings scenario of
+tests/test_report.py, on an infinite-F report and on an equal-means report. All reports are
+recalculated in ONE LibreOffice call (it accepts many files), and the demo and the
+unequal-spreads scenario are rendered to PDF and PNG in a second one, to keep the run short.
+"""
+
+from __future__ import annotations
+
+import math
+
+import openpyxl
+import pytest
+
+from tests.support import libreoffice as lo
+from tests.support import nist
+from sheetfuncs import as_groups, oneway
+from sheetfuncs.input.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
+from sheetfuncs.report import write_report
+from tests.report.test_writer import CLEAR, EQUAL_MEANS, NONE, UNEQUAL
+
+NAMES = ("ss_between", "ss_within", "df_between", "df_within", "f_ratio", "p_value")
+
+# invented: cure time (min) of three ovens, each with one slow outlier (the rank-test scenario
+# of tests/test_report.py)
+OVENS = {"Oven 1": [5.1, 5.2, 5.0, 5.3, 5.1, 5.2, 5.0, 7.9],
+         "Oven 2": [5.6, 5.5, 5.7, 5.6, 5.4, 5.5, 5.7, 8.3],
+         "Oven 3": [5.2, 5.1, 5.3, 5.2, 5.0, 5.3, 5.1, 8.0]}
+# invented: no variation within groups, so F is infinite (written as the text "infinite")
+INFINITE = {"a": [1.0, 1.0, 1.0], "b": [2.0, 2.0, 2.0], "c": [3.0]}
+SPLIT = {"=SUM(A1)": [10.2, 10.4, 10.1, 10.3], "+1": [10.8, 10.9, 10.7, 11.0],
+         "-x": [10.0, 10.2, 10.1, 9.9], "@y": [10.5, 10.3, 10.6, 10.4],
+         "lot a": [10.1, 10.0, 10.3], "lot A": [10.6, 10.4, 10.5]}
+
+
+def _value(wb, name):
+    (sheet, coord), = list(wb.defined_names[name].destinations)
+    return wb[sheet][coord.replace("$", "")].value
+
+
+def _expected(res):
+    return {"ss_between": res.ss_between, "ss_within": res.ss_within, "df_between": res.df_between,
+            "df_within": res.df_within, "f_ratio": res.f, "p_value": res.p}
+
+
+def _agrees(got, want, name, res):
+    """The Audit sheet's own rule: 1e-9 relative, with an absolute floor at the scale of the
+    analysis for figures near 0 (SS total for sums of squares, 1e-9 for F, 1e-12 for p)."""
+    if isinstance(want, float) and math.isinf(want):
+        assert got == "infinite", f"{name}: LibreOffice {got!r}, Python {want!r}"
+        return
+    assert isinstance(got, (int, float)) and not isinstance(got, bool), f"{name}: {got!r}"
+    floor = {"ss_between": 1e-9 * res.ss_total, "ss_within": 1e-9 * res.ss_total,
+             "f_ratio": 1e-9, "p_value": 1e-12}.get(name, 0.0)
+    tol = max(1e-9 * abs(want), floor)
+    assert abs(got - want) <= tol, f"{name}: LibreOffice {got!r}, Python {want!r}"
+
+
+def _checks(wb):
+    return [c.value for (c,) in wb["Audit"].iter_rows(min_col=5, max_col=5) if c.value in ("agrees", "differs")]
+
+
+def _errors(wb):
+    return [(ws.title, c.coordinate, c.value) for ws in wb.worksheets for row in ws.iter_rows()
+            for c in row if isinstance(c.value, str) and c.value.startswith("#")]
+
+
+@pytest.fixture(scope="module")
+def batch(tmp_path_factory):
+    """Every report of this module, recalculated by LibreOffice in one call."""
+    lo.require_office()
+    tmp = tmp_path_factory.mktemp("lo-batch")
+    ds = nist.load("SmLs09")
+    cases = {
+        "demo": (demo_groups(), dict(factor=DEMO_FACTOR, response=DEMO_RESPONSE, unit=DEMO_UNIT,
+                                     title=DEMO_TITLE, control="Zone 1")),
+        "smls09": (as_groups(ds.groups), dict(factor="Treatment", response="Value")),
+        "split": (as_groups(SPLIT), dict(_row_limit=6)),  # Data over five sheets
+        "clear": (as_groups(CLEAR), dict(factor="Filling line", response="fill weight", unit="g")),
+        "none": (as_groups(NONE), dict(factor="Lot", response="assay")),
+        "unequal": (as_groups(UNEQUAL), dict(factor="Supplier", response="bore diameter", unit="mm")),
+        "ovens": (as_groups(OVENS), dict(factor="Oven", response="cure time")),
+        "infinite": (as_groups(INFINITE), {}),
+        "equal": (as_groups(EQUAL_MEANS), dict(factor="Filling head", response="fill weight")),
+    }
+    srcs = {name: write_report(g, tmp / f"{name}.xlsx", **kw) for name, (g, kw) in cases.items()}
+    outs = lo.convert_many(list(srcs.values()), "xlsx", tmp / "recalculated")
+    books = {name: openpyxl.load_workbook(out, data_only=True) for name, out in zip(srcs, outs)}
+    return {name: (cases[name][0], srcs[name], books[name]) for name in cases}, ds, tmp
+
+
+@pytest.mark.parametrize("name", ["demo", "smls09", "split", "clear", "none", "unequal", "ovens",
+                                  "infinite", "equal"])
+def test_audit_recalculated_by_libreoffice_equals_python(batch, name):
+    reports, _, _ = batch
+    g, _, wb = reports[name]
+    res = oneway(g)
+    want = _expected(res)
+    for key in NAMES:
+        _agrees(_value(wb, "audit_" + key), want[key], key, res)
+        _agrees(_value(wb, key), want[key], key, res)  # Tables survive the round trip too
+    checks = _checks(wb)
+    assert len(checks) == 11 and set(checks) == {"agrees"}, checks  # the sheet's own verdict
+    assert _errors(wb) == []  # no #NAME?, #VALUE!, #DIV/0! anywhere after recalculation
+
+
+def test_equal_means_recalculate_to_rounding_noise_and_still_agree(batch):
+    reports, _, _ = batch
+    g, _, wb = reports["equal"]
+    assert oneway(g).ss_between == 0 and _value(wb, "ss_between") == 0
+    assert abs(_value(wb, "audit_ss_between")) <= 1e-9 * oneway(g).ss_total
+
+
+def test_smls09_audit_equals_the_certified_values(batch):
+    reports, ds, _ = batch
+    _, _, wb = reports["smls09"]
+    cert = ds.certified  # NIST StRD SmLs09 certified values
+    assert _value(wb, "audit_ss_between") == pytest.approx(cert.ss_between, rel=1e-9)
+    assert _value(wb, "audit_ss_within") == pytest.approx(cert.ss_within, rel=1e-9)
+    assert _value(wb, "audit_f_ratio") == pytest.approx(cert.f, rel=1e-9)
+    assert _value(wb, "audit_df_within") == cert.df_within
+
+
+def test_split_data_sheets_and_text_labels_in_libreoffice(batch):
+    reports, _, _ = batch
+    g, _, wb = reports["split"]
+    # 22 values, 5 per sheet below a header row
+    assert [n for n in wb.sheetnames if n.startswith("Data")] == ["Data", "Data 2", "Data 3", "Data 4", "Data 5"]
+    labels = [wb["Groups"].cell(5 + i, 1).value for i in range(g.k)]
+    assert labels == list(g.labels)  # still the text, never evaluated as formulas
+    data_labels = {r[0] for ws in wb.worksheets if ws.title.startswith("Data")
+                   for r in ws.iter_rows(min_row=2, min_col=2, max_col=2, values_only=True) if r[0]}
+    assert data_labels == set(g.labels)
+    findings = " ".join(str(c.value) for row in wb["Findings"].iter_rows() for c in row if c.value)
+    assert "Possible typo" in findings
+
+
+def test_infinite_f_stays_a_word_after_recalculation(batch):
+    reports, _, _ = batch
+    _, _, wb = reports["infinite"]
+    assert _value(wb, "f_ratio") == "infinite" and _value(wb, "audit_f_ratio") == "infinite"
+    assert _value(wb, "audit_p_value") == 0
+
+
+def test_reports_render_to_pdf_and_png(batch):
+    reports, _, tmp = batch
+    srcs = [reports["demo"][1], reports["unequal"][1]]
+    pdfs = lo.convert_many(srcs, "pdf", tmp / "pdf")
+    for pdf in pdfs:
+        assert pdf.stat().st_size > 20_000
+        assert pdf.read_bytes()[:5] == b"%PDF-"
+        pages = lo.render_png(pdf, tmp / "png" / pdf.stem, first=1, last=2, dpi=50)
+        assert len(pages) == 2
+        for p in pages:
+            assert p.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n" and p.stat().st_size > 10_000

@@ -1,0 +1,183 @@
+"""Power, sample size, detectable effect and plans (sheetfuncs.planning)."""
+
+from __future__ import annotations
+
+
+import mpmath
+import numpy as np
+import pytest
+from scipy import special, stats
+
+from sheetfuncs import InputError
+from sheetfuncs.stats.planning import (
+    PATNAIK_FROM,
+    detectable_effect,
+    ncf_cdf,
+    ncf_sf,
+    plan,
+    power,
+    sample_size,
+)
+
+
+def _mp_ncf_sf(x: float, d1: float, d2: float, lam: float) -> float:
+    """P(F' > x) as the Poisson mixture of central tails (Johnson, Kotz & Balakrishnan 1995,
+    *Continuous Univariate Distributions* 2, ch. 30), summed with mpmath at 40 digits."""
+    with mpmath.workdps(40):
+        x, d1, d2, half = mpmath.mpf(x), mpmath.mpf(d1), mpmath.mpf(d2), mpmath.mpf(lam) / 2
+        w = d2 / (d2 + d1 * x)  # tail of F(d1 + 2j, d2) at x is I_w(d2/2, d1/2 + j)
+        total = mpmath.mpf(0)
+        j = 0
+        weight = mpmath.exp(-half)
+        while True:
+            term = weight * mpmath.betainc(d2 / 2, d1 / 2 + j, 0, w, regularized=True)
+            total += term
+            if j > half and weight < mpmath.mpf(10) ** -45:
+                break
+            j += 1
+            weight *= half / j
+        return float(total)
+
+
+@pytest.mark.parametrize(
+    "x,d1,d2,lam",
+    [(2.7, 3, 36, 11.25), (8.0, 2, 12, 0.5), (40.0, 4, 20, 3.0), (1.2, 1, 100, 60.0), (3.0, 9, 90, 120.0)],
+)
+def test_ncf_tails_against_mpmath(x, d1, d2, lam):
+    # reference library: mpmath (Poisson-mixture series, 40 digits)
+    ref = _mp_ncf_sf(x, d1, d2, lam)
+    assert ncf_sf(x, d1, d2, lam) == pytest.approx(ref, rel=1e-9)
+    assert ncf_cdf(x, d1, d2, lam) == pytest.approx(1.0 - ref, rel=1e-9, abs=1e-15)
+
+
+def test_far_upper_tail_is_relative_accurate():
+    # reference library: mpmath; a survival function keeps relative accuracy where 1 - cdf is 0
+    ref = _mp_ncf_sf(400.0, 3, 40, 2.0)
+    assert ref < 1e-20
+    assert ncf_sf(400.0, 3, 40, 2.0) == pytest.approx(ref, rel=1e-8)
+
+
+def test_zero_noncentrality_is_the_central_f():
+    # reference library: scipy.stats.f (scipy 1.17's ncf.sf is wrong exactly at nc = 0)
+    assert ncf_sf(2.5, 3, 36, 0.0) == pytest.approx(stats.f.sf(2.5, 3, 36), rel=1e-13)
+    assert ncf_cdf(2.5, 3, 36, 0.0) == pytest.approx(stats.f.cdf(2.5, 3, 36), rel=1e-13)
+
+
+@pytest.mark.parametrize("d1,d2", [(1, 2), (3, 36), (9, 1000), (4, 50000)])
+def test_patnaik_branch_joins_the_series_at_the_switch(d1, d2):
+    # reference library: scipy.special.ncfdtr just above the switch point, where it is slow but exact
+    lam = PATNAIK_FROM * 1.5
+    for x in np.linspace(0.8, 1.2, 5) * (d1 + lam) / d1:
+        assert ncf_cdf(float(x), d1, d2, lam) == pytest.approx(
+            float(special.ncfdtr(d1, d2, lam, x)), abs=1e-9
+        )
+
+
+def test_power_at_cohen_medium_effect():
+    # from memory: Cohen (1988) ch. 8 power table (u = 3, alpha = .05), n = 45, f = .25 -> power .80
+    assert round(power(4, 45, 0.25), 2) == 0.80
+    assert power(4, 44, 0.25) < 0.80 <= power(4, 45, 0.25)
+
+
+def test_power_is_alpha_without_effect_and_one_for_a_huge_one():
+    # common practice: power tends to alpha as f -> 0 and to 1 as f grows
+    assert power(3, 10, 1e-9, alpha=0.05) == pytest.approx(0.05, rel=1e-9)
+    assert power(3, 10, 50.0) == 1.0
+
+
+def test_power_grows_with_n_and_f():
+    ps = [power(4, n, 0.3) for n in range(2, 40)]
+    assert all(a < b for a, b in zip(ps, ps[1:]))
+    ps = [power(4, 10, f) for f in np.linspace(0.05, 1.5, 30)]
+    assert all(a < b for a, b in zip(ps, ps[1:]))
+
+
+@pytest.mark.parametrize("k,f,target,alpha", [(4, 0.25, 0.8, 0.05), (3, 0.4, 0.9, 0.01), (6, 0.1, 0.8, 0.05), (2, 1.3, 0.95, 0.05)])
+def test_sample_size_is_the_smallest_sufficient_n(k, f, target, alpha):
+    n = sample_size(k, f, target, alpha)
+    assert power(k, n, f, alpha) >= target
+    if n > 2:
+        assert power(k, n - 1, f, alpha) < target
+
+
+def test_sample_size_two_when_already_enough():
+    assert sample_size(3, 5.0, 0.8) == 2
+
+
+def test_tiny_effect_plans_stay_fast_and_finite():
+    # lambda stays near 10 while n grows huge; the search must not hang
+    n = sample_size(4, 1e-5, 0.8)
+    assert 2.0e10 < n < 4.0e10
+    assert power(4, n, 1e-5) >= 0.8 > power(4, n - 1, 1e-5)
+
+
+def test_too_small_effect_is_a_clear_error():
+    with pytest.raises(InputError, match="too small to plan for"):
+        sample_size(4, 1e-9, 0.8)
+
+
+@pytest.mark.parametrize("k,n,target,alpha", [(4, 45, 0.8, 0.05), (2, 10, 0.5, 0.1), (8, 3, 0.99, 0.001), (3, 200, 0.8, 0.05)])
+def test_detectable_effect_inverts_power(k, n, target, alpha):
+    f = detectable_effect(k, n, target, alpha)
+    assert power(k, n, f, alpha) == pytest.approx(target, abs=1e-11)
+
+
+@pytest.mark.parametrize(
+    "call,match",
+    [
+        (lambda: power(1, 10, 0.25), "k \\(the number of groups\\) must be a whole number of at least 2"),
+        (lambda: power(2.5, 10, 0.25), "whole number"),
+        (lambda: power(3, 1, 0.25), "n \\(values per group\\) must be a whole number of at least 2"),
+        (lambda: power(3, 7.5, 0.25), "whole number"),
+        (lambda: power(3, True, 0.25), "must be a number"),
+        (lambda: power(3, 10, 0), "effect size f must be greater than 0"),
+        (lambda: power(3, 10, -0.2), "effect size f must be greater than 0"),
+        (lambda: power(3, 10, float("nan")), "finite number"),
+        (lambda: power(3, 10, 0.25, alpha=0), "alpha must lie strictly between 0 and 1"),
+        (lambda: power(3, 10, 0.25, alpha=1.0), "alpha"),
+        (lambda: power(3, 10, 0.25, alpha="5%"), "alpha must be a number"),
+        (lambda: sample_size(3, 0.25, power=1.0), "power must lie strictly between 0 and 1"),
+        (lambda: sample_size(3, 0.25, power=0), "power must lie strictly between 0 and 1"),
+        (lambda: sample_size(3, 0.25, power=0.04), "must be greater than alpha"),
+        (lambda: detectable_effect(3, 10, power=1.2), "power must lie strictly between 0 and 1"),
+        (lambda: detectable_effect(3, 10, power=0.05, alpha=0.05), "must be greater than alpha"),
+        (lambda: detectable_effect(3, 1), "n \\(values per group\\)"),
+        (lambda: plan(3, n=10), "exactly two of"),
+        (lambda: plan(3, n=10, f=0.3, power=0.8), "exactly two of"),
+    ],
+)
+def test_bad_input_is_one_clear_line(call, match):
+    with pytest.raises(InputError, match=match) as info:
+        call()
+    msg = str(info.value)
+    assert msg.startswith("sheetfuncs: ") and "\n" not in msg
+
+
+def test_whole_numbers_may_arrive_as_floats():
+    # a spreadsheet passes every number as a float
+    assert power(4.0, 45.0, 0.25) == power(4, 45, 0.25)
+    assert isinstance(sample_size(4.0, 0.25), int)
+
+
+def test_plan_solves_each_unknown():
+    p = plan(4, f=0.25, power=0.8)
+    assert p.solved_for == "n" and p.n == sample_size(4, 0.25) and p.target_power == 0.8
+    assert p.power == pytest.approx(power(4, p.n, 0.25))
+    assert (p.df1, p.df2, p.total_n) == (3, 4 * (p.n - 1), 4 * p.n)
+    assert p.noncentrality == pytest.approx(4 * p.n * 0.0625)
+    q = plan(4, n=20, power=0.9)
+    assert q.solved_for == "f" and q.f == pytest.approx(detectable_effect(4, 20, 0.9))
+    r = plan(4, n=20, f=0.3)
+    assert r.solved_for == "power" and r.power == pytest.approx(power(4, 20, 0.3))
+    assert r.target_power is None
+
+
+def test_plan_table_layout():
+    t = plan(4, f=0.25, power=0.8).table()
+    assert t[0] == ["Quantity", "Value", "Note"]
+    names = [row[0] for row in t[1:]]
+    assert names[:3] == ["Groups", "Values per group", "Total values"]
+    assert all(len(row) == 3 for row in t)
+    by = {row[0]: row for row in t[1:]}
+    assert by["Values per group"][2] == "solved for"
+    assert by["Critical F"][1] == pytest.approx(stats.f.isf(0.05, 3, 176), rel=1e-12)  # scipy.stats.f
