@@ -1,4 +1,4 @@
-"""sheetfuncs: exact one-way analysis of variance for spreadsheet users.
+"""sheetfuncs, exact one-way analysis of variance for spreadsheet users.
 
 The core is pure functions on numbers returning frozen result objects; the worksheet functions
 (:mod:`sheetfuncs.udfs`, the only module that imports xlwings), the report writer

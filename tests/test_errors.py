@@ -23,9 +23,31 @@ def message_of(fn, *args, **kwargs) -> str:
 
 def test_input_error_is_a_value_error_with_cells():
     assert issubclass(InputError, ValueError)
-    err = InputError("sheetfuncs: x", cells=((1, 2),))
+    err = InputError("x", cells=((1, 2),))
     assert err.cells == ((1, 2),)
-    assert InputError("sheetfuncs: y").cells == ()
+    assert InputError("y").cells == ()
+
+
+def test_input_error_carries_the_prefix_and_the_bare_reason():
+    # common practice for the product's messages: the prefix is added once, by InputError
+    err = InputError('group "Head 3" has no numbers')
+    assert str(err) == 'sheetfuncs: group "Head 3" has no numbers'
+    assert err.reason == 'group "Head 3" has no numbers'
+    assert sf.errors.message("  two\n lines ") == "sheetfuncs: two lines"
+
+
+def test_no_message_in_the_package_types_the_prefix():
+    # the prefix lives in errors.py only: a message written with it would show it twice
+    import ast
+    from pathlib import Path
+
+    root = Path(sf.__file__).parent
+    for path in root.rglob("*.py"):
+        if path.name == "errors.py" and path.parent == root:
+            continue
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            if isinstance(node, ast.Constant) and isinstance(node.value, str):
+                assert not node.value.startswith("sheetfuncs: "), f"{path}: {node.value[:60]!r}"
 
 
 def test_fewer_than_two_groups():

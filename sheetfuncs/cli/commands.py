@@ -21,7 +21,7 @@ from fractions import Fraction
 from pathlib import Path
 from typing import Any, TextIO
 
-from ..errors import InputError
+from ..errors import InputError, message
 from ..input.files.reader import DEFAULT_SIZE_LIMIT, LoadedGroups, read_groups, workbook_properties
 from ..input.source import InputSource
 
@@ -49,8 +49,8 @@ class _Parser(argparse.ArgumentParser):
     """argparse with usage errors as two short lines: the command's usage, then one line that
     says what is wrong (with a hint for values that start with a minus sign)."""
 
-    def error(self, message: str) -> None:  # type: ignore[override]
-        text = " ".join(str(message).split())
+    def error(self, problem: str) -> None:  # type: ignore[override]
+        text = " ".join(str(problem).split())
         opt = re.match(r"argument (-\w|--[\w-]+)(?:/(--[\w-]+))?: expected one argument", text)
         if opt:
             name = opt.group(2) or opt.group(1)
@@ -58,7 +58,7 @@ class _Parser(argparse.ArgumentParser):
         cmd = self.prog[len("sheetfuncs"):].strip()
         where = f"{cmd}: " if cmd else ""
         self.print_usage(sys.stderr)
-        self.exit(2, f"sheetfuncs: {where}{text} (see: {self.prog} --help)\n")
+        self.exit(2, message(f"{where}{text} (see: {self.prog} --help)") + "\n")
 
 
 # --------------------------------------------------------------------------------------------
@@ -331,7 +331,7 @@ class _Progress:
             self.stream.write("\r" + text[:100].ljust(100))
             self._dirty = True
         else:
-            self.stream.write("sheetfuncs: " + text + "\n")
+            self.stream.write(message(text) + "\n")
         self.stream.flush()
 
     def finish(self) -> None:
@@ -345,23 +345,15 @@ class _Progress:
 # helpers
 
 
-def _one_line(msg: str) -> str:
-    text = " ".join(str(msg).split())
-    return text if text.startswith("sheetfuncs:") else f"sheetfuncs: {text}"
-
-
-def _with_file(msg: str, name: str) -> str:
+def _with_file(reason: str, name: str) -> str:
     """Name the file in a message that does not already name it (for batches)."""
-    text = _one_line(msg)
-    if name in text:
-        return text
-    return f"sheetfuncs: {name}: {text[len('sheetfuncs: '):]}"
+    return message(reason if name in reason else f"{name}: {reason}")
 
 
-def _os_message(e: OSError, what: str | os.PathLike[str] | None = None) -> str:
+def _os_reason(e: OSError, what: str | os.PathLike[str] | None = None) -> str:
     where = e.filename if e.filename is not None else what
     reason = e.strerror or str(e) or type(e).__name__
-    return _one_line(f"{where}: {reason}" if where is not None else reason)
+    return f"{where}: {reason}" if where is not None else reason
 
 
 def _read_kwargs(args: argparse.Namespace) -> dict[str, Any]:
@@ -437,7 +429,7 @@ def _cmd_report(args: argparse.Namespace) -> int:
     if args.out_dir is not None:
         folder = Path(args.out_dir)
         if folder.exists() and not folder.is_dir():
-            raise InputError(f"sheetfuncs: {folder} exists and is not a folder; choose another")
+            raise InputError(f"{folder} exists and is not a folder; choose another")
         folder.mkdir(parents=True, exist_ok=True)
     inputs = [inp for inp, _ in pairs]
     prog = _Progress(args.progress, sys.stderr, batch=len(pairs))
@@ -449,11 +441,11 @@ def _cmd_report(args: argparse.Namespace) -> int:
         except InputError as e:
             failures += 1
             prog.finish()
-            print(_with_file(str(e), inp.name), file=sys.stderr)
+            print(_with_file(e.reason, inp.name), file=sys.stderr)
         except OSError as e:
             failures += 1
             prog.finish()
-            print(_with_file(_os_message(e), inp.name), file=sys.stderr)
+            print(_with_file(_os_reason(e), inp.name), file=sys.stderr)
         else:
             prog.finish()
             print(f"wrote {out}")
@@ -464,19 +456,19 @@ def _report_one(args, inp: Path, out: Path, inputs: Sequence[Path], prog: _Progr
     for other in inputs:
         if _same_file(out, other):
             raise InputError(
-                f"sheetfuncs: the report {out} would overwrite the input {other}; choose "
+                f"the report {out} would overwrite the input {other}; choose "
                 "another output name"
             )
     if not out.parent.exists():
         raise InputError(
-            f"sheetfuncs: the folder {out.parent} does not exist; create it or choose another "
+            f"the folder {out.parent} does not exist; create it or choose another "
             "output"
         )
     if out.is_dir():
-        raise InputError(f"sheetfuncs: {out} is a folder; give the report a file name (.xlsx)")
+        raise InputError(f"{out} is a folder; give the report a file name (.xlsx)")
     if out.exists() and not args.force:
         raise InputError(
-            f"sheetfuncs: {out} already exists and is kept; add --force to replace it"
+            f"{out} already exists and is kept; add --force to replace it"
         )
     loaded = read_groups(inp, progress=prog, **_read_kwargs(args))
     prog.consider_size(loaded.groups.n_total)
@@ -498,15 +490,15 @@ def _cmd_demo(args: argparse.Namespace) -> int:
     out = Path(args.output)
     _check_xlsx_name(out)
     if out.is_dir():
-        raise InputError(f"sheetfuncs: {out} is a folder; give a file name such as demo.xlsx")
+        raise InputError(f"{out} is a folder; give a file name such as demo.xlsx")
     if not out.parent.exists():
         raise InputError(
-            f"sheetfuncs: the folder {out.parent} does not exist; create it or choose another "
+            f"the folder {out.parent} does not exist; create it or choose another "
             "output"
         )
     if (out.exists() or out.is_symlink()) and not args.force and not _replaceable_demo(out):
         raise InputError(
-            f"sheetfuncs: {out} already exists and is not a sheetfuncs demo report, so it is "
+            f"{out} already exists and is not a sheetfuncs demo report, so it is "
             "kept; choose another name with -o, or add --force to replace it"
         )
     prog = _Progress(args.progress, sys.stderr)
@@ -836,11 +828,11 @@ def main(argv: Sequence[str] | None = None) -> int:
             return done.code if isinstance(done.code, int) else 2
         return 2
     except InputError as e:
-        print(_one_line(str(e)), file=sys.stderr)
+        print(message(e.reason), file=sys.stderr)
         return 1
     except OSError as e:
-        print(_os_message(e), file=sys.stderr)
+        print(message(_os_reason(e)), file=sys.stderr)
         return 1
     except KeyboardInterrupt:
-        print("sheetfuncs: interrupted", file=sys.stderr)
+        print(message("interrupted"), file=sys.stderr)
         return 130

@@ -47,9 +47,9 @@ def check_df(df1: float, df2: float) -> tuple[float, float]:
     for name, v in (("df1", df1), ("df2", df2)):
         f = as_real(v)
         if f is None:
-            raise InputError(f"sheetfuncs: {name} must be a number, not {shown(v)}")
+            raise InputError(f"{name} must be a number, not {shown(v)}")
         if not (math.isfinite(f) and f > 0):
-            raise InputError(f"sheetfuncs: {name} must be a positive number, not {shown(v)}")
+            raise InputError(f"{name} must be a positive number, not {shown(v)}")
         out.append(f)
     return out[0], out[1]
 
@@ -178,9 +178,9 @@ def f_tail(x: float, df1: float, df2: float) -> float:
     d1, d2 = check_df(df1, df2)
     xv = as_real(x)
     if xv is None:
-        raise InputError(f"sheetfuncs: the F value must be a number, not {shown(x)}")
+        raise InputError(f"the F value must be a number, not {shown(x)}")
     if math.isnan(xv):
-        raise InputError("sheetfuncs: the F value is not a number (NaN)")
+        raise InputError("the F value is not a number (NaN)")
     if xv <= 0:
         return 1.0
     if math.isinf(xv):

@@ -135,9 +135,9 @@ def _check_df(df: float) -> float:
     try:
         v = float(df)
     except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: degrees of freedom must be a number, not {df!r}") from None
+        raise InputError(f"degrees of freedom must be a number, not {df!r}") from None
     if math.isnan(v) or v <= 0:
-        raise InputError(f"sheetfuncs: degrees of freedom must be positive, not {df!r}")
+        raise InputError(f"degrees of freedom must be positive, not {df!r}")
     return v
 
 
@@ -172,7 +172,7 @@ def _scale_mixture(tail: Callable[[float], float], c: float, df: float) -> float
     if val > 1e-290 and err > 1e-7 * val:
         # never seen on the tested range of arguments; a wrong number must not pass silently
         raise ArithmeticError(
-            f"sheetfuncs: the quadrature did not converge (c={c!r}, df={df!r}, estimate {val!r} "
+            f"the quadrature did not converge (c={c!r}, df={df!r}, estimate {val!r} "
             f"+/- {err!r}); please report this case"
         )
     return min(1.0, max(0.0, val))
@@ -203,14 +203,14 @@ def _solve(tail: Callable[[float], float], alpha: float, lo: float, hi: float) -
 def _check_alpha(alpha: float) -> float:
     a = float(alpha)
     if not (0.0 < a < 1.0):
-        raise InputError(f"sheetfuncs: alpha must lie strictly between 0 and 1, not {alpha!r}")
+        raise InputError(f"alpha must lie strictly between 0 and 1, not {alpha!r}")
     return a
 
 
 def _check_k(k: int) -> int:
     kk = int(k)
     if kk != k or kk < 2:
-        raise InputError(f"sheetfuncs: the studentized range needs k >= 2 means, not {k!r}")
+        raise InputError(f"the studentized range needs k >= 2 means, not {k!r}")
     return kk
 
 
@@ -218,7 +218,7 @@ def _check_values(values: Any, what: str) -> np.ndarray:
     """A 1-D float array of statistics; NaN is refused."""
     out = np.array([float(v) for v in np.ravel(np.asarray(values, dtype=object))], dtype=float)
     if np.isnan(out).any():
-        raise InputError(f"sheetfuncs: the {what} is not a number (NaN)")
+        raise InputError(f"the {what} is not a number (NaN)")
     return out
 
 
@@ -229,7 +229,7 @@ def _check_dfs(df: Any, size: int) -> np.ndarray:
         return np.full(size, vals[0])
     if len(vals) != size:
         raise InputError(
-            f"sheetfuncs: {len(vals)} degrees of freedom were given for {size} statistics; give "
+            f"{len(vals)} degrees of freedom were given for {size} statistics; give "
             "one value, or one per statistic"
         )
     return np.array(vals, dtype=float)
@@ -564,7 +564,7 @@ def range_tail(q: float, k: int, df: float) -> float:
     d = _check_df(df)
     qv = float(q)
     if math.isnan(qv):
-        raise InputError("sheetfuncs: the studentized range value is not a number (NaN)")
+        raise InputError("the studentized range value is not a number (NaN)")
     return float(_tails(np.array([qv]), np.array([d]), _range_family(kk))[0])
 
 
@@ -596,9 +596,9 @@ def range_critical(alpha: float, k: int, df: float) -> float:
 def _check_lambdas(lambdas: Sequence[float]) -> tuple[np.ndarray, np.ndarray]:
     lam = np.asarray([float(v) for v in lambdas], dtype=np.float64)
     if lam.size < 1:
-        raise InputError("sheetfuncs: the many-to-one distribution needs at least one comparison")
+        raise InputError("the many-to-one distribution needs at least one comparison")
     if not np.all((lam >= 0.0) & (lam < 1.0)):
-        raise InputError("sheetfuncs: correlation factors must lie in [0, 1)")
+        raise InputError("correlation factors must lie in [0, 1)")
     return lam, np.sqrt((1.0 - lam) * (1.0 + lam))
 
 
@@ -691,7 +691,7 @@ def many_to_one_tail(c: float, lambdas: Sequence[float], df: float) -> float:
     d = _check_df(df)
     cv = float(c)
     if math.isnan(cv):
-        raise InputError("sheetfuncs: the many-to-one statistic is not a number (NaN)")
+        raise InputError("the many-to-one statistic is not a number (NaN)")
     return float(_tails(np.array([abs(cv)]), np.array([d]), fam)[0])
 
 

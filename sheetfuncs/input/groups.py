@@ -110,7 +110,7 @@ class Groups:
     def __post_init__(self) -> None:
         if len(self.labels) != len(self.arrays):
             raise InputError(
-                f"sheetfuncs: {len(self.labels)} labels for {len(self.arrays)} groups; "
+                f"{len(self.labels)} labels for {len(self.arrays)} groups; "
                 "give one label per group"
             )
         # a Groups built by hand gets the same guarantees as one built by the cleaning step
@@ -120,7 +120,7 @@ class Groups:
                 a = _numbers(a, str(lab))
             if a.size == 0:
                 raise InputError(
-                    f'sheetfuncs: group "{lab}" has no numbers; give it values or leave it out'
+                    f'group "{lab}" has no numbers; give it values or leave it out'
                 )
             if not np.isfinite(a).all():
                 i = int(np.flatnonzero(~np.isfinite(a))[0])
@@ -258,7 +258,7 @@ def _classify(v: Any) -> tuple[str, Any]:
 def _bad_number_message(v: float, where: str) -> str:
     what = "NaN (not a number)" if math.isnan(v) else "an infinite value"
     return (
-        f"sheetfuncs: {what} at {where}; remove it or replace it with the measured value"
+        f"{what} at {where}; remove it or replace it with the measured value"
     )
 
 
@@ -272,7 +272,7 @@ def _as_rows(cells: Any) -> list[Sequence[Any]]:
         if cells.ndim == 1:
             return [(v,) for v in cells.tolist()]
         if cells.ndim != 2:
-            raise InputError("sheetfuncs: a range must be 2-D (rows of cells)")
+            raise InputError("a range must be 2-D (rows of cells)")
         return [tuple(r) for r in cells.tolist()]
     if isinstance(cells, (str, bytes)) or not isinstance(cells, Sequence):
         if isinstance(cells, Sequence) or not hasattr(cells, "__iter__"):
@@ -320,7 +320,7 @@ def _parse_labels_arg(labels: Any) -> str:
         if s in ("false", "no", "n", "0"):
             return "no"
     raise InputError(
-        f"sheetfuncs: labels must be \"auto\", TRUE or FALSE, not {shown(labels)}"
+        f"labels must be \"auto\", TRUE or FALSE, not {shown(labels)}"
     )
 
 
@@ -332,7 +332,7 @@ def _parse_layout(layout: Any) -> str:
         return "wide"
     if s not in LAYOUTS:
         raise InputError(
-            f"sheetfuncs: unknown layout {shown(layout)}; use \"wide\" (one group per column), "
+            f"unknown layout {shown(layout)}; use \"wide\" (one group per column), "
             "\"long\" (label and value columns) or \"rowwise\" (one group per row)"
         )
     return s
@@ -363,12 +363,12 @@ class _Collector:
         more = f" (and {len(errs) - 1} more)" if len(errs) > 1 else ""
         if first.kind == "error":
             msg = (
-                f"sheetfuncs: the data hold the error {first.value} at {first.position} of the "
+                f"the data hold the error {first.value} at {first.position} of the "
                 f"range{more}; fix or clear that cell"
             )
         elif first.kind == "date":
             msg = (
-                f"sheetfuncs: a date at {first.position} of the range{more}: dates are not "
+                f"a date at {first.position} of the range{more}: dates are not "
                 "measurements; clear the cell, or format it as a number"
                 + ("; if the first row (or column) holds dates as group labels, set labels to TRUE"
                    if first.row == 0 or first.col == 0 else "")
@@ -377,7 +377,7 @@ class _Collector:
             msg = _bad_number_message(first.value, f"{first.position} of the range") + more
         else:
             msg = (
-                f"sheetfuncs: unsupported cell value {first.value!r} at {first.position} of the "
+                f"unsupported cell value {first.value!r} at {first.position} of the "
                 f"range{more}; clear the cell or enter a number"
             )
         raise InputError(msg, cells=tuple((e.row, e.col) for e in errs))
@@ -516,7 +516,7 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
     lab = _parse_labels_arg(labels)
     rows = _as_rows(cells)
     if not rows or not rows[0]:
-        raise InputError("sheetfuncs: the range is empty; select the cells that hold the data")
+        raise InputError("the range is empty; select the cells that hold the data")
     if lay == "long":
         return _from_long_rows(rows, lab)
     transpose = lay == "rowwise"
@@ -562,7 +562,7 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
         positions.append(i)
     col.raise_errors()
     if not arrays:
-        raise InputError("sheetfuncs: the range holds no numbers; select the cells with the data")
+        raise InputError("the range holds no numbers; select the cells with the data")
 
     taken = {x for x in raw_labels if x is not None}
     final: list[str] = []
@@ -573,7 +573,7 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
         where = "rows" if transpose else "columns"
         idx = [positions[j] + 1 for j, x in enumerate(final) if x == dup]
         raise InputError(
-            f'sheetfuncs: the label "{dup}" heads {where} {" and ".join(map(str, idx[:2]))}; '
+            f'the label "{dup}" heads {where} {" and ".join(map(str, idx[:2]))}; '
             "give each group its own label"
         )
     line_word = "row" if transpose else "column"
@@ -581,11 +581,11 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
         if arr.size == 0:
             if raw_labels[j] is not None:
                 raise InputError(
-                    f'sheetfuncs: group "{final[j]}" has no numbers; enter its values or '
+                    f'group "{final[j]}" has no numbers; enter its values or '
                     "leave it out of the range"
                 )
             raise InputError(
-                f"sheetfuncs: {line_word} {positions[j] + 1} of the range has no numbers, only "
+                f"{line_word} {positions[j] + 1} of the range has no numbers, only "
                 f"text or logical values; clear it or leave it out of the range"
             )
     return _make_groups(final, arrays, col.notes, lay, "range" if has_labels else "default")
@@ -620,7 +620,7 @@ def _from_long_rows(rows: list[tuple], lab: str) -> Groups:
     width = len(rows[0])
     if width != 2:
         raise InputError(
-            f"sheetfuncs: the long layout needs exactly two columns (group label, value); "
+            f"the long layout needs exactly two columns (group label, value); "
             f"the range has {width}"
         )
     col = _Collector(transpose=True)  # line = row, idx = column
@@ -647,7 +647,7 @@ def _from_long_rows(rows: list[tuple], lab: str) -> Groups:
                 continue
             if label_blank:
                 raise InputError(
-                    f"sheetfuncs: the value at {cell_position(r, 1)} of the range has no group "
+                    f"the value at {cell_position(r, 1)} of the range has no group "
                     "label; fill in its label (first column) or clear the value",
                     cells=((r, 0),),
                 )
@@ -661,11 +661,11 @@ def _from_long_rows(rows: list[tuple], lab: str) -> Groups:
             col.add(r, 1, kind, val, "rejected")
     col.raise_errors()
     if not order:
-        raise InputError("sheetfuncs: the range holds no numbers; select the cells with the data")
+        raise InputError("the range holds no numbers; select the cells with the data")
     for label, vals in order.items():
         if not vals:
             raise InputError(
-                f'sheetfuncs: group "{label}" has no numbers; enter its values or leave it out '
+                f'group "{label}" has no numbers; enter its values or leave it out '
                 "of the range"
             )
     return _make_groups(
@@ -677,7 +677,7 @@ def groups_from_long(labels: Sequence[Any], values: Sequence[Any]) -> Groups:
     """Groups from two parallel columns: one label and one value per observation."""
     if len(labels) != len(values):
         raise InputError(
-            f"sheetfuncs: the label column has {len(labels)} entries but the value column has "
+            f"the label column has {len(labels)} entries but the value column has "
             f"{len(values)}; give one label per value"
         )
     return _from_long_rows(list(zip(labels, values)), "no")
@@ -693,8 +693,8 @@ _PLAIN_NUMBER_TYPES = frozenset({float, int, np.float64, np.float32, np.int64, n
 def _numbers(values: Any, label: str) -> np.ndarray:
     """One group's values as a float64 array; anything but finite numbers is an InputError."""
     if isinstance(values, (str, bytes)):
-        raise InputError(f'sheetfuncs: group "{label}" is text, not a sequence of numbers')
-    flat_msg = f'sheetfuncs: group "{label}" must be a flat sequence of numbers'
+        raise InputError(f'group "{label}" is text, not a sequence of numbers')
+    flat_msg = f'group "{label}" must be a flat sequence of numbers'
     if isinstance(values, np.ndarray):
         if values.ndim > 1:
             raise InputError(flat_msg)
@@ -720,7 +720,7 @@ def _numbers(values: Any, label: str) -> np.ndarray:
             kind, val = _classify(v)
             if kind != "number":
                 raise InputError(
-                    f'sheetfuncs: group "{label}" holds {v!r} at position {i + 1}; '
+                    f'group "{label}" holds {v!r} at position {i + 1}; '
                     "only numbers are allowed (use groups_from_range for spreadsheet ranges)"
                 )
             out.append(val)
@@ -741,14 +741,14 @@ def as_groups(data: Any) -> Groups:
         source = "given"
     elif isinstance(data, np.ndarray) and data.ndim == 2 and data.dtype.kind in "iuf":
         raise InputError(
-            "sheetfuncs: a 2-D array is ambiguous; pass a list of 1-D arrays (one per group) or "
+            "a 2-D array is ambiguous; pass a list of 1-D arrays (one per group) or "
             "use groups_from_range with a layout"
         )
     elif isinstance(data, (Sequence, np.ndarray)) and not isinstance(data, (str, bytes)):
         seq = list(data)
         if seq and all(isinstance(v, numbers.Real) for v in seq):
             raise InputError(
-                "sheetfuncs: got one flat sequence of numbers; pass one sequence per group, "
+                "got one flat sequence of numbers; pass one sequence per group, "
                 "e.g. [[...], [...]], or a mapping label -> values"
             )
         labels = [f"Group {i + 1}" for i in range(len(seq))]
@@ -756,13 +756,13 @@ def as_groups(data: Any) -> Groups:
         source = "default"
     else:
         raise InputError(
-            f"sheetfuncs: cannot read groups from {type(data).__name__}; pass a mapping "
+            f"cannot read groups from {type(data).__name__}; pass a mapping "
             "label -> values, a list of sequences, or a Groups object"
         )
     dup = _first_duplicate(labels)
     if dup is not None:
-        raise InputError(f'sheetfuncs: the label "{dup}" is used twice; give each group its own label')
+        raise InputError(f'the label "{dup}" is used twice; give each group its own label')
     for lab, a in zip(labels, arrays):
         if a.size == 0:
-            raise InputError(f'sheetfuncs: group "{lab}" has no numbers; give it values or leave it out')
+            raise InputError(f'group "{lab}" has no numbers; give it values or leave it out')
     return _make_groups(labels, arrays, (), "python", source)

@@ -47,9 +47,9 @@ def check_number(value: Any, name: str) -> float:
     """A finite real number, or an InputError that names the argument."""
     v = as_real(value)
     if v is None:
-        raise InputError(f"sheetfuncs: {name} must be a number, not {shown(value)}")
+        raise InputError(f"{name} must be a number, not {shown(value)}")
     if not math.isfinite(v):
-        raise InputError(f"sheetfuncs: {name} must be a finite number, not {shown(value)}")
+        raise InputError(f"{name} must be a finite number, not {shown(value)}")
     return v
 
 
@@ -57,10 +57,10 @@ def check_probability(value: Any, name: str, example: str) -> float:
     """A number strictly between 0 and 1."""
     v = as_real(value)
     if v is None:
-        raise InputError(f"sheetfuncs: {name} must be a number, not {shown(value)}")
+        raise InputError(f"{name} must be a number, not {shown(value)}")
     if not (0.0 < v < 1.0):
         raise InputError(
-            f"sheetfuncs: {name} must lie strictly between 0 and 1 (e.g. {example}), not {shown(value)}"
+            f"{name} must lie strictly between 0 and 1 (e.g. {example}), not {shown(value)}"
         )
     return v
 
@@ -99,7 +99,7 @@ def one_line(cells: Any, name: str) -> list[Any]:
     used_cols = [j for j in range(width) if any(j < len(r) and not _blank(r[j]) for r in rows)]
     if len(used_rows) > 1 and len(used_cols) > 1:
         raise InputError(
-            f"sheetfuncs: {name} fill a block of {len(used_rows)} rows and {len(used_cols)} "
+            f"{name} fill a block of {len(used_rows)} rows and {len(used_cols)} "
             "columns; give one per group in a single row or column"
         )
     if len(rows) > 1 and len(used_cols) == 1:  # a column

@@ -56,16 +56,11 @@ class Unavailable:
         return False
 
 
-def _reason(err: InputError) -> str:
-    msg = str(err)
-    return msg[len("sheetfuncs: "):] if msg.startswith("sheetfuncs: ") else msg
-
-
 def _attempt(what: str, fn: Any, *args: Any, **kw: Any) -> Any:
     try:
         return fn(*args, **kw)
     except InputError as err:
-        return Unavailable(what, _reason(err))
+        return Unavailable(what, err.reason)
 
 
 @dataclass(frozen=True)
@@ -116,7 +111,7 @@ def _text_option(value: Any, name: str, default: str | None) -> str | None:
     if value is None:
         return default
     if not isinstance(value, str):
-        raise InputError(f"sheetfuncs: {name} must be text, not {value!r}")
+        raise InputError(f"{name} must be text, not {value!r}")
     s = value.strip()
     return s if s else default
 
@@ -202,7 +197,7 @@ def _label_option(control: Any, g: Groups) -> str | None:
     if label not in g.labels:
         shown = ", ".join(f'"{x}"' for x in g.labels[:8]) + (", ..." if g.k > 8 else "")
         raise InputError(
-            f'sheetfuncs: the control "{label}" is not one of the groups ({shown}); give the '
+            f'the control "{label}" is not one of the groups ({shown}); give the '
             "label of the control group exactly as it heads its column"
         )
     return label

@@ -52,17 +52,17 @@ def _check_target(path: Any, force: bool, source: Any) -> Path:
     try:
         target = Path(os.fspath(path)).expanduser()
     except TypeError:
-        raise InputError(f"sheetfuncs: the output path must be a file name, not {path!r}") from None
+        raise InputError(f"the output path must be a file name, not {path!r}") from None
     if target.suffix.lower() != ".xlsx":
         raise InputError(
-            f"sheetfuncs: the report is an .xlsx workbook; give an output name ending in .xlsx, "
+            f"the report is an .xlsx workbook; give an output name ending in .xlsx, "
             f"not {target.name!r}"
         )
     folder = target.parent if str(target.parent) else Path(".")
     if not folder.is_dir():
-        raise InputError(f"sheetfuncs: the folder {str(folder)!r} does not exist; create it first")
+        raise InputError(f"the folder {str(folder)!r} does not exist; create it first")
     if target.is_dir():
-        raise InputError(f"sheetfuncs: {str(target)!r} is a folder; give a file name ending in .xlsx")
+        raise InputError(f"{str(target)!r} is a folder; give a file name ending in .xlsx")
     src = getattr(source, "path", None) if source is not None else None
     if src:
         sp = Path(os.fspath(src)).expanduser()
@@ -73,12 +73,12 @@ def _check_target(path: Any, force: bool, source: Any) -> Path:
             same = False
         if same or target.resolve() == sp.resolve():
             raise InputError(
-                f"sheetfuncs: the output {str(target)!r} is the input file; the input is never "
+                f"the output {str(target)!r} is the input file; the input is never "
                 "overwritten: choose another output name"
             )
     if target.exists() and not force:
         raise InputError(
-            f"sheetfuncs: {str(target)!r} already exists and is kept; use --force (force=True) "
+            f"{str(target)!r} already exists and is kept; use --force (force=True) "
             "to replace it, or choose another name"
         )
     return target
@@ -250,7 +250,7 @@ def write_report(
         fd, tmp_name = tempfile.mkstemp(dir=folder, prefix=f".{target.stem}.", suffix=".tmp")
     except OSError as err:
         raise InputError(
-            f"sheetfuncs: cannot create a file in the folder {str(folder)!r} (the system says: "
+            f"cannot create a file in the folder {str(folder)!r} (the system says: "
             f"{err.strerror or err}); choose a folder you can write to"
         ) from None
     os.close(fd)
@@ -266,7 +266,7 @@ def write_report(
         os.replace(tmp, target)
     except OSError as err:
         tmp.unlink(missing_ok=True)
-        raise InputError(f"sheetfuncs: could not write {str(target)!r}: {err.strerror or err}") from None
+        raise InputError(f"could not write {str(target)!r}: {err.strerror or err}") from None
     except BaseException:
         tmp.unlink(missing_ok=True)
         raise

@@ -85,14 +85,14 @@ def require_variances(g: Groups, method: str) -> None:
     for label, n in zip(g.labels, g.counts):
         if n < 2:
             raise InputError(
-                f'sheetfuncs: group "{label}" has only one value, but {method} needs the '
+                f'group "{label}" has only one value, but {method} needs the '
                 "variance of every group; add values to that group or leave it out"
             )
 
 
 def _zero_variance_error(label: str, method: str) -> InputError:
     return InputError(
-        f'sheetfuncs: group "{label}" has zero variance (all its values are equal), and '
+        f'group "{label}" has zero variance (all its values are equal), and '
         f"{method} divides by each group's variance; check the measurement resolution, or use "
         "the Brown-Forsythe F* test or Kruskal-Wallis instead"
     )
@@ -209,7 +209,7 @@ def welch(groups: Any, *, exact: bool | None = None) -> WelchResult:
             raise _zero_variance_error(label, "Welch's test")
         if var[i] == 0:
             raise InputError(
-                f'sheetfuncs: the variance of group "{label}" is more than 10^300 times smaller '
+                f'the variance of group "{label}" is more than 10^300 times smaller '
                 "than the largest, so Welch's weights cannot be formed; check the data's units"
             )
     w = [n / float(v) for n, v in zip(ns, var)]
@@ -279,7 +279,7 @@ def brown_forsythe(groups: Any, *, exact: bool | None = None) -> BrownForsytheRe
 
 def _all_zero_error() -> InputError:
     return InputError(
-        "sheetfuncs: every group has zero variance (within each group all values are equal), so "
+        "every group has zero variance (within each group all values are equal), so "
         "the Brown-Forsythe F* has no within-group spread to divide by; the one-way F is "
         "infinite here: check the measurement resolution"
     )
@@ -350,7 +350,7 @@ def kruskal(groups: Any) -> KruskalResult:
     n3 = n_tot**3 - n_tot
     if tie_sum == n3:
         raise InputError(
-            "sheetfuncs: every value is the same, so the Kruskal-Wallis test has no ranks to "
+            "every value is the same, so the Kruskal-Wallis test has no ranks to "
             "compare; check that the range holds the measurements"
         )
     sums: list[int] = []

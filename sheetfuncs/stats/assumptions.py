@@ -216,7 +216,7 @@ def _parse_center(center: Any) -> str:
     if s in ("median", "mean"):
         return s
     raise InputError(
-        f'sheetfuncs: center must be "median" (Brown-Forsythe, the default) or "mean" '
+        f'center must be "median" (Brown-Forsythe, the default) or "mean" '
         f"(Levene's original), not {shown(center)}"
     )
 
@@ -237,7 +237,7 @@ def levene(groups: Any, center: str = "median", *, exact: bool | None = None) ->
     if float(allz.max()) == float(allz.min()):
         what = "zero" if float(allz.max()) == 0.0 else "the same"
         raise InputError(
-            f"sheetfuncs: every value's distance from its group {c} is {what}, so Levene's test "
+            f"every value's distance from its group {c} is {what}, so Levene's test "
             "has no differences in spread to compare; check that the range holds the "
             "measurements"
         )
@@ -332,7 +332,7 @@ def bartlett(groups: Any, *, exact: bool | None = None) -> BartlettResult:
     for label, s in zip(g.labels, ss):
         if s == 0:
             raise InputError(
-                f'sheetfuncs: group "{label}" has zero variance (all its values are equal), and '
+                f'group "{label}" has zero variance (all its values are equal), and '
                 "Bartlett's test takes the logarithm of each group's variance; check the "
                 "measurement resolution, or use Levene's test instead"
             )
@@ -512,12 +512,12 @@ def shapiro_residuals(groups: Any, *, exact: bool | None = None) -> NormalityRes
     n = int(res.size)
     if n < 3:
         raise InputError(
-            f"sheetfuncs: only {n} residuals from groups of two or more values; the normality "
+            f"only {n} residuals from groups of two or more values; the normality "
             "test needs at least 3: add values to the groups"
         )
     if not np.any(res):
         raise InputError(
-            "sheetfuncs: all residuals are zero (within each group every value is the same), so "
+            "all residuals are zero (within each group every value is the same), so "
             "their normality cannot be tested; check the measurement resolution"
         )
     res = res / float(np.max(np.abs(res)))  # both statistics are free of the unit
@@ -660,11 +660,6 @@ def _sentence(text: str) -> str:
     return text if not text or text.endswith(".") else text + "."
 
 
-def _reason_of(err: InputError) -> str:
-    msg = str(err)
-    return msg[len("sheetfuncs: "):] if msg.startswith("sheetfuncs: ") else msg
-
-
 def _failure_reason(err: Exception) -> str:
     """The reason recorded for a test that failed on a numerical problem it did not foresee."""
     detail = str(err).strip() or type(err).__name__
@@ -714,7 +709,7 @@ def checks(groups: Any, alpha: float = 0.05, *, exact: bool | None = None) -> Ch
         try:
             return fn(*args, **kw)
         except InputError as err:
-            missing.append((name, _reason_of(err)))
+            missing.append((name, err.reason))
             return None
         except (ArithmeticError, ValueError) as err:
             # an unforeseen numerical failure of one secondary test must not hide the others

@@ -98,12 +98,12 @@ def parse_method(method: Any) -> str:
             return _ALIASES[key]
         if key == "dunnett":
             raise InputError(
-                "sheetfuncs: \"dunnett\" compares treatments with one control; use the dunnett "
+                "\"dunnett\" compares treatments with one control; use the dunnett "
                 "function (SF_DUNNETT) with the control's label, or choose one of the pairwise "
                 "methods: " + ", ".join(f'"{m}"' for m in METHODS)
             )
     raise InputError(
-        f"sheetfuncs: unknown comparison method {shown(method)}; use one of "
+        f"unknown comparison method {shown(method)}; use one of "
         + ", ".join(f'"{m}"' for m in METHODS)
     )
 
@@ -281,14 +281,14 @@ def _check_variances(g: Groups, mom: ExactMoments | FloatMoments, method: str) -
         n = counts[i]
         if n < 2:
             raise InputError(
-                f'sheetfuncs: group "{lab}" has only one value; {method} uses each group\'s own '
+                f'group "{lab}" has only one value; {method} uses each group\'s own '
                 'variance, so every group needs at least two values (or use a pooled method '
                 'such as "tukey")'
             )
         ss = mom.ss_group(i)
         if ss == 0:
             raise InputError(
-                f'sheetfuncs: group "{lab}" has zero variance (all its values are equal); '
+                f'group "{lab}" has zero variance (all its values are equal); '
                 f"{method} divides by each group's own variance, so it cannot be used here; "
                 'use a pooled method such as "tukey", or check the measurement resolution'
             )
@@ -431,13 +431,13 @@ def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
     lab = format_label(control) if control is not None else ""
     if lab == "":
         raise InputError(
-            "sheetfuncs: no control group given; give the label of the group the others are "
+            "no control group given; give the label of the group the others are "
             "compared with"
         )
     if lab not in g.labels:
         shown = ", ".join(f'"{x}"' for x in g.labels[:12]) + (", ..." if g.k > 12 else "")
         raise InputError(
-            f'sheetfuncs: the control "{lab}" is not one of the groups ({shown}); give the '
+            f'the control "{lab}" is not one of the groups ({shown}); give the '
             "control's label exactly as it appears"
         )
     a = check_alpha(alpha)

@@ -129,11 +129,11 @@ def noncentrality_interval(
     try:
         x = float(f_obs)
     except (TypeError, ValueError):
-        raise InputError(f"sheetfuncs: the F value must be a number, not {shown(f_obs)}") from None
+        raise InputError(f"the F value must be a number, not {shown(f_obs)}") from None
     if math.isnan(x) or isinstance(f_obs, bool):
-        raise InputError(f"sheetfuncs: the F value must be a number, not {shown(f_obs)}")
+        raise InputError(f"the F value must be a number, not {shown(f_obs)}")
     if x < 0:
-        raise InputError(f"sheetfuncs: the F value must not be negative, not {shown(f_obs)}")
+        raise InputError(f"the F value must not be negative, not {shown(f_obs)}")
     if math.isinf(x):
         return math.inf, math.inf
     a = 1.0 - conf

@@ -152,7 +152,7 @@ def letters(groups: Any, method: str = "tukey", alpha: float = 0.05) -> LettersR
     """
     if isinstance(method, str) and method.strip().lower() == "dunnett":
         raise InputError(
-            "sheetfuncs: letters need every pair compared, and Dunnett compares each group with "
+            "letters need every pair compared, and Dunnett compares each group with "
             "the control only; choose a pairwise method such as \"tukey\""
         )
     meth = parse_method(method)

@@ -44,7 +44,7 @@ def per_group_argument(values: Any, g: Groups, what: str) -> list[Any]:
         flat.pop()
     if len(flat) != g.k:
         raise InputError(
-            f"sheetfuncs: {len(flat)} {what} for {g.k} groups; give one per group, in the "
+            f"{len(flat)} {what} for {g.k} groups; give one per group, in the "
             f"order of the groups ({', '.join(g.labels[:6])}{', ...' if g.k > 6 else ''})"
         )
     return flat
@@ -95,7 +95,7 @@ def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = Non
     if any(p == "" for p in pool):
         i = pool.index("")
         raise InputError(
-            f'sheetfuncs: the pooling label for group "{g.labels[i]}" is blank; give every group a pooling label'
+            f'the pooling label for group "{g.labels[i]}" is blank; give every group a pooling label'
         )
     order: dict[str, list[int]] = {}
     for i, p in enumerate(pool):
@@ -103,7 +103,7 @@ def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = Non
     parts = list(order.values())
     if len(parts) == g.k:
         raise InputError(
-            "sheetfuncs: every group has its own pooling label, so the reduced model is the full "
+            "every group has its own pooling label, so the reduced model is the full "
             "model; give groups that should share a mean the same label"
         )
     mom = compute_moments(g, exact)
@@ -112,7 +112,7 @@ def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = Non
     df_red = n - len(parts)
     if df_full <= 0:
         raise InputError(
-            f"sheetfuncs: no residual degrees of freedom ({n} values in {g.k} groups); at least "
+            f"no residual degrees of freedom ({n} values in {g.k} groups); at least "
             "one group needs two or more values"
         )
     ss_full_x = mom.ss_within_parts([[i] for i in range(g.k)])
@@ -126,7 +126,7 @@ def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = Non
     if ss_full_x == 0:
         if ss_red_x == 0:
             raise InputError(
-                "sheetfuncs: all values within each pool are identical, so there is no variation to test"
+                "all values within each pool are identical, so there is no variation to test"
             )
         f = math.inf
     else:
@@ -180,12 +180,12 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     for i, v in enumerate(raw):
         fv = as_real(v)
         if fv is None:
-            raise InputError(f'sheetfuncs: the weight for group "{g.labels[i]}" is {shown(v)}, not a number')
+            raise InputError(f'the weight for group "{g.labels[i]}" is {shown(v)}, not a number')
         if not math.isfinite(fv):
-            raise InputError(f'sheetfuncs: the weight for group "{g.labels[i]}" is not finite')
+            raise InputError(f'the weight for group "{g.labels[i]}" is not finite')
         w.append(fv)
     if all(x == 0 for x in w):
-        raise InputError("sheetfuncs: all contrast weights are zero; give weights such as 1, -1, 0")
+        raise InputError("all contrast weights are zero; give weights such as 1, -1, 0")
     # Work with the weights scaled by a power of two (exact) so that their largest is near 1:
     # t, p and the verdict do not depend on the scale; estimate, SE and interval scale back.
     e = math.frexp(max(abs(x) for x in w))[1]
@@ -193,10 +193,10 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     abs_sum = math.fsum(abs(x) for x in ws)
     total = math.fsum(ws)
     if abs_sum == 0:
-        raise InputError("sheetfuncs: all contrast weights are zero; give weights such as 1, -1, 0")
+        raise InputError("all contrast weights are zero; give weights such as 1, -1, 0")
     if abs(total) > 1e-12 * abs_sum:
         raise InputError(
-            f"sheetfuncs: contrast weights must sum to zero, but they sum to {math.fsum(w):.6g}; "
+            f"contrast weights must sum to zero, but they sum to {math.fsum(w):.6g}; "
             "adjust them (e.g. 1, -0.5, -0.5)"
         )
     mom = compute_moments(g, exact)
@@ -204,7 +204,7 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     df = n - g.k
     if df <= 0:
         raise InputError(
-            f"sheetfuncs: no residual degrees of freedom ({n} values in {g.k} groups); at least "
+            f"no residual degrees of freedom ({n} values in {g.k} groups); at least "
             "one group needs two or more values"
         )
     ssw = mom.ss_within_parts([[i] for i in range(g.k)])
@@ -226,7 +226,7 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     if se == 0:
         if est == 0:
             raise InputError(
-                "sheetfuncs: the contrast and its standard error are both zero (no variation "
+                "the contrast and its standard error are both zero (no variation "
                 "within or between the groups involved)"
             )
         t = math.copysign(math.inf, est)

@@ -172,11 +172,11 @@ class FloatMoments:
 # sums of squares a double can carry
 
 TOO_LARGE = (
-    "sheetfuncs: the values are too large for double-precision sums of squares (they exceed "
+    "the values are too large for double-precision sums of squares (they exceed "
     "about 1e300); rescale the data, e.g. express them in larger units"
 )
 TOO_SMALL = (
-    "sheetfuncs: the values differ by too little for double-precision sums of squares (below "
+    "the values differ by too little for double-precision sums of squares (below "
     "about 1e-290); rescale the data, e.g. express them in smaller units"
 )
 
@@ -459,7 +459,7 @@ def compute_moments(groups: Groups, exact: bool | None = None) -> ExactMoments |
     (``exact=True``, an :class:`InputError` when impossible) or floating point (``False``)."""
     if exact is not None and not isinstance(exact, (bool, np.bool_)):
         raise InputError(
-            f"sheetfuncs: exact must be None (automatic), True or False, not {exact!r}"
+            f"exact must be None (automatic), True or False, not {exact!r}"
         )
     if exact is False:
         return _float_moments(groups.arrays)
@@ -468,7 +468,7 @@ def compute_moments(groups: Groups, exact: bool | None = None) -> ExactMoments |
     except _NotExact as e:
         if exact:
             raise InputError(
-                f"sheetfuncs: the exact path needs every value to have at most {MAX_DIGITS} "
+                f"the exact path needs every value to have at most {MAX_DIGITS} "
                 f"significant digits, but {e.value!r} in group \"{groups.labels[e.group]}\" has "
                 f"{e.digits}; round the data or use exact=False"
             ) from None

@@ -85,7 +85,7 @@ def require_two_groups(g: Groups) -> None:
     if g.k < 2:
         which = f' (only "{g.labels[0]}")' if g.k == 1 else ""
         raise InputError(
-            f"sheetfuncs: at least two groups are needed to compare means, got {g.k}{which}; "
+            f"at least two groups are needed to compare means, got {g.k}{which}; "
             "check the layout (one group per column, per row, or label and value columns)"
         )
 
@@ -105,12 +105,12 @@ def _finish(
     dfb, dfw, dft = k - 1, n - k, n - 1
     if dfw <= 0:
         raise InputError(
-            f"sheetfuncs: no residual degrees of freedom ({n} values in {k} groups); at least "
+            f"no residual degrees of freedom ({n} values in {k} groups); at least "
             "one group needs two or more values"
         )
     if sst == 0:
         raise InputError(
-            "sheetfuncs: all values are identical, so there is no variation to analyse; check "
+            "all values are identical, so there is no variation to analyse; check "
             "that the range holds the measurements"
         )
     check_ss_range(sst)
@@ -193,9 +193,9 @@ def _summary_column(values: Any, name: str) -> list[Any]:
 def _to_fraction(v: Any, what: str, i: int) -> Fraction:
     f = as_real(v)
     if f is None:
-        raise InputError(f"sheetfuncs: {what} {i + 1} is {shown(v)}, not a number")
+        raise InputError(f"{what} {i + 1} is {shown(v)}, not a number")
     if not math.isfinite(f):
-        raise InputError(f"sheetfuncs: {what} {i + 1} is {shown(v)}, not a finite number")
+        raise InputError(f"{what} {i + 1} is {shown(v)}, not a finite number")
     mant, exp, _ = decimal_parts(f)
     return Fraction(mant) * (Fraction(10) ** exp)
 
@@ -215,7 +215,7 @@ def oneway_from_summary(
     cs, ms, sd = (_summary_column(v, nm) for v, nm in ((counts, "counts"), (means, "means"), (sds, "sds")))
     if not (len(cs) == len(ms) == len(sd)):
         raise InputError(
-            f"sheetfuncs: {len(cs)} counts, {len(ms)} means and {len(sd)} SDs; give one of "
+            f"{len(cs)} counts, {len(ms)} means and {len(sd)} SDs; give one of "
             "each per group"
         )
     if labels is None:
@@ -224,31 +224,31 @@ def oneway_from_summary(
         labs = tuple(format_label(x) for x in _summary_column(labels, "labels"))
         if len(labs) != len(cs):
             raise InputError(
-                f"sheetfuncs: {len(labs)} names for {len(cs)} groups; give one name per group"
+                f"{len(labs)} names for {len(cs)} groups; give one name per group"
             )
         dup = _first_duplicate(labs)
         if dup is not None:
             idx = [i + 1 for i, x in enumerate(labs) if x == dup]
             raise InputError(
-                f'sheetfuncs: the name "{dup}" is given to groups {idx[0]} and {idx[1]}; give each '
+                f'the name "{dup}" is given to groups {idx[0]} and {idx[1]}; give each '
                 "group its own name"
             )
     if len(cs) < 2:
-        raise InputError(f"sheetfuncs: at least two groups are needed to compare means, got {len(cs)}")
+        raise InputError(f"at least two groups are needed to compare means, got {len(cs)}")
     n_list: list[int] = []
     for i, c in enumerate(cs):
         fc = _to_fraction(c, "count", i)
         if fc.denominator != 1 or fc < 1:
-            raise InputError(f"sheetfuncs: count {i + 1} is {shown(c)}; counts must be whole numbers of at least 1")
+            raise InputError(f"count {i + 1} is {shown(c)}; counts must be whole numbers of at least 1")
         n_list.append(int(fc))
     m_list = [_to_fraction(m, "mean", i) for i, m in enumerate(ms)]
     s_list = [_to_fraction(s, "SD", i) for i, s in enumerate(sd)]
     for i, s in enumerate(s_list):
         if s < 0:
-            raise InputError(f"sheetfuncs: SD {i + 1} is negative; standard deviations are at least 0")
+            raise InputError(f"SD {i + 1} is negative; standard deviations are at least 0")
         if s and n_list[i] == 1:  # contradictory: the columns are out of line or the count wrong
             raise InputError(
-                f"sheetfuncs: SD {i + 1} is {shown(sd[i])} but count {i + 1} is 1, and a single "
+                f"SD {i + 1} is {shown(sd[i])} but count {i + 1} is 1, and a single "
                 "value has no standard deviation; check the rows line up, or give 0 for its SD"
             )
     n = sum(n_list)

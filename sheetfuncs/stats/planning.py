@@ -112,7 +112,7 @@ def _whole(value: Any, name: str, minimum: int) -> int:
     v = check_number(value, name)
     if v != math.floor(v) or v < minimum:
         raise InputError(
-            f"sheetfuncs: {name} must be a whole number of at least {minimum}, not {shown(value)}"
+            f"{name} must be a whole number of at least {minimum}, not {shown(value)}"
         )
     return int(v)
 
@@ -129,7 +129,7 @@ def _f_arg(f: Any) -> float:
     v = check_number(f, "the effect size f")
     if v <= 0.0:
         raise InputError(
-            f"sheetfuncs: the effect size f must be greater than 0 (Cohen's guide: 0.1 small, "
+            f"the effect size f must be greater than 0 (Cohen's guide: 0.1 small, "
             f"0.25 medium, 0.4 large), not {shown(f)}"
         )
     return v
@@ -139,7 +139,7 @@ def _power_arg(p: Any, alpha: float) -> float:
     v = check_probability(p, "power", "0.8")
     if v <= alpha:
         raise InputError(
-            f"sheetfuncs: power {v:g} must be greater than alpha {alpha:g}; even no effect at "
+            f"power {v:g} must be greater than alpha {alpha:g}; even no effect at "
             "all is detected with probability alpha"
         )
     return v
@@ -167,7 +167,7 @@ def _sample_size(k: int, f: float, target: float, alpha: float) -> int:
         lo = hi
         if hi >= MAX_PER_GROUP:
             raise InputError(
-                f"sheetfuncs: an effect of f = {f:g} is too small to plan for: more than "
+                f"an effect of f = {f:g} is too small to plan for: more than "
                 f"{MAX_PER_GROUP:.0e} values per group would be needed for power {target:g}; "
                 "check the effect size"
             )
@@ -192,7 +192,7 @@ def _detectable(k: int, n: int, target: float, alpha: float) -> float:
     while gap(hi) < 0.0:
         lo, hi = hi, hi * 4.0
         if hi > 1e300:  # pragma: no cover - power is a distribution tail and reaches 1 long before
-            raise InputError("sheetfuncs: no effect size reaches that power; check the arguments")
+            raise InputError("no effect size reaches that power; check the arguments")
     lam = optimize.brentq(gap, lo, hi, xtol=1e-300, rtol=1e-14, maxiter=500)
     return math.sqrt(lam / (k * n))
 
@@ -301,7 +301,7 @@ def plan(
     missing = [name for name, v in (("n", n), ("f", f), ("power", power)) if v is None or v == ""]
     if len(missing) != 1:
         raise InputError(
-            "sheetfuncs: give exactly two of n (values per group), f (effect size) and power; "
+            "give exactly two of n (values per group), f (effect size) and power; "
             f"the third is solved for (missing now: {', '.join(missing) or 'none'})"
         )
     target: float | None = None

@@ -80,7 +80,7 @@ from ..stats.describe import HEADER as GROUPS_HEADER
 from ..stats.describe import describe
 from ..stats.effects import TABLE_HEADER as EFFECT_HEADER
 from ..stats.effects import effect_sizes
-from ..errors import InputError
+from ..errors import InputError, message
 from ..distributions.f import f_critical, f_tail
 from ..input.groups import _error_text, cell_position, format_label, groups_from_range
 from ..stats.lettering import letters
@@ -289,7 +289,7 @@ def _one_value(value: Any, arg: Arg) -> Any:
         if len(cells) == 1:
             return cells[0]
         raise InputError(
-            f"sheetfuncs: {arg.name} must be one value, not a range of {len(cells)} cells; "
+            f"{arg.name} must be one value, not a range of {len(cells)} cells; "
             "point it at a single cell or type the value"
         )
     return value
@@ -300,7 +300,7 @@ def _normalise(value: Any, arg: Arg) -> Any:
     if arg.kind == "range":
         if value is None or (isinstance(value, str) and value == ""):
             if arg.required:
-                raise InputError(f"sheetfuncs: {arg.name} is missing; select the cells that hold it")
+                raise InputError(f"{arg.name} is missing; select the cells that hold it")
             return arg.default
         if not isinstance(value, (list, tuple, np.ndarray)):
             return [[value]]  # one value typed in place of a range
@@ -309,16 +309,16 @@ def _normalise(value: Any, arg: Arg) -> Any:
     if value is None or (isinstance(value, str) and value.strip() == ""):
         if arg.required:
             raise InputError(
-                f"sheetfuncs: {arg.name} is missing (or its cell is blank); give "
+                f"{arg.name} is missing (or its cell is blank); give "
                 + ("a number" if arg.kind == "number" else "a value")
             )
         return arg.default
     err = _error_text(value)
     if err is not None:
-        raise InputError(f"sheetfuncs: {arg.name} holds the error {err}; fix that cell")
+        raise InputError(f"{arg.name} holds the error {err}; fix that cell")
     if arg.kind == "number":
         if isinstance(value, (_dt.date, _dt.time)):
-            raise InputError(f"sheetfuncs: {arg.name} is a date; give a number")
+            raise InputError(f"{arg.name} is a date; give a number")
         return check_number(value, arg.name)
     if arg.kind == "text":
         return format_label(value)  # text trimmed; a number or date as it reads
@@ -334,7 +334,7 @@ def _range_errors(cells: Any, arg: Arg) -> None:
             err = _error_text(v)
             if err is not None:
                 raise InputError(
-                    f"sheetfuncs: the {arg.name} range holds the error {err} at "
+                    f"the {arg.name} range holds the error {err} at "
                     f"{cell_position(r, c)}; fix or clear that cell"
                 )
 
@@ -350,7 +350,7 @@ def _column(cells: Any, arg: Arg) -> list[Any] | None:
     for i, v in enumerate(flat):
         if v is None or (isinstance(v, str) and v.strip() == ""):
             raise InputError(
-                f"sheetfuncs: entry {i + 1} of {arg.name} is blank; give one value per group, "
+                f"entry {i + 1} of {arg.name} is blank; give one value per group, "
                 "with no gaps"
             )
     return flat
@@ -374,7 +374,7 @@ def to_cell(value: Any) -> Any:
         if math.isinf(v):
             return MAX_DOUBLE if v > 0 else -MAX_DOUBLE
         return v
-    raise TypeError(f"sheetfuncs: a result of type {type(value).__name__} cannot go into a cell")
+    raise TypeError(f"a result of type {type(value).__name__} cannot go into a cell")
 
 
 def _shape(value: Any, result: str) -> Any:
@@ -390,9 +390,7 @@ _MESSAGE_MAX = 1000
 
 def _message(err: InputError) -> str:
     """An input problem as the one line of text the cell shows."""
-    text = " ".join(str(err).split())
-    if not text.startswith("sheetfuncs: "):
-        text = f"sheetfuncs: {text}"
+    text = message(err.reason)
     # a cell holds at most 32,767 characters; a message quoting a huge label is cut short
     return text if len(text) <= _MESSAGE_MAX else text[: _MESSAGE_MAX - 1] + "…"
 

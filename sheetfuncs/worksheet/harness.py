@@ -53,6 +53,7 @@ from typing import Any
 
 import numpy as np
 
+from ..errors import PREFIX
 from .functions import MISSING, REGISTRY, Function
 
 __all__ = [
@@ -333,4 +334,4 @@ def row(values: Iterable[Any]) -> list[list[Any]]:
 
 def is_message(shown: Any) -> bool:
     """Does the cell show one line of ``sheetfuncs: ...`` text?"""
-    return isinstance(shown, str) and shown.startswith("sheetfuncs: ") and "\n" not in shown
+    return isinstance(shown, str) and shown.startswith(PREFIX) and "\n" not in shown

@@ -218,7 +218,7 @@ def parse_range(text: str) -> RangeRef | None:
     cols = [c for c in (ref.min_col, ref.max_col) if c is not None]
     if min(rows) < 1 or max(rows) > MAX_ROWS or min(cols) < 1 or max(cols) > MAX_COLS:
         raise InputError(
-            f"sheetfuncs: the range {text.strip()} lies outside a sheet (rows 1 to {MAX_ROWS:,}, "
+            f"the range {text.strip()} lies outside a sheet (rows 1 to {MAX_ROWS:,}, "
             "columns A to XFD); check the reference"
         )
     return ref
@@ -238,16 +238,16 @@ def input_kind(path: str | os.PathLike[str]) -> str:
         return "csv"
     if suffix == ".xls":
         raise InputError(
-            f"sheetfuncs: {p.name} is an old binary .xls workbook, which sheetfuncs does not "
+            f"{p.name} is an old binary .xls workbook, which sheetfuncs does not "
             "read; save it as .xlsx (Excel Workbook) and try again"
         )
     if suffix in (".ods", ".numbers", ".xlsb"):
         raise InputError(
-            f"sheetfuncs: {p.name} is a {suffix} file, which sheetfuncs does not read; save it "
+            f"{p.name} is a {suffix} file, which sheetfuncs does not read; save it "
             "as .xlsx or .csv and try again"
         )
     raise InputError(
-        f"sheetfuncs: cannot tell what kind of file {p.name} is; give an .xlsx or .xlsm "
+        f"cannot tell what kind of file {p.name} is; give an .xlsx or .xlsm "
         "workbook or a .csv file"
     )
 
@@ -273,12 +273,12 @@ def read_cells(
     """
     p = Path(path)
     if p.is_dir():
-        raise InputError(f"sheetfuncs: {p} is a folder, not a file; give the file to read")
+        raise InputError(f"{p} is a folder, not a file; give the file to read")
     kind = input_kind(p)
     if not p.exists():
-        raise InputError(f"sheetfuncs: {p} does not exist; check the file name and folder")
+        raise InputError(f"{p} does not exist; check the file name and folder")
     if size_limit is None or size_limit <= 0:
-        raise InputError("sheetfuncs: the size limit must be a positive number of bytes")
+        raise InputError("the size limit must be a positive number of bytes")
     ref = parse_range(cell_range) if cell_range is not None and cell_range.strip() else None
     shown = cell_range.strip() if cell_range is not None and cell_range.strip() else None
     name = None
@@ -287,7 +287,7 @@ def read_cells(
     if ref is not None and ref.sheet is not None:
         if sheet is not None and sheet.strip().casefold() != ref.sheet.casefold():
             raise InputError(
-                f'sheetfuncs: the range names sheet "{ref.sheet}" but the sheet option says '
+                f'the range names sheet "{ref.sheet}" but the sheet option says '
                 f'"{sheet}"; give the sheet once'
             )
         sheet = ref.sheet
@@ -296,20 +296,20 @@ def read_cells(
             return _read_workbook(p, sheet, ref, name, size_limit, progress, shown)
         if sheet is not None:
             raise InputError(
-                f"sheetfuncs: {p.name} is a CSV file, which has no sheets; leave out the sheet"
+                f"{p.name} is a CSV file, which has no sheets; leave out the sheet"
             )
         if name is not None:
             raise InputError(
-                f'sheetfuncs: "{name}" is not a range like A1:F40, and a CSV file has no '
+                f'"{name}" is not a range like A1:F40, and a CSV file has no '
                 "defined names"
             )
         return _read_csv(p, ref, decimal_comma, delimiter, size_limit, progress, shown)
     except PermissionError:
         raise InputError(
-            f"sheetfuncs: no permission to read {p}; check the file's access rights"
+            f"no permission to read {p}; check the file's access rights"
         ) from None
     except IsADirectoryError:
-        raise InputError(f"sheetfuncs: {p} is a folder, not a file") from None
+        raise InputError(f"{p} is a folder, not a file") from None
 
 
 def read_groups(
@@ -337,7 +337,7 @@ def read_groups(
         isinstance(v, str) and v not in ERROR_TEXTS for v in block.rows[0] if not _blank(v)
     ):
         raise InputError(
-            f"sheetfuncs: {_where(block)} holds only a row of labels and no values; check that "
+            f"{_where(block)} holds only a row of labels and no values; check that "
             "it is the right file (or range) and that the data were saved"
         )
     try:
@@ -347,9 +347,9 @@ def read_groups(
             r, c = e.cells[0]
             where = block.source.full_address(r, c)
             raise InputError(
-                f"{e} (cell {where} of {Path(path).name})", cells=e.cells
+                f"{e.reason} (cell {where} of {Path(path).name})", cells=e.cells
             ) from None
-        msg = str(e)
+        msg = e.reason
         if Path(path).name not in msg:
             msg = f"{msg} (in {_where(block)})"
         raise InputError(msg, cells=e.cells) from None
@@ -394,7 +394,7 @@ def _limit_hint(size_limit: int, needed: int) -> str:
 
 def _bomb_message(name: str, part: str) -> str:
     return (
-        f"sheetfuncs: {name} contains an XML document type declaration (in {part}), which "
+        f"{name} contains an XML document type declaration (in {part}), which "
         "workbooks never need and XML entity bombs use; refusing to read it: re-save the "
         "workbook from a spreadsheet program you trust"
     )
@@ -413,42 +413,42 @@ def check_archive(path: str | os.PathLike[str], size_limit: int = DEFAULT_SIZE_L
     if head[:8] == _CFB_MAGIC:
         if _cfb_is_encrypted(p):
             raise InputError(
-                f"sheetfuncs: {p.name} is encrypted (password-protected); remove the password "
+                f"{p.name} is encrypted (password-protected); remove the password "
                 "in a spreadsheet program (save a copy without one) and read that copy"
             )
         raise InputError(
-            f"sheetfuncs: {p.name} is in the old binary .xls format, not .xlsx; save it as "
+            f"{p.name} is in the old binary .xls format, not .xlsx; save it as "
             ".xlsx (Excel Workbook) and try again"
         )
     if head[:4] not in (_ZIP_MAGIC, _ZIP_EMPTY):
         what = "is empty" if not head else "is not an .xlsx workbook (not a zip archive)"
         if head and _looks_like_text(p):
             what += "; it looks like text: if it is CSV data, give it a .csv name"
-        raise InputError(f"sheetfuncs: {p.name} {what}; check that it is the right file")
+        raise InputError(f"{p.name} {what}; check that it is the right file")
     try:
         with zipfile.ZipFile(p) as zf:
             infos = zf.infolist()
             total = sum(i.file_size for i in infos)
             if total > size_limit:
                 raise InputError(
-                    f"sheetfuncs: {p.name} would unpack to {_mb(total)}, more than the "
+                    f"{p.name} would unpack to {_mb(total)}, more than the "
                     f"{_mb(size_limit)} limit for workbooks; {_limit_hint(size_limit, total)}"
                 )
             if any(i.flag_bits & 0x1 for i in infos):
                 raise InputError(
-                    f"sheetfuncs: {p.name} is an encrypted zip archive; remove the password "
+                    f"{p.name} is an encrypted zip archive; remove the password "
                     "and read the copy"
                 )
             odd = [i for i in infos if i.compress_type not in _ZIP_METHODS]
             if odd:
                 raise InputError(
-                    f"sheetfuncs: {p.name} uses a zip compression method that cannot be read "
+                    f"{p.name} uses a zip compression method that cannot be read "
                     f"(part {odd[0].filename}); re-save it from a spreadsheet program as .xlsx"
                 )
             names = {i.filename for i in infos}
             if "[Content_Types].xml" not in names:
                 raise InputError(
-                    f"sheetfuncs: {p.name} is a zip archive but not a workbook (no "
+                    f"{p.name} is a zip archive but not a workbook (no "
                     "[Content_Types].xml); check that it is the right file"
                 )
             for info in infos:  # every part: a relationship may point at any name
@@ -456,14 +456,14 @@ def check_archive(path: str | os.PathLike[str], size_limit: int = DEFAULT_SIZE_L
                     raise InputError(_bomb_message(p.name, info.filename))
     except zipfile.BadZipFile as e:
         raise InputError(
-            f"sheetfuncs: {p.name} is damaged and cannot be read as a workbook ({e}); "
+            f"{p.name} is damaged and cannot be read as a workbook ({e}); "
             "re-save or re-export it"
         ) from None
     except (zipfile.LargeZipFile, EOFError, OSError, zlib.error) as e:
         if isinstance(e, (PermissionError, IsADirectoryError)):
             raise
         raise InputError(
-            f"sheetfuncs: {p.name} cannot be read as a workbook ({e}); re-save or re-export it"
+            f"{p.name} cannot be read as a workbook ({e}); re-save or re-export it"
         ) from None
 
 
@@ -632,7 +632,7 @@ def workbook_properties(
 
     p = Path(path)
     if p.is_dir():
-        raise InputError(f"sheetfuncs: {p} is a folder, not a workbook")
+        raise InputError(f"{p} is a folder, not a workbook")
     check_archive(p, size_limit)
     try:
         with zipfile.ZipFile(p) as zf:
@@ -651,7 +651,7 @@ def workbook_properties(
             zlib.error, EOFError) as e:
         if isinstance(e, PermissionError):
             raise InputError(
-                f"sheetfuncs: no permission to read {p}; check the file's access rights"
+                f"no permission to read {p}; check the file's access rights"
             ) from None
         raise _damaged(p.name, e) from None
     out: dict[str, str] = {}
@@ -686,7 +686,7 @@ def _damaged(name: str, e: BaseException) -> InputError:
     if len(reason) > 120:
         reason = reason[:117] + "..."
     return InputError(
-        f"sheetfuncs: {name} is damaged or not a workbook sheetfuncs can read ({reason}); "
+        f"{name} is damaged or not a workbook sheetfuncs can read ({reason}); "
         "re-save it from a spreadsheet program as .xlsx"
     )
 
@@ -717,7 +717,7 @@ def _pick_sheet(wb, p: Path, sheet: str | None):
     worksheets = list(wb.worksheets)
     if sheet is None:
         if not worksheets:
-            raise InputError(f"sheetfuncs: {p.name} has no worksheets (only chart sheets)")
+            raise InputError(f"{p.name} has no worksheets (only chart sheets)")
         return worksheets[0]
     want = sheet.strip()
     if len(want) >= 2 and want[0] == want[-1] == "'":
@@ -730,11 +730,11 @@ def _pick_sheet(wb, p: Path, sheet: str | None):
         return folded[0]
     if want in wb.sheetnames:
         raise InputError(
-            f'sheetfuncs: "{want}" in {p.name} is a chart sheet, not a worksheet; choose a '
+            f'"{want}" in {p.name} is a chart sheet, not a worksheet; choose a '
             f"sheet with data: {_sheet_list([ws.title for ws in worksheets])}"
         )
     raise InputError(
-        f'sheetfuncs: {p.name} has no sheet named "{want}"; its sheets are '
+        f'{p.name} has no sheet named "{want}"; its sheets are '
         f"{_sheet_list([ws.title for ws in worksheets])}"
     )
 
@@ -752,7 +752,7 @@ def _defined_range(wb, p: Path, name: str) -> RangeRef:
         dn = None
     if dn is None:
         raise InputError(
-            f'sheetfuncs: "{name}" is neither a range like A1:F40 nor a name defined in '
+            f'"{name}" is neither a range like A1:F40 nor a name defined in '
             f"{p.name}; check the range"
         )
     try:
@@ -761,13 +761,13 @@ def _defined_range(wb, p: Path, name: str) -> RangeRef:
         dests = []
     if len(dests) != 1:
         raise InputError(
-            f'sheetfuncs: the name "{name}" in {p.name} does not refer to one block of cells; '
+            f'the name "{name}" in {p.name} does not refer to one block of cells; '
             "give the range as A1:F40"
         )
     sheet_name, cells = dests[0]
     ref = parse_range(cells)
     if ref is None:
-        raise InputError(f'sheetfuncs: cannot read the cells "{cells}" that "{name}" refers to')
+        raise InputError(f'cannot read the cells "{cells}" that "{name}" refers to')
     return RangeRef(ref.min_row, ref.min_col, ref.max_row, ref.max_col,
                     sheet_name.replace("''", "'"))
 
@@ -783,7 +783,7 @@ def _read_workbook(
 ) -> CellBlock:
     if not openpyxl_uses_defusedxml():
         raise InputError(
-            "sheetfuncs: openpyxl is not parsing through defusedxml (is the environment "
+            "openpyxl is not parsing through defusedxml (is the environment "
             "variable OPENPYXL_DEFUSEDXML set to False?); unset it so that workbooks are read "
             "safely"
         )
@@ -794,7 +794,7 @@ def _read_workbook(
             ref = _defined_range(wb, p, name)
             if sheet is not None and sheet.strip().casefold() != (ref.sheet or "").casefold():
                 raise InputError(
-                    f'sheetfuncs: the name "{name}" refers to sheet "{ref.sheet}", not '
+                    f'the name "{name}" refers to sheet "{ref.sheet}", not '
                     f'"{sheet}"; leave out the sheet or give an A1 range'
                 )
             sheet = ref.sheet
@@ -815,7 +815,7 @@ def _read_workbook(
     if not rows:
         if ref is None:
             raise InputError(
-                f'sheetfuncs: sheet "{title}" of {p.name} is empty; choose the sheet that holds '
+                f'sheet "{title}" of {p.name} is empty; choose the sheet that holds '
                 "the data"
                 + (" (--sheet)" if len(wb.sheetnames) > 1 else "")
             )
@@ -825,7 +825,7 @@ def _read_workbook(
             what = f"the range {shown}"
         else:
             what = f'the range {shown or ref.a1()} of sheet "{title}"'
-        raise InputError(f"sheetfuncs: {what} in {p.name} is empty; check the range")
+        raise InputError(f"{what} in {p.name} is empty; check the range")
     if suspects:
         _check_formulas(p, title, suspects, source)
     width = max(len(r) for r in rows)
@@ -870,7 +870,7 @@ def _sheet_rows(ws, ref: RangeRef | None, known, progress: Progress | None, file
         if _dt.timedelta in types:
             j = next(j for j, v in enumerate(vals) if isinstance(v, _dt.timedelta))
             raise InputError(
-                f"sheetfuncs: a duration (time) value at {_addr(ws.title, r, c1 + j)} of "
+                f"a duration (time) value at {_addr(ws.title, r, c1 + j)} of "
                 f"{file_name}; durations are not read as measurements: convert them to "
                 "numbers (e.g. minutes) in the sheet"
             )
@@ -994,7 +994,7 @@ def _check_formulas(p: Path, title: str, suspects: list[tuple[int, int]], source
         more = f" (and {len(found) - 1} more)" if len(found) > 1 else ""
         where = _addr(title, *first)
         raise InputError(
-            f"sheetfuncs: the formula in {where} of {p.name} has no saved value{more}; the file "
+            f"the formula in {where} of {p.name} has no saved value{more}; the file "
             "was saved by a program that does not calculate: open it in a spreadsheet program "
             "and save it, or paste the values, then try again",
             cells=tuple((r - source.first_row, c - source.first_col) for r, c in found),
@@ -1014,24 +1014,24 @@ def _decode(p: Path, data: bytes) -> str:
         enc, body = "utf-8", data
     if enc == "utf-8" and body[:4] in (_ZIP_MAGIC, _ZIP_EMPTY):
         raise InputError(
-            f"sheetfuncs: {p.name} is a zip archive (perhaps a workbook), not CSV text; give "
+            f"{p.name} is a zip archive (perhaps a workbook), not CSV text; give "
             "it an .xlsx name"
         )
     if enc == "utf-8" and body[:8] == _CFB_MAGIC:
         raise InputError(
-            f"sheetfuncs: {p.name} is a binary workbook, not CSV text; save it as .xlsx or as "
+            f"{p.name} is a binary workbook, not CSV text; save it as .xlsx or as "
             "CSV UTF-8"
         )
     try:
         text = body.decode(enc)
     except UnicodeDecodeError as e:
         raise InputError(
-            f"sheetfuncs: {p.name} is not UTF-8 text (byte 0x{body[e.start]:02X} at offset "
+            f"{p.name} is not UTF-8 text (byte 0x{body[e.start]:02X} at offset "
             f"{e.start}); save it as \"CSV UTF-8\" and try again"
         ) from None
     if "\x00" in text:
         raise InputError(
-            f"sheetfuncs: {p.name} holds NUL bytes, so it is not CSV text; check that it is the "
+            f"{p.name} holds NUL bytes, so it is not CSV text; check that it is the "
             "right file"
         )
     return text
@@ -1195,22 +1195,22 @@ def csv_value(text: str, decimal_comma: bool = False) -> Any:
 def _ambiguity_message(p: Path, where: str, field: str, why: str) -> str:
     if why == "grouping":
         return (
-            f'sheetfuncs: "{field}" at {where} of {p.name} could be a thousands separator or a '
+            f'"{field}" at {where} of {p.name} could be a thousands separator or a '
             "decimal comma; write the numbers without thousands separators, or add "
             "--decimal-comma if the comma is the decimal separator"
         )
     if why == "comma-in-point":
         return (
-            f'sheetfuncs: "{field}" at {where} of {p.name} is a number with a decimal comma; '
+            f'"{field}" at {where} of {p.name} is a number with a decimal comma; '
             "add --decimal-comma (decimal_comma=True) to read such numbers"
         )
     if why == "comma":
         return (
-            f'sheetfuncs: "{field}" at {where} of {p.name} could be a thousands separator or a '
+            f'"{field}" at {where} of {p.name} could be a thousands separator or a '
             "decimal point; write the numbers without thousands separators"
         )
     return (
-        f'sheetfuncs: "{field}" at {where} of {p.name} uses a decimal point, but a decimal '
+        f'"{field}" at {where} of {p.name} uses a decimal point, but a decimal '
         "comma was asked for; leave out --decimal-comma, or make the file consistent"
     )
 
@@ -1227,14 +1227,14 @@ def _read_csv(
     size = p.stat().st_size
     if size > size_limit:
         raise InputError(
-            f"sheetfuncs: {p.name} is {_mb(size)}, more than the {_mb(size_limit)} limit for "
+            f"{p.name} is {_mb(size)}, more than the {_mb(size_limit)} limit for "
             f"inputs; {_limit_hint(size_limit, size)}"
         )
     data = p.read_bytes()
     text = _decode(p, data)
     del data
     if text.strip() == "":
-        raise InputError(f"sheetfuncs: {p.name} is empty; check that it is the right file")
+        raise InputError(f"{p.name} is empty; check that it is the right file")
     if delimiter is None:
         delimiter = detect_delimiter(text)
     elif delimiter not in _DELIMITERS:
@@ -1243,7 +1243,7 @@ def _read_csv(
             delimiter = names[delimiter.lower()]
         else:
             raise InputError(
-                f"sheetfuncs: the CSV field separator must be comma, semicolon or tab, not "
+                f"the CSV field separator must be comma, semicolon or tab, not "
                 f"{delimiter!r}"
             )
     if decimal_comma and delimiter == ",":
@@ -1281,7 +1281,7 @@ def _read_csv(
                 progress("reading", min(reader.line_num, lines) * width, lines * width)
     except csv.Error as e:
         raise InputError(
-            f"sheetfuncs: {p.name} is not well-formed CSV near line {reader.line_num} ({e}); "
+            f"{p.name} is not well-formed CSV near line {reader.line_num} ({e}); "
             "check its quotes"
         ) from None
     if progress is not None:
@@ -1293,7 +1293,7 @@ def _read_csv(
         trimmed, _, fr, fc = _trim(rows, r1, c1, ref, suspects)
     if not trimmed:
         what = f"the range {shown or ref.a1()} of {p.name}" if ref else p.name
-        raise InputError(f"sheetfuncs: {what} holds no values; check the file and the range")
+        raise InputError(f"{what} holds no values; check the file and the range")
     source = InputSource(path=str(p), sheet=None, first_row=fr, first_col=fc)
     width = max(len(x) for x in trimmed)
     block_ref = _a1(fr, fc, fr + len(trimmed) - 1, fc + width - 1)
