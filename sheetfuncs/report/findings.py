@@ -139,7 +139,7 @@ def _headline(an: Analysis) -> tuple[str, str, str]:
 
 
 def _pair_sentence(an: Analysis, row: Any, interval: str) -> str:
-    d, lo, hi = row.difference, row.ci_low, row.ci_high
+    d, (lo, hi) = row.difference, row.ci
     a_lab, b_lab = row.group_a, row.group_b
     if d < 0:
         a_lab, b_lab, d, lo, hi = b_lab, a_lab, -d, -hi, -lo

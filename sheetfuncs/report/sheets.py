@@ -579,7 +579,7 @@ def build_chart(an: Analysis, layout: DataLayout) -> Grid:
         g.put(r, 2, s.label)
         g.put(r, 3, s.mean, Style(num=prec.mean_format(s.mean)))
         if s.n > 1:
-            for col, v in ((4, s.ci_low), (5, s.ci_high), (6, s.mean - s.ci_low), (7, s.ci_high - s.mean)):
+            for col, v in ((4, s.ci.low), (5, s.ci.high), (6, s.mean - s.ci.low), (7, s.ci.high - s.mean)):
                 g.put(r, col, v, Style(num=prec.mean_format(v)))
         else:
             g.put(r, 4, math.nan)

@@ -62,8 +62,6 @@ __all__ = [
     "prepare_with_variances",
 ]
 
-_HEADER_F = ("Test", "Statistic", "df1", "df2", "p")
-
 
 # --------------------------------------------------------------------------------------------
 # shared per-group quantities
@@ -173,10 +171,12 @@ class _HeteroscedasticF:
     exact: bool = False
 
     name: ClassVar[str] = ""
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Test", "Statistic", "df1", "df2", "p")
 
     def table(self) -> list[list[Any]]:
         """Header row, then one row for the test."""
-        return [list(_HEADER_F), [self.name, self.statistic, self.df1, self.df2, self.p]]
+        return [list(self.HEADER), [self.name, self.statistic, self.df1, self.df2, self.p]]
 
 
 @dataclass(frozen=True)
@@ -309,10 +309,13 @@ class KruskalResult:
     tie_correction: float = 1.0
     mean_ranks: tuple[float, ...] = ()
 
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Test", "Statistic", "df", "p", "Rank epsilon squared")
+
     def table(self) -> list[list[Any]]:
         """Header row, then one row for the test."""
         return [
-            ["Test", "Statistic", "df", "p", "Rank epsilon squared"],
+            list(self.HEADER),
             ["Kruskal-Wallis", self.statistic, self.df, self.p, self.rank_epsilon_squared],
         ]
 

@@ -41,7 +41,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from fractions import Fraction
-from typing import Any
+from typing import Any, ClassVar
 
 import numpy as np
 from scipy import special, stats
@@ -183,17 +183,20 @@ class LeveneResult:
     """Levene's test of equal variances (``center="mean"``) or its Brown–Forsythe form
     (``center="median"``): the one-way F test on absolute deviations from each group's centre.
 
-    Fields: ``statistic`` (F), ``df1 = k - 1``, ``df2 = N - k``, ``p`` (upper tail of
-    F(df1, df2)), ``center`` (``"median"`` or ``"mean"``).
+    Fields: ``statistic`` (F), ``df_between = k - 1``, ``df_within = N - k``, ``p`` (upper
+    tail of F(df_between, df_within)), ``center`` (``"median"`` or ``"mean"``).
 
     Sources: Levene (1960); Brown & Forsythe (1974), *JASA* 69, 364–367.
     """
 
     statistic: float
-    df1: int
-    df2: int
+    df_between: int
+    df_within: int
     p: float
     center: str
+
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Test", "Statistic", "df1", "df2", "p")
 
     @property
     def name(self) -> str:
@@ -202,8 +205,8 @@ class LeveneResult:
     def table(self) -> list[list[Any]]:
         """Header row, then one row for the test."""
         return [
-            ["Test", "Statistic", "df1", "df2", "p"],
-            [self.name, self.statistic, self.df1, self.df2, self.p],
+            list(self.HEADER),
+            [self.name, self.statistic, self.df_between, self.df_within, self.p],
         ]
 
 
@@ -246,7 +249,7 @@ def levene(groups: Any, center: str = "median", *, exact: bool | None = None) ->
         shift = -math.frexp(top)[1]
         z = [np.ldexp(a, shift) for a in z]
     ow = oneway(dict(zip(g.labels, z)))
-    return LeveneResult(statistic=ow.f, df1=ow.df_between, df2=ow.df_within, p=ow.p, center=c)
+    return LeveneResult(statistic=ow.f, df_between=ow.df_between, df_within=ow.df_within, p=ow.p, center=c)
 
 
 # --------------------------------------------------------------------------------------------
@@ -269,9 +272,12 @@ class BartlettResult:
     p: float
     exact: bool = False
 
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Test", "Statistic", "df", "p")
+
     def table(self) -> list[list[Any]]:
         """Header row, then one row for the test."""
-        return [["Test", "Statistic", "df", "p"], ["Bartlett", self.statistic, self.df, self.p]]
+        return [list(self.HEADER), ["Bartlett", self.statistic, self.df, self.p]]
 
 
 def _u_minus_log1p(u: float) -> float:
@@ -487,10 +493,13 @@ class NormalityResult:
     method: str
     left_out: tuple[str, ...] = ()
 
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Test", "Statistic", "n", "p")
+
     def table(self) -> list[list[Any]]:
         """Header row, then one row for the test."""
         return [
-            ["Test", "Statistic", "n", "p"],
+            list(self.HEADER),
             [f"{self.method} (residuals)", self.statistic, self.n, self.p],
         ]
 
@@ -580,6 +589,9 @@ class ChecksResult:
     not_available: tuple[tuple[str, str], ...] = ()
     caution: str = CAUTION
 
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Check", "Statistic", "df", "p", "Reading")
+
     @property
     def read_name(self) -> str:
         """The test to read, in words."""
@@ -601,7 +613,7 @@ class ChecksResult:
         """Header row (Check, Statistic, df, p, Reading), the test to read, then one row per check."""
         a = self.alpha
         ow, w, kw, lev, b, nm = self.oneway, self.welch, self.kruskal, self.levene, self.bartlett, self.normality
-        rows: list[list[Any]] = [["Check", "Statistic", "df", "p", "Reading"]]
+        rows: list[list[Any]] = [list(self.HEADER)]
         if self.read == "welch" and w is not None:
             rows.append(["Read", w.statistic, _df_text(w.df1, w.df2), w.p, self.read_name])
         elif self.read == "kruskal" and kw is not None:
@@ -609,7 +621,7 @@ class ChecksResult:
         else:
             rows.append(["Read", ow.f, _df_text(ow.df_between, ow.df_within), ow.p, self.read_name])
         rows.append(self._row(
-            "Levene (median)", lev, lambda: (lev.statistic, _df_text(lev.df1, lev.df2), lev.p),
+            "Levene (median)", lev, lambda: (lev.statistic, _df_text(lev.df_between, lev.df_within), lev.p),
             lambda: "variances look unequal" if lev.p < a else "no sign of unequal variances"))
         ratio = self.sd_ratio
         if math.isnan(ratio):

@@ -43,7 +43,7 @@ import math
 from collections.abc import Callable
 from dataclasses import dataclass
 from fractions import Fraction
-from typing import Any
+from typing import Any, ClassVar
 
 from scipy import stats
 
@@ -56,6 +56,7 @@ from ..distributions.mvt import (
 )
 from .oneway import oneway_from_moments, require_two_groups
 from ..input.options import check_alpha, shown
+from .interval import Interval
 
 __all__ = ["METHODS", "PairRow", "PairwiseResult", "pairwise", "dunnett", "parse_method"]
 
@@ -125,8 +126,8 @@ def _interval_label(method: str, alpha: float) -> str:
 class PairRow:
     """One comparison.
 
-    ``difference = mean(group_a) - mean(group_b)``; ``se`` its standard error; ``ci_low`` and
-    ``ci_high`` the interval for it (see the result's ``interval``); ``statistic`` the method's
+    ``difference = mean(group_a) - mean(group_b)``; ``se`` its standard error; ``ci`` the
+    interval for it (see the result's ``interval``); ``statistic`` the method's
     test statistic (``q``, ``t`` or ``F``, see the result's ``statistic_name``); ``p`` the
     adjusted p-value (at most 1); ``differs`` is ``p < alpha``.
     """
@@ -135,8 +136,7 @@ class PairRow:
     group_b: str
     difference: float
     se: float
-    ci_low: float
-    ci_high: float
+    ci: Interval
     statistic: float
     p: float
     differs: bool
@@ -144,7 +144,7 @@ class PairRow:
     def cells(self) -> list[Any]:
         """The row as table cells."""
         return [
-            self.group_a, self.group_b, self.difference, self.se, self.ci_low, self.ci_high,
+            self.group_a, self.group_b, self.difference, self.se, *self.ci,
             self.statistic, self.p, self.differs,
         ]
 
@@ -158,8 +158,8 @@ class PairwiseResult:
     level; ``rows`` one :class:`PairRow` per comparison (every unordered pair once, in group
     order; for Dunnett one row per treatment against the control); ``interval`` a short label
     of what the intervals are; ``statistic_name`` ``q`` (studentized range), ``t`` or ``F``;
-    ``labels``, ``counts``, ``means`` of the groups; ``mse`` and ``df`` the pooled mean square
-    error and residual degrees of freedom (``None`` for Games–Howell, which uses each pair's own
+    ``labels``, ``counts``, ``means`` of the groups; ``ms_within`` and ``df_within`` the pooled
+    residual mean square and its degrees of freedom (``None`` for Games–Howell, which uses each pair's own
     variances); ``row_df`` the degrees of freedom behind each row; ``multipliers`` the factor
     that turns each row's SE into its interval half-width (for q-based methods ``q/sqrt 2``);
     ``control`` the control's label (Dunnett only); ``exact`` whether means and sums of squares
@@ -175,20 +175,24 @@ class PairwiseResult:
     labels: tuple[str, ...]
     counts: tuple[int, ...]
     means: tuple[float, ...]
-    mse: float | None
-    df: float | None
+    ms_within: float | None
+    df_within: float | None
     row_df: tuple[float, ...]
     multipliers: tuple[float, ...]
     exact: bool
     control: str | None = None
     notes: tuple[str, ...] = ()
 
+    #: The table's header row, with ``{interval}`` and ``{statistic}`` for the result's own
+    #: interval label and statistic name (:meth:`header`).
+    HEADER: ClassVar[tuple[str, ...]] = (
+        "Group A", "Group B", "Difference", "SE", "CI low ({interval})", "CI high ({interval})",
+        "{statistic}", "p", "Differs",
+    )
+
     def header(self) -> list[str]:
         """The table's header row; the interval label is part of the CI column names."""
-        return [
-            "Group A", "Group B", "Difference", "SE", f"CI low ({self.interval})",
-            f"CI high ({self.interval})", self.statistic_name, "p", "Differs",
-        ]
+        return [h.format(interval=self.interval, statistic=self.statistic_name) for h in self.HEADER]
 
     def table(self) -> list[list[Any]]:
         """Header row, then one row per comparison (spill layout)."""
@@ -222,25 +226,25 @@ def _pooled(g: Groups, mom: ExactMoments | FloatMoments) -> tuple[float, int, Fr
     """``(MSE, df, exact MSE or None)`` of the one-way model (its checks included)."""
     ow = oneway_from_moments(g, mom)
     if ow.exact and ow.ss_within_exact is not None:
-        mse_x = ow.ss_within_exact / ow.df_within
-        return float(mse_x), ow.df_within, mse_x
+        msw_x = ow.ss_within_exact / ow.df_within
+        return float(msw_x), ow.df_within, msw_x
     return ow.ms_within, ow.df_within, None
 
 
-def _se(mse: float, mse_x: Fraction | None, na: int, nb: int) -> float:
-    if mse_x is not None:
-        return math.sqrt(float(mse_x * Fraction(na + nb, na * nb)))
-    return math.sqrt(mse * (1.0 / na + 1.0 / nb))
+def _se(msw: float, msw_x: Fraction | None, na: int, nb: int) -> float:
+    if msw_x is not None:
+        return math.sqrt(float(msw_x * Fraction(na + nb, na * nb)))
+    return math.sqrt(msw * (1.0 / na + 1.0 / nb))
 
 
-def _se_table(mse: float, mse_x: Fraction | None) -> Callable[[int, int], float]:
+def _se_table(msw: float, msw_x: Fraction | None) -> Callable[[int, int], float]:
     """:func:`_se` for one family, each pair of group sizes computed once."""
     seen: dict[tuple[int, int], float] = {}
 
     def se(na: int, nb: int) -> float:
         key = (na, nb) if na <= nb else (nb, na)
         if key not in seen:
-            seen[key] = _se(mse, mse_x, na, nb)
+            seen[key] = _se(msw, msw_x, na, nb)
         return seen[key]
 
     return se
@@ -352,10 +356,10 @@ def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> Pairwis
         ]
         return _result(g, mom, meth, a, rows, None, None, row_df, mults, notes)
 
-    mse, df, mse_x = _pooled(g, mom)
-    if mse == 0.0:
+    msw, df, msw_x = _pooled(g, mom)
+    if msw == 0.0:
         notes.append(_NO_VARIATION)
-    se_of = _se_table(mse, mse_x)
+    se_of = _se_table(msw, msw_x)
     ses = [se_of(counts[i], counts[j]) for i, j in pairs]
     ts = [_ratio(d, se) for d, se in zip(diffs, ses)]
 
@@ -390,7 +394,7 @@ def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> Pairwis
         _row(g, i, j, d, se, mult, s, p, a)
         for (i, j), d, se, s, p in zip(pairs, diffs, ses, stat, ps)
     ]
-    return _result(g, mom, meth, a, rows, mse, float(df), [float(df)] * m, [mult] * m, notes)
+    return _result(g, mom, meth, a, rows, msw, float(df), [float(df)] * m, [mult] * m, notes)
 
 
 def _row(g: Groups, i: int, j: int, d: float, se: float, mult: float, stat: float, p: float,
@@ -398,16 +402,17 @@ def _row(g: Groups, i: int, j: int, d: float, se: float, mult: float, stat: floa
     half = mult * se
     p = min(1.0, max(0.0, float(p)))
     return PairRow(
-        group_a=g.labels[i], group_b=g.labels[j], difference=d, se=se, ci_low=d - half,
-        ci_high=d + half, statistic=float(stat), p=p, differs=bool(p < alpha),
+        group_a=g.labels[i], group_b=g.labels[j], difference=d, se=se,
+        ci=Interval(d - half, d + half), statistic=float(stat), p=p, differs=bool(p < alpha),
     )
 
 
-def _result(g, mom, meth, a, rows, mse, df, row_df, mults, notes, control=None) -> PairwiseResult:
+def _result(g, mom, meth, a, rows, ms_within, df_within, row_df, mults, notes, control=None) -> PairwiseResult:
     return PairwiseResult(
         method=meth, alpha=a, rows=tuple(rows), interval=_interval_label(meth, a),
         statistic_name=_STATISTIC[meth], method_name=_NAMES[meth], labels=g.labels,
-        counts=g.counts, means=_means(g, mom), mse=mse, df=df, row_df=tuple(row_df),
+        counts=g.counts, means=_means(g, mom), ms_within=ms_within, df_within=df_within,
+        row_df=tuple(row_df),
         multipliers=tuple(mults), exact=mom.exact, control=control, notes=tuple(notes),
     )
 
@@ -443,9 +448,9 @@ def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
     a = check_alpha(alpha)
     mom = compute_moments(g, None)
     c = g.labels.index(lab)
-    mse, df, mse_x = _pooled(g, mom)
+    msw, df, msw_x = _pooled(g, mom)
     notes: list[str] = []
-    if mse == 0.0:
+    if msw == 0.0:
         notes.append(_NO_VARIATION)
     treat = [i for i in range(g.k) if i != c]
     counts = g.counts
@@ -453,11 +458,11 @@ def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
     lam = [math.sqrt(counts[i] / (counts[i] + n0)) for i in treat]
     crit = many_to_one_critical(a, lam, df)
     ds = [_difference(mom, i, c) for i in treat]
-    se_of = _se_table(mse, mse_x)
+    se_of = _se_table(msw, msw_x)
     ses = [se_of(counts[i], n0) for i in treat]
     ts = [_ratio(d, se) for d, se in zip(ds, ses)]
     ps = many_to_one_tails([abs(t) for t in ts], lam, df).tolist()  # inf gives 0
     rows = [_row(g, i, c, d, se, crit, t, p, a) for i, d, se, t, p in zip(treat, ds, ses, ts, ps)]
     m = len(treat)
-    return _result(g, mom, "dunnett", a, rows, mse, float(df), [float(df)] * m, [crit] * m,
+    return _result(g, mom, "dunnett", a, rows, msw, float(df), [float(df)] * m, [crit] * m,
                    notes, control=lab)

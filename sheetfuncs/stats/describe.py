@@ -12,7 +12,7 @@ import decimal
 import math
 from fractions import Fraction
 from dataclasses import dataclass
-from typing import Any
+from typing import Any, ClassVar
 
 import numpy as np
 from scipy import stats
@@ -20,29 +20,26 @@ from scipy import stats
 from ..input.groups import as_groups
 from .moments import check_float_zero_spread, check_ss_range, compute_moments
 from ..input.options import check_conf
+from .interval import Interval
 
 __all__ = ["GroupSummary", "DescribeResult", "describe"]
 
-HEADER = ("Group", "n", "Mean", "SD", "SE", "CI low", "CI high", "Min", "Median", "Max")
-
-
 @dataclass(frozen=True)
 class GroupSummary:
-    """Summary of one group (``sd`` uses n - 1)."""
+    """Summary of one group (``sd`` uses n - 1; ``ci`` the t interval for the mean)."""
 
     label: str
     n: int
     mean: float
     sd: float
     se: float
-    ci_low: float
-    ci_high: float
+    ci: Interval
     min: float
     median: float
     max: float
 
     def row(self) -> list[Any]:
-        return [self.label, self.n, self.mean, self.sd, self.se, self.ci_low, self.ci_high,
+        return [self.label, self.n, self.mean, self.sd, self.se, *self.ci,
                 self.min, self.median, self.max]
 
 
@@ -53,6 +50,11 @@ class DescribeResult:
     groups: tuple[GroupSummary, ...]
     conf: float
     exact: bool
+
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = (
+        "Group", "n", "Mean", "SD", "SE", "CI low", "CI high", "Min", "Median", "Max",
+    )
 
     def __getitem__(self, label: str) -> GroupSummary:
         for s in self.groups:
@@ -67,7 +69,7 @@ class DescribeResult:
         return len(self.groups)
 
     def table(self) -> list[list[Any]]:
-        return [list(HEADER)] + [s.row() for s in self.groups]
+        return [list(self.HEADER)] + [s.row() for s in self.groups]
 
 
 def _median(a: np.ndarray, exact: bool) -> float:
@@ -105,6 +107,6 @@ def describe(groups: Any, conf: float = 0.95, *, exact: bool | None = None) -> D
         else:
             sd = se = lo = hi = math.nan
         out.append(
-            GroupSummary(label, n, mean, sd, se, lo, hi, float(a.min()), _median(a, mom.exact), float(a.max()))
+            GroupSummary(label, n, mean, sd, se, Interval(lo, hi), float(a.min()), _median(a, mom.exact), float(a.max()))
         )
     return DescribeResult(tuple(out), c, mom.exact)

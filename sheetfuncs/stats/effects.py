@@ -31,7 +31,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from fractions import Fraction
-from typing import Any
+from typing import Any, ClassVar
 
 from scipy import optimize, stats
 
@@ -42,13 +42,11 @@ from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
 from .planning import ncf_cdf
 from ..input.options import check_conf, shown
+from .interval import Interval
 
 __all__ = ["EffectSizes", "effect_sizes", "noncentrality_interval"]
 
 _BIG = 1.7976931348623157e308
-
-TABLE_HEADER = ("Measure", "Value", "CI low", "CI high", "Note")
-
 
 def _pct(conf: float) -> str:
     return f"{conf * 100:.10g}%"
@@ -62,7 +60,7 @@ class EffectSizes:
     ``omega_squared`` and ``epsilon_squared`` (bias-corrected shares, truncated at 0; the
     untruncated values are ``omega_squared_raw`` and ``epsilon_squared_raw``), ``cohens_f``
     (``inf`` when there is no variation within groups); ``eta_squared_ci`` and ``cohens_f_ci``
-    (low, high) at confidence ``conf``, from ``lambda_ci``, the equal-tailed interval for the
+    (:class:`~sheetfuncs.stats.interval.Interval`) at confidence ``conf``, from ``lambda_ci``, the equal-tailed interval for the
     noncentrality of the observed F; ``f``, ``df_between``, ``df_within`` and ``n_total`` of the
     one-way analysis; ``exact`` tells whether the decimal-exact sums of squares were used;
     ``notes`` holds plain-language remarks (truncation, degenerate intervals), and
@@ -79,10 +77,10 @@ class EffectSizes:
     omega_squared: float
     epsilon_squared: float
     cohens_f: float
-    eta_squared_ci: tuple[float, float]
-    cohens_f_ci: tuple[float, float]
+    eta_squared_ci: Interval
+    cohens_f_ci: Interval
     conf: float
-    lambda_ci: tuple[float, float]
+    lambda_ci: Interval
     notes: tuple[str, ...]
     omega_squared_raw: float
     epsilon_squared_raw: float
@@ -92,6 +90,9 @@ class EffectSizes:
     n_total: int
     exact: bool
     interval_note: str = ""
+
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Measure", "Value", "CI low", "CI high", "Note")
 
     def table(self) -> list[list[Any]]:
         """Header row (Measure, Value, CI low, CI high, Note), then one row per measure."""
@@ -105,7 +106,7 @@ class EffectSizes:
         if self.interval_note:  # said where the intervals are, on both rows that carry one
             ci += f"; {self.interval_note}"
         return [
-            list(TABLE_HEADER),
+            list(self.HEADER),
             ["Eta squared", self.eta_squared, *self.eta_squared_ci,
              f"share of the variation between groups; {ci}"],
             ["Omega squared", self.omega_squared, None, None, om_note],
@@ -117,7 +118,7 @@ class EffectSizes:
 
 def noncentrality_interval(
     f_obs: float, df1: float, df2: float, conf: float = 0.95
-) -> tuple[float, float]:
+) -> Interval:
     """Equal-tailed interval for the noncentrality of an observed F (Steiger 2004).
 
     ``lambda_low`` solves ``P(F' <= f_obs; lambda) = 1 - a/2`` and ``lambda_high`` solves
@@ -135,9 +136,9 @@ def noncentrality_interval(
     if x < 0:
         raise InputError(f"the F value must not be negative, not {shown(f_obs)}")
     if math.isinf(x):
-        return math.inf, math.inf
+        return Interval(math.inf, math.inf)
     a = 1.0 - conf
-    return _solve_lambda(x, d1, d2, 1.0 - a / 2.0), _solve_lambda(x, d1, d2, a / 2.0)
+    return Interval(_solve_lambda(x, d1, d2, 1.0 - a / 2.0), _solve_lambda(x, d1, d2, a / 2.0))
 
 
 def _solve_lambda(x: float, d1: float, d2: float, target: float) -> float:
@@ -176,7 +177,7 @@ def _sqrt_ratio(num: Fraction, den: Fraction) -> float:
 
 def _overflow_f_limits(
     ssb: Fraction, ssw: Fraction, dfw: int, n: int, conf: float
-) -> tuple[float, float]:
+) -> Interval:
     """Interval for Cohen's f when the observed F lies beyond the double range (``ssw > 0``).
 
     The noncentrality is then beyond the double range too, where the noncentral F
@@ -190,7 +191,7 @@ def _overflow_f_limits(
     a = 1.0 - conf
     q_lo = float(stats.chi2.ppf(a / 2.0, dfw))  # P(F' <= F_obs) = 1 - a/2 at the lower limit
     q_hi = float(stats.chi2.isf(a / 2.0, dfw))  # ... = a/2 at the upper limit
-    return (_sqrt_ratio(ssb * Fraction(q_lo), ssw * n), _sqrt_ratio(ssb * Fraction(q_hi), ssw * n))
+    return Interval(_sqrt_ratio(ssb * Fraction(q_lo), ssw * n), _sqrt_ratio(ssb * Fraction(q_hi), ssw * n))
 
 
 def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) -> EffectSizes:
@@ -260,17 +261,17 @@ def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) ->
     if math.isinf(res.f) and ssw != 0:
         f_ci = _overflow_f_limits(ssb, ssw, dfw, n, cf)
     else:
-        f_ci = (to_f(lam_lo), to_f(lam_hi))
+        f_ci = Interval(to_f(lam_lo), to_f(lam_hi))
 
     return EffectSizes(
         eta_squared=eta,
         omega_squared=max(omega_raw, 0.0),
         epsilon_squared=max(eps_raw, 0.0),
         cohens_f=f_eff,
-        eta_squared_ci=(to_eta(lam_lo), to_eta(lam_hi)),
+        eta_squared_ci=Interval(to_eta(lam_lo), to_eta(lam_hi)),
         cohens_f_ci=f_ci,
         conf=cf,
-        lambda_ci=(lam_lo, lam_hi),
+        lambda_ci=Interval(lam_lo, lam_hi),
         notes=tuple(notes),
         omega_squared_raw=omega_raw,
         epsilon_squared_raw=eps_raw,

@@ -22,7 +22,7 @@ from __future__ import annotations
 import string
 from collections.abc import Iterator, Mapping, Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import Any, ClassVar
 
 from ..errors import InputError
 from .comparisons import PairwiseResult, pairwise, parse_method
@@ -121,6 +121,9 @@ class LettersResult(Mapping):
     alpha: float
     comparisons: PairwiseResult
 
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Group", "Mean", "Letters")
+
     def __getitem__(self, label: str) -> str:
         try:
             return self.letters[self.labels.index(label)]
@@ -139,7 +142,7 @@ class LettersResult(Mapping):
     def table(self) -> list[list[Any]]:
         """Header (Group, Mean, Letters), then groups by mean, highest first (spill layout)."""
         order = sorted(range(len(self.labels)), key=lambda g: (-self.means[g], g))
-        return [["Group", "Mean", "Letters"]] + [
+        return [list(self.HEADER)] + [
             [self.labels[g], self.means[g], self.letters[g]] for g in order
         ]
 

@@ -17,7 +17,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 from fractions import Fraction
-from typing import Any
+from typing import Any, ClassVar
 
 import numpy as np
 from scipy import stats
@@ -28,6 +28,7 @@ from ..input.groups import Groups, as_groups, format_label
 from .moments import check_float_zero_spread, check_ss_range, compute_moments, rounded
 from .oneway import require_two_groups
 from ..input.options import as_real, check_conf, one_line, shown
+from .interval import Interval
 
 __all__ = ["LinearTestResult", "ContrastResult", "linear_test", "contrast", "per_group_argument"]
 
@@ -69,13 +70,16 @@ class LinearTestResult:
     exact: bool
     ss_difference: float = math.nan  # SSE(R) - SSE(F), rounded once (not the difference of the rounded parts)
 
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Model", "df", "SS", "MS", "F", "p")
+
     @property
     def df_difference(self) -> int:
         return self.df_reduced - self.df_full
 
     def table(self) -> list[list[Any]]:
         return [
-            ["Model", "df", "SS", "MS", "F", "p"],
+            list(self.HEADER),
             ["Reduced residual", self.df_reduced, self.ss_reduced, self.ss_reduced / self.df_reduced, None, None],
             ["Full residual", self.df_full, self.ss_full, self.ss_full / self.df_full, None, None],
             ["Difference", self.df_difference, self.ss_difference,
@@ -142,7 +146,7 @@ def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = Non
 @dataclass(frozen=True)
 class ContrastResult:
     """A contrast sum w_i mu_i: ``estimate``, ``se``, ``t``, ``df``, two-sided ``p``, and the
-    ``conf`` interval ``ci_low``..``ci_high``."""
+    ``conf`` interval ``ci``."""
 
     weights: tuple[float, ...]
     estimate: float
@@ -150,15 +154,17 @@ class ContrastResult:
     t: float
     df: int
     p: float
-    ci_low: float
-    ci_high: float
+    ci: Interval
     conf: float
     exact: bool = False
 
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Estimate", "SE", "t", "df", "p", "CI low", "CI high")
+
     def table(self) -> list[list[Any]]:
         return [
-            ["Estimate", "SE", "t", "df", "p", "CI low", "CI high"],
-            [self.estimate, self.se, self.t, self.df, self.p, self.ci_low, self.ci_high],
+            list(self.HEADER),
+            [self.estimate, self.se, self.t, self.df, self.p, *self.ci],
         ]
 
 
@@ -239,5 +245,5 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     est, se, lo, hi = (_scale_back(v, e) for v in (est, se, lo, hi))
     return ContrastResult(
         weights=tuple(w), estimate=est, se=se, t=t, df=df, p=min(p, 1.0),
-        ci_low=lo, ci_high=hi, conf=c, exact=mom.exact,
+        ci=Interval(lo, hi), conf=c, exact=mom.exact,
     )

@@ -16,7 +16,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 from fractions import Fraction
-from typing import Any
+from typing import Any, ClassVar
 
 import numpy as np
 
@@ -30,9 +30,6 @@ from .moments import (
 )
 
 __all__ = ["OneWayResult", "oneway", "oneway_from_moments", "oneway_from_summary", "require_two_groups"]
-
-TABLE_HEADER = ("Source", "df", "SS", "MS", "F", "p")
-
 
 @dataclass(frozen=True)
 class OneWayResult:
@@ -70,11 +67,14 @@ class OneWayResult:
     ss_total_exact: Fraction | None = None
     factor: str = "Factor"
 
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Source", "df", "SS", "MS", "F", "p")
+
     def table(self, factor: str | None = None) -> list[list[Any]]:
         """Header row plus the ``Factor``, ``Residual`` and ``Total`` rows."""
         name = factor or self.factor
         return [
-            list(TABLE_HEADER),
+            list(self.HEADER),
             [name, self.df_between, self.ss_between, self.ms_between, self.f, self.p],
             ["Residual", self.df_within, self.ss_within, self.ms_within, None, None],
             ["Total", self.df_total, self.ss_total, None, None, None],

@@ -28,7 +28,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any
+from typing import Any, ClassVar
 
 from scipy import optimize, special, stats
 
@@ -125,12 +125,12 @@ def _n_arg(n: Any) -> int:
     return _whole(n, "n (values per group)", 2)
 
 
-def _f_arg(f: Any) -> float:
-    v = check_number(f, "the effect size f")
+def _f_arg(cohens_f: Any) -> float:
+    v = check_number(cohens_f, "the effect size f")
     if v <= 0.0:
         raise InputError(
             f"the effect size f must be greater than 0 (Cohen's guide: 0.1 small, "
-            f"0.25 medium, 0.4 large), not {shown(f)}"
+            f"0.25 medium, 0.4 large), not {shown(cohens_f)}"
         )
     return v
 
@@ -153,28 +153,28 @@ def _dfs(k: int, n: int) -> tuple[int, int]:
     return k - 1, k * (n - 1)
 
 
-def _power(k: int, n: int, f: float, alpha: float) -> float:
+def _power(k: int, n: int, cohens_f: float, alpha: float) -> float:
     d1, d2 = _dfs(k, n)
     crit = f_critical(alpha, d1, d2)
-    return ncf_sf(crit, d1, d2, k * n * f * f)
+    return ncf_sf(crit, d1, d2, k * n * cohens_f * cohens_f)
 
 
-def _sample_size(k: int, f: float, target: float, alpha: float) -> int:
-    if _power(k, 2, f, alpha) >= target:
+def _sample_size(k: int, cohens_f: float, target: float, alpha: float) -> int:
+    if _power(k, 2, cohens_f, alpha) >= target:
         return 2
     lo, hi = 2, 4
-    while _power(k, hi, f, alpha) < target:
+    while _power(k, hi, cohens_f, alpha) < target:
         lo = hi
         if hi >= MAX_PER_GROUP:
             raise InputError(
-                f"an effect of f = {f:g} is too small to plan for: more than "
+                f"an effect of f = {cohens_f:g} is too small to plan for: more than "
                 f"{MAX_PER_GROUP:.0e} values per group would be needed for power {target:g}; "
                 "check the effect size"
             )
         hi = min(2 * hi, MAX_PER_GROUP)
     while hi - lo > 1:  # power(lo) < target <= power(hi)
         mid = (lo + hi) // 2
-        if _power(k, mid, f, alpha) >= target:
+        if _power(k, mid, cohens_f, alpha) >= target:
             hi = mid
         else:
             lo = mid
@@ -201,31 +201,31 @@ def _detectable(k: int, n: int, target: float, alpha: float) -> float:
 # public functions returning plain numbers
 
 
-def power(k: Any, n: Any, f: Any, alpha: Any = 0.05) -> float:
-    """Power of the one-way F test with ``k`` groups of ``n`` values when the effect size is ``f``.
+def power(k: Any, n: Any, cohens_f: Any, alpha: Any = 0.05) -> float:
+    """Power of the one-way F test with ``k`` groups of ``n`` values at Cohen's effect size ``cohens_f``.
 
     Balanced one-way model; noncentral F with ``lambda = k n f^2`` and degrees of freedom
     ``(k - 1, k (n - 1))`` (Cohen 1988, ch. 8).
     """
-    kk, nn, ff, a = _groups_arg(k), _n_arg(n), _f_arg(f), check_alpha(alpha)
+    kk, nn, ff, a = _groups_arg(k), _n_arg(n), _f_arg(cohens_f), check_alpha(alpha)
     return _power(kk, nn, ff, a)
 
 
-def sample_size(k: Any, f: Any, power: Any = 0.8, alpha: Any = 0.05) -> int:
+def sample_size(k: Any, cohens_f: Any, power: Any = 0.8, alpha: Any = 0.05) -> int:
     """The smallest whole number of values per group for which the power reaches ``power``.
 
-    Balanced one-way model, Cohen's ``f``, noncentral F (Cohen 1988, ch. 8). For ``k = 4``,
-    ``f = 0.25``, ``alpha = 0.05`` and power 0.80 this gives 45 per group, as Cohen's table.
+    Balanced one-way model, Cohen's f (``cohens_f``), noncentral F (Cohen 1988, ch. 8). For
+    ``k = 4``, ``cohens_f = 0.25``, ``alpha = 0.05`` and power 0.80 this gives 45 per group, as Cohen's table.
     """
-    kk, ff, a = _groups_arg(k), _f_arg(f), check_alpha(alpha)
+    kk, ff, a = _groups_arg(k), _f_arg(cohens_f), check_alpha(alpha)
     target = _power_arg(power, a)
     return _sample_size(kk, ff, target, a)
 
 
 def detectable_effect(k: Any, n: Any, power: Any = 0.8, alpha: Any = 0.05) -> float:
-    """The effect size ``f`` that ``k`` groups of ``n`` values detect with probability ``power``.
+    """Cohen's effect size f that ``k`` groups of ``n`` values detect with probability ``power``.
 
-    Solves ``power(k, n, f, alpha) = power`` for ``f`` by a bracketing root finder on the
+    Solves ``power(k, n, cohens_f, alpha) = power`` for ``cohens_f`` by a bracketing root finder on the
     noncentrality (Cohen 1988, ch. 8).
     """
     kk, nn, a = _groups_arg(k), _n_arg(n), check_alpha(alpha)
@@ -237,34 +237,35 @@ def detectable_effect(k: Any, n: Any, power: Any = 0.8, alpha: Any = 0.05) -> fl
 # a richer result for reports
 
 
-PLAN_HEADER = ("Quantity", "Value", "Note")
-
-
 @dataclass(frozen=True)
 class PowerPlan:
     """A worked power plan for a balanced one-way study (Cohen 1988, ch. 8).
 
-    Fields: ``k`` groups of ``n`` values (``total_n = k n``); ``f`` Cohen's effect size;
+    Fields: ``k`` groups of ``n`` values (``n_total = k n``); ``cohens_f`` Cohen's effect size f;
     ``alpha``; ``power`` the power of that design (when ``n`` was solved for, the achieved power,
     at least ``target_power``); ``target_power`` (``None`` unless ``n`` was solved for);
-    ``df1 = k - 1`` and ``df2 = k (n - 1)``; ``critical_f`` the upper alpha point of
-    F(df1, df2); ``noncentrality = k n f^2``; ``solved_for`` is ``"n"``, ``"f"`` or
+    ``df_between = k - 1`` and ``df_within = k (n - 1)``; ``critical_f`` the upper alpha point
+    of F(df_between, df_within); ``noncentrality = k n f^2``; ``solved_for`` is ``"n"``,
+    ``"cohens_f"`` or
     ``"power"``; ``notes`` plain-language remarks.
     """
 
     k: int
     n: int
-    f: float
+    cohens_f: float
     alpha: float
     power: float
     target_power: float | None
-    df1: int
-    df2: int
+    df_between: int
+    df_within: int
     critical_f: float
     noncentrality: float
-    total_n: int
+    n_total: int
     solved_for: str
     notes: tuple[str, ...]
+
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Quantity", "Value", "Note")
 
     def table(self) -> list[list[Any]]:
         """Header row, then one row per quantity; the Note says which one was solved for."""
@@ -276,49 +277,50 @@ class PowerPlan:
         if self.solved_for == "n":
             power_note = f"achieved (at least {self.target_power:g} asked)"
         return [
-            list(PLAN_HEADER),
+            list(self.HEADER),
             ["Groups", self.k, "given"],
             ["Values per group", self.n, note("n")],
-            ["Total values", self.total_n, "groups x values per group"],
-            ["Effect size f", self.f, note("f")],
+            ["Total values", self.n_total, "groups x values per group"],
+            ["Effect size f", self.cohens_f, note("cohens_f")],
             ["Alpha", self.alpha, "given"],
             ["Power", self.power, power_note],
-            ["Critical F", self.critical_f, f"upper {self.alpha:g} point of F({self.df1}, {self.df2})"],
+            ["Critical F", self.critical_f, f"upper {self.alpha:g} point of F({self.df_between}, {self.df_within})"],
             ["Noncentrality", self.noncentrality, "groups x values per group x f squared"],
         ]
 
 
 def plan(
-    k: Any, n: Any = None, f: Any = None, power: Any = None, alpha: Any = 0.05
+    k: Any, n: Any = None, cohens_f: Any = None, power: Any = None, alpha: Any = 0.05
 ) -> PowerPlan:
-    """Solve a balanced one-way power plan: give ``k`` and exactly two of ``n``, ``f``, ``power``.
+    """Solve a balanced one-way power plan: give ``k`` and exactly two of ``n``, ``cohens_f``
+    and ``power``.
 
     The missing one is computed as :func:`sample_size`, :func:`detectable_effect` or
     :func:`power` would (Cohen 1988, ch. 8); the result carries the whole design.
     """
     kk = _groups_arg(k)
     a = check_alpha(alpha)
-    missing = [name for name, v in (("n", n), ("f", f), ("power", power)) if v is None or v == ""]
+    missing = [name for name, v in (("n", n), ("cohens_f", cohens_f), ("power", power)) if v is None or v == ""]
     if len(missing) != 1:
         raise InputError(
-            "give exactly two of n (values per group), f (effect size) and power; "
+            "give exactly two of n (values per group), cohens_f (effect size) and power; "
             f"the third is solved for (missing now: {', '.join(missing) or 'none'})"
         )
     target: float | None = None
     notes: list[str] = []
     if missing[0] == "n":
-        ff = _f_arg(f)
+        ff = _f_arg(cohens_f)
         target = _power_arg(power, a)
         nn = _sample_size(kk, ff, target, a)
         pw = _power(kk, nn, ff, a)
         if nn == 2 and pw >= target:
             notes.append("2 values per group (the fewest that leave an estimate of spread) already reach the power asked")
-    elif missing[0] == "f":
+    elif missing[0] == "cohens_f":
         nn = _n_arg(n)
         pw = _power_arg(power, a)
         ff = _detectable(kk, nn, pw, a)
     else:
-        nn, ff = _n_arg(n), _f_arg(f)
+        nn, ff = _n_arg(n), _f_arg(cohens_f)
         pw = _power(kk, nn, ff, a)
     d1, d2 = _dfs(kk, nn)
     notes.append(
@@ -326,7 +328,7 @@ def plan(
         "guide for f: 0.1 small, 0.25 medium, 0.4 large"
     )
     return PowerPlan(
-        k=kk, n=nn, f=ff, alpha=a, power=pw, target_power=target, df1=d1, df2=d2,
-        critical_f=f_critical(a, d1, d2), noncentrality=kk * nn * ff * ff, total_n=kk * nn,
+        k=kk, n=nn, cohens_f=ff, alpha=a, power=pw, target_power=target, df_between=d1, df_within=d2,
+        critical_f=f_critical(a, d1, d2), noncentrality=kk * nn * ff * ff, n_total=kk * nn,
         solved_for=missing[0], notes=tuple(notes),
     )

@@ -36,7 +36,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from fractions import Fraction
-from typing import Any
+from typing import Any, ClassVar
 
 from scipy import stats
 
@@ -45,10 +45,9 @@ from ..input.groups import as_groups
 from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
 from ..input.options import check_conf
+from .interval import Interval
 
 __all__ = ["VarianceComponents", "variance_components"]
-
-TABLE_HEADER = ("Component", "Estimate", "CI low", "CI high", "Share of total", "Note")
 
 #: The rows of ``VarianceComponents.table()`` after the header, in order.
 ROWS = ("Between groups", "Within groups", "Total", "Intraclass correlation", "Effective group size n0")
@@ -66,8 +65,8 @@ class VarianceComponents:
 
     Fields: ``within`` (MSW), ``between`` ((MSB - MSW)/n0, truncated at 0; the untruncated value
     is ``between_raw``), ``total = within + between``, ``icc = between / total``; ``n0`` the
-    effective group size; intervals ``within_ci``, ``between_ci``, ``total_ci``, ``icc_ci`` as
-    (low, high) at confidence ``conf``; ``method`` names the estimators and interval methods;
+    effective group size; intervals ``within_ci``, ``between_ci``, ``total_ci``, ``icc_ci`` (each an
+    :class:`~sheetfuncs.stats.interval.Interval`) at confidence ``conf``; ``method`` names the estimators and interval methods;
     ``notes`` plain-language remarks (truncation at 0, unequal sizes); ``ms_between``,
     ``ms_within``, ``df_between``, ``df_within``, ``k``, ``n_total``, ``balanced`` and ``exact``
     describe the one-way analysis behind them.
@@ -82,10 +81,10 @@ class VarianceComponents:
     total: float
     icc: float
     n0: float
-    within_ci: tuple[float, float]
-    between_ci: tuple[float, float]
-    total_ci: tuple[float, float]
-    icc_ci: tuple[float, float]
+    within_ci: Interval
+    between_ci: Interval
+    total_ci: Interval
+    icc_ci: Interval
     conf: float
     method: str
     notes: tuple[str, ...]
@@ -98,6 +97,9 @@ class VarianceComponents:
     n_total: int
     balanced: bool
     exact: bool
+
+    #: The table's header row.
+    HEADER: ClassVar[tuple[str, ...]] = ("Component", "Estimate", "CI low", "CI high", "Share of total", "Note")
 
     def table(self) -> list[list[Any]]:
         """Header row (Component, Estimate, CI low, CI high, Share of total, Note), then Between
@@ -112,7 +114,7 @@ class VarianceComponents:
             return "; ".join(by_row[row]) or None
 
         return [
-            list(TABLE_HEADER),
+            list(self.HEADER),
             [ROWS[0], self.between, *self.between_ci, self.icc, note(ROWS[0])],
             [ROWS[1], self.within, *self.within_ci, 1.0 - self.icc, note(ROWS[1])],
             [ROWS[2], self.total, *self.total_ci, 1.0, note(ROWS[2])],
@@ -170,7 +172,7 @@ def _mls_constants(a: float, n1: int, n2: int) -> tuple[float, float, float, flo
     return g1, g2, h1, h2
 
 
-def _between_mls(s1: float, s2: float, n1: int, n2: int, n0: float, a: float) -> tuple[float, float]:
+def _between_mls(s1: float, s2: float, n1: int, n2: int, n0: float, a: float) -> Interval:
     """Ting et al. (1990) MLS interval for (theta1 - theta2)/n0 (Burdick & Graybill 1992, ch. 3).
 
     ``s1 = MSB`` estimates theta1 with n1 df, ``s2 = MSW`` estimates theta2 with n2 df; each
@@ -186,30 +188,30 @@ def _between_mls(s1: float, s2: float, n1: int, n2: int, n0: float, a: float) ->
     d = s1 - s2
     low = (d - math.sqrt(max(v_lo, 0.0))) / n0
     high = (d + math.sqrt(max(v_hi, 0.0))) / n0
-    return max(low, 0.0), max(high, 0.0)
+    return Interval(max(low, 0.0), max(high, 0.0))
 
 
-def _total_mls(s1: float, s2: float, n1: int, n2: int, n0: float, a: float) -> tuple[float, float]:
+def _total_mls(s1: float, s2: float, n1: int, n2: int, n0: float, a: float) -> Interval:
     """Graybill & Wang (1980) MLS interval for theta1/n0 + (1 - 1/n0) theta2."""
     c1, c2 = 1.0 / n0, max(1.0 - 1.0 / n0, 0.0)
     g1, g2, h1, h2 = _mls_constants(a, n1, n2)
     est = c1 * s1 + c2 * s2
     low = est - math.sqrt((g1 * c1 * s1) ** 2 + (g2 * c2 * s2) ** 2)
     high = est + math.sqrt((h1 * c1 * s1) ** 2 + (h2 * c2 * s2) ** 2)
-    return max(low, 0.0), high
+    return Interval(max(low, 0.0), high)
 
 
-def _icc_interval(f: float, n1: int, n2: int, n0: float, a: float) -> tuple[float, float]:
+def _icc_interval(f: float, n1: int, n2: int, n0: float, a: float) -> Interval:
     """Searle (1971) F-based interval for s_b^2 / (s_b^2 + s_w^2)."""
     if math.isinf(f):
-        return 1.0, 1.0
+        return Interval(1.0, 1.0)
     f_l = f / f_critical(a, n1, n2)
     f_u = f / f_critical(1.0 - a, n1, n2)
 
     def icc(x: float) -> float:
         return min(max((x - 1.0) / (x + n0 - 1.0), 0.0), 1.0)
 
-    return icc(f_l), icc(f_u)
+    return Interval(icc(f_l), icc(f_u))
 
 
 def variance_components(
@@ -242,7 +244,7 @@ def variance_components(
     a = (1.0 - cf) / 2.0
     balanced = len(set(counts)) == 1
 
-    within_ci = (n2 * s2 / float(stats.chi2.isf(a, n2)), n2 * s2 / float(stats.chi2.ppf(a, n2)))
+    within_ci = Interval(n2 * s2 / float(stats.chi2.isf(a, n2)), n2 * s2 / float(stats.chi2.ppf(a, n2)))
     between_ci = _between_mls(s1, s2, n1, n2, n0, a)
     total_ci = _total_mls(s1, s2, n1, n2, n0, a)
     icc_ci = _icc_interval(res.f, n1, n2, n0, a)

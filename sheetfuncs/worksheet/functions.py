@@ -74,24 +74,26 @@ import xlwings as xw
 
 # analyses are imported by name: the package's functions `power`, `pairwise` and `letters`
 # hide their module names
-from ..stats.alternatives import brown_forsythe, kruskal, welch
-from ..stats.assumptions import bartlett, checks, levene, shapiro_residuals
-from ..stats.describe import HEADER as GROUPS_HEADER
-from ..stats.describe import describe
-from ..stats.effects import TABLE_HEADER as EFFECT_HEADER
-from ..stats.effects import effect_sizes
+from ..stats.alternatives import (
+    BrownForsytheResult, KruskalResult, WelchResult, brown_forsythe, kruskal, welch,
+)
+from ..stats.assumptions import (
+    BartlettResult, ChecksResult, LeveneResult, NormalityResult, bartlett, checks, levene,
+    shapiro_residuals,
+)
+from ..stats.describe import DescribeResult, describe
+from ..stats.effects import EffectSizes, effect_sizes
 from ..errors import InputError, message
 from ..distributions.f import f_critical, f_tail
 from ..input.groups import _error_text, cell_position, format_label, groups_from_range
-from ..stats.lettering import letters
-from ..stats.linear import contrast, linear_test
-from ..stats.oneway import TABLE_HEADER, oneway, oneway_from_summary
-from ..stats.comparisons import dunnett, pairwise
+from ..stats.lettering import LettersResult, letters
+from ..stats.linear import ContrastResult, LinearTestResult, contrast, linear_test
+from ..stats.oneway import OneWayResult, oneway, oneway_from_summary
+from ..stats.comparisons import PairwiseResult, dunnett, pairwise
 from ..stats.planning import detectable_effect, sample_size
 from ..stats.planning import power as power_of
 from ..input.options import check_number, one_line
-from ..stats.varcomp import TABLE_HEADER as VARCOMP_HEADER
-from ..stats.varcomp import variance_components
+from ..stats.varcomp import VarianceComponents, variance_components
 
 __all__ = [
     "Arg",
@@ -509,7 +511,7 @@ _ON_SHEET = "On the example sheet (invented data)"
             default="Factor"),
     ),
     result="table",
-    columns=TABLE_HEADER,
+    columns=OneWayResult.HEADER,
     returns="A header row, then the factor, Residual and Total rows. F and p sit on the factor "
     "row; F shows as 1.7976931348623157E+308 when there is no variation within the groups.",
     example=Example(_ON_SHEET + ", with a name for the factor row", (_DATA_REF, MISSING, MISSING, "Capping head")),
@@ -562,7 +564,7 @@ SF_SSB, SF_SSW, SF_SST, SF_DFB, SF_DFW, SF_DFT, SF_MSB, SF_MSW, SF_F, SF_P, SF_R
     "mean, minimum, median and maximum.",
     args=(DATA, LAYOUT, LABELS, CONF),
     result="table",
-    columns=GROUPS_HEADER,
+    columns=DescribeResult.HEADER,
     returns="A header row, then one row per group in range order. A group with one value has "
     "blank SD, SE and interval cells.",
     example=Example(_ON_SHEET, (_DATA_REF,)),
@@ -607,7 +609,7 @@ _SUMMARY_SHEET: tuple[tuple[Any, ...], ...] = (
     "standard deviation, when the raw values are not at hand.",
     args=(_COUNTS, _MEANS, _SDS, _NAMES),
     result="table",
-    columns=TABLE_HEADER,
+    columns=OneWayResult.HEADER,
     returns="The same table as SF_TABLE: header row, then the factor, Residual and Total rows.",
     example=Example(
         _SUMMARY_NOTE, (Ref("B2:B5"), Ref("C2:C5"), Ref("D2:D5"), Ref("A2:A5")), _SUMMARY_SHEET
@@ -649,7 +651,7 @@ _WEIGHTS = Arg(
     "same pooling label share one mean, against the one-way model.",
     args=(DATA, _POOLING, LAYOUT, LABELS),
     result="table",
-    columns=("Model", "df", "SS", "MS", "F", "p"),
+    columns=LinearTestResult.HEADER,
     returns="A header row, then the reduced and full residual lines and their difference, which "
     "carries F and p.",
     example=Example(
@@ -667,7 +669,7 @@ def SF_GLT(data: Any, pooling: Any, layout: Any = None, labels: Any = None) -> A
     "contrast of the group means (weights summing to zero).",
     args=(DATA, _WEIGHTS, LAYOUT, LABELS, CONF),
     result="table",
-    columns=("Estimate", "SE", "t", "df", "p", "CI low", "CI high"),
+    columns=ContrastResult.HEADER,
     returns="A header row and one row: estimate, SE, t, residual df, two-sided p and the "
     "interval.",
     example=Example(
@@ -721,7 +723,7 @@ _ALPHA_CHECKS = Arg(
     "variances: statistic, df1, df2 and p.",
     args=(DATA, LAYOUT, LABELS),
     result="table",
-    columns=("Test", "Statistic", "df1", "df2", "p"),
+    columns=WelchResult.HEADER,
     returns="A header row and one row: Test, Statistic (Welch's F), df1 (groups minus one), df2 "
     "(Welch's approximate degrees of freedom, usually not a whole number) and p. Every group "
     "needs two or more values and some spread.",
@@ -736,7 +738,7 @@ def SF_WELCH(data: Any, layout: Any = None, labels: Any = None) -> Any:
     "statistic, df1, Satterthwaite's df2 and p.",
     args=(DATA, LAYOUT, LABELS),
     result="table",
-    columns=("Test", "Statistic", "df1", "df2", "p"),
+    columns=BrownForsytheResult.HEADER,
     returns="A header row and one row: Test, Statistic (F*), df1 (groups minus one), df2 "
     "(Satterthwaite's degrees of freedom) and p. This is the 1974 test for means; the "
     "Brown-Forsythe test for variances is SF_LEVENE with center \"median\".",
@@ -751,7 +753,7 @@ def SF_BROWNFORSYTHE(data: Any, layout: Any = None, labels: Any = None) -> Any:
     "the rank epsilon squared effect size.",
     args=(DATA, LAYOUT, LABELS),
     result="table",
-    columns=("Test", "Statistic", "df", "p", "Rank epsilon squared"),
+    columns=KruskalResult.HEADER,
     returns="A header row and one row: Test, Statistic (H, corrected for ties), df (groups minus "
     "one), p (chi-square approximation) and Rank epsilon squared, H (N + 1) / (N^2 - 1) for N "
     "values in all.",
@@ -772,7 +774,7 @@ def SF_KRUSKAL(data: Any, layout: Any = None, labels: Any = None) -> Any:
             default="median"),
     ),
     result="table",
-    columns=("Test", "Statistic", "df1", "df2", "p"),
+    columns=LeveneResult.HEADER,
     returns="A header row and one row: Test (naming the centre), Statistic (the F ratio of the "
     "absolute distances), df1, df2 and p.",
     example=Example(_ON_SHEET, (_DATA_REF,)),
@@ -786,7 +788,7 @@ def SF_LEVENE(data: Any, layout: Any = None, labels: Any = None, center: Any = N
     "to non-normal data.",
     args=(DATA, LAYOUT, LABELS),
     result="table",
-    columns=("Test", "Statistic", "df", "p"),
+    columns=BartlettResult.HEADER,
     returns="A header row and one row: Test, Statistic (chi-square), df (groups minus one) and "
     "p. For data that may not be normal, SF_LEVENE is the robust choice.",
     example=Example(_ON_SHEET, (_DATA_REF,)),
@@ -800,7 +802,7 @@ def SF_BARTLETT(data: Any, layout: Any = None, labels: Any = None) -> Any:
     "model (D'Agostino-Pearson above 5,000 residuals).",
     args=(DATA, LAYOUT, LABELS),
     result="table",
-    columns=("Test", "Statistic", "n", "p"),
+    columns=NormalityResult.HEADER,
     returns="A header row and one row: Test (naming the method), Statistic (W, or K^2 above "
     "5,000 residuals), n (residuals tested) and p. The residuals are each value minus its group "
     "mean; groups of one value are left out, since their residual is zero by construction.",
@@ -815,7 +817,7 @@ def SF_SHAPIRO(data: Any, layout: Any = None, labels: Any = None) -> Any:
     "the one-way F, Welch, or Kruskal-Wallis alongside the F.",
     args=(DATA, LAYOUT, LABELS, _ALPHA_CHECKS),
     result="table",
-    columns=("Check", "Statistic", "df", "p", "Reading"),
+    columns=ChecksResult.HEADER,
     returns="A header row; then the Read row, which names the test to read and carries its "
     "statistic, df and p; then one row per check: Levene (median), the ratio of the largest to "
     "the smallest group SD, Bartlett (for reference), the normality of the residuals, the "
@@ -847,9 +849,8 @@ _ALPHA_FAMILY = Arg(
     "Significance level for the whole family of comparisons, between 0 and 1.",
     default=0.05,
 )
-_PAIR_COLUMNS = (
-    "Group A", "Group B", "Difference", "SE", "CI low (kind and level)",
-    "CI high (kind and level)", "q, t or F", "p", "Differs",
+_PAIR_COLUMNS = tuple(
+    h.format(interval="kind and level", statistic="q, t or F") for h in PairwiseResult.HEADER
 )
 
 
@@ -884,7 +885,7 @@ def SF_PAIRS(data: Any, layout: Any = None, labels: Any = None, method: Any = No
         LAYOUT, LABELS, _ALPHA_FAMILY,
     ),
     result="table",
-    columns=_PAIR_COLUMNS[:6] + ("t", "p", "Differs"),
+    columns=tuple(h.format(interval="kind and level", statistic="t") for h in PairwiseResult.HEADER),
     returns="A header row, then one row per group other than the control, in range order: the "
     "group, the control, Difference (group mean minus control mean), SE, the simultaneous "
     "interval, t, the adjusted two-sided p-value and Differs (TRUE when p < alpha). p-values and "
@@ -902,7 +903,7 @@ def SF_DUNNETT(data: Any, control: Any, layout: Any = None, labels: Any = None,
     "share a letter are not separated, and \"a\" goes to the highest mean.",
     args=(DATA, LAYOUT, LABELS, _METHOD, _ALPHA_FAMILY),
     result="table",
-    columns=("Group", "Mean", "Letters"),
+    columns=LettersResult.HEADER,
     returns="A header row, then one row per group, highest mean first: Group, Mean and Letters. "
     "Two groups share a letter exactly when the chosen method does not separate them at alpha "
     "(insert-and-absorb algorithm of Piepho 2004).",
@@ -921,7 +922,7 @@ def SF_LETTERS(data: Any, layout: Any = None, labels: Any = None, method: Any = 
     "epsilon squared and Cohen's f), with intervals for eta squared and f.",
     args=(DATA, LAYOUT, LABELS, CONF),
     result="table",
-    columns=EFFECT_HEADER,
+    columns=EffectSizes.HEADER,
     returns="A header row, then Eta squared, Omega squared, Epsilon squared and Cohen's f. Eta "
     "squared and f carry equal-tailed intervals from the noncentral F at the observed F "
     "(Steiger 2004); omega and epsilon squared are bias-corrected and shown as 0 when they come "
@@ -936,7 +937,7 @@ def SF_EFFECT(data: Any, layout: Any = None, labels: Any = None, conf: Any = Non
 _K = Arg("k", "number", "The number of groups, a whole number of at least 2.")
 _N = Arg("n", "number", "The number of values in each group (equal sizes), a whole number of at least 2.")
 _F = Arg(
-    "f", "number",
+    "cohens_f", "number",
     "Cohen's effect size f: the SD of the group means over the SD within groups (0.1 small, "
     "0.25 medium, 0.4 large).",
 )
@@ -960,8 +961,8 @@ _PLAN_NOTE = (
     returns="One number between alpha and 1: the chance that the test gives p < alpha." + _PLAN_NOTE,
     example=Example("Four groups of 20 values each and a medium effect, f = 0.25", (4, 20, 0.25)),
 )
-def SF_POWER(k: Any, n: Any, f: Any, alpha: Any = None) -> Any:
-    return power_of(k, n, f, alpha)
+def SF_POWER(k: Any, n: Any, cohens_f: Any, alpha: Any = None) -> Any:
+    return power_of(k, n, cohens_f, alpha)
 
 
 @worksheet_function(
@@ -972,8 +973,8 @@ def SF_POWER(k: Any, n: Any, f: Any, alpha: Any = None) -> Any:
     returns="One whole number: values per group (the study needs k times as many in all)." + _PLAN_NOTE,
     example=Example("Four groups, a medium effect (f = 0.25), power 0.8 and alpha 0.05", (4, 0.25)),
 )
-def SF_SAMPLESIZE(k: Any, f: Any, power: Any = None, alpha: Any = None) -> Any:
-    return sample_size(k, f, power, alpha)
+def SF_SAMPLESIZE(k: Any, cohens_f: Any, power: Any = None, alpha: Any = None) -> Any:
+    return sample_size(k, cohens_f, power, alpha)
 
 
 @worksheet_function(
@@ -1006,7 +1007,7 @@ _LOTS_SHEET: tuple[tuple[Any, ...], ...] = (
     "between groups, their total and the intraclass correlation, with intervals.",
     args=(DATA, LAYOUT, LABELS, CONF),
     result="table",
-    columns=VARCOMP_HEADER,
+    columns=VarianceComponents.HEADER,
     returns="A header row, then Between groups, Within groups, Total and Intraclass correlation, "
     "each with its estimate, interval and share of the total variance, and a last row with the "
     "effective group size n0; the Note column carries each row's notes. Estimators: ANOVA "

@@ -175,8 +175,8 @@ def test_tukey_and_games_howell_with_many_groups_match_scipy():
         pairs = [(i, j) for i in range(7) for j in range(i + 1, 7)]
         for row, (i, j) in zip(res.rows, pairs):
             assert row.p == pytest.approx(ref.pvalue[i, j], rel=1e-8, abs=1e-11), method
-            assert row.ci_low == pytest.approx(ci.low[i, j], rel=1e-9, abs=1e-9), method
-            assert row.ci_high == pytest.approx(ci.high[i, j], rel=1e-9, abs=1e-9), method
+            assert row.ci.low == pytest.approx(ci.low[i, j], rel=1e-9, abs=1e-9), method
+            assert row.ci.high == pytest.approx(ci.high[i, j], rel=1e-9, abs=1e-9), method
 
 
 def test_dunnett_with_many_groups_matches_scipy():
@@ -188,9 +188,9 @@ def test_dunnett_with_many_groups_matches_scipy():
     for r, row in enumerate(res.rows):
         assert row.statistic == pytest.approx(ref.statistic[r], rel=1e-10)
         assert row.p == pytest.approx(ref.pvalue[r], abs=1e-3)
-        width = row.ci_high - row.ci_low
-        assert row.ci_low == pytest.approx(ci.low[r], abs=1e-3 * width)
-        assert row.ci_high == pytest.approx(ci.high[r], abs=1e-3 * width)
+        width = row.ci.high - row.ci.low
+        assert row.ci.low == pytest.approx(ci.low[r], abs=1e-3 * width)
+        assert row.ci.high == pytest.approx(ci.high[r], abs=1e-3 * width)
 
 
 def test_games_howell_shares_critical_values_between_equal_welch_df():

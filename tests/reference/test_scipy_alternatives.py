@@ -64,7 +64,7 @@ def test_levene_matches_scipy(seed, center):
     res = levene(gs, center=center)
     assert res.statistic == pytest.approx(float(ref.statistic), rel=1e-9)
     assert res.p == pytest.approx(float(ref.pvalue), rel=1e-8)
-    assert (res.df1, res.df2) == (len(gs) - 1, sum(a.size for a in gs) - len(gs))
+    assert (res.df_between, res.df_within) == (len(gs) - 1, sum(a.size for a in gs) - len(gs))
     assert res.center == center
 
 

@@ -54,8 +54,8 @@ def test_tukey_kramer_matches_scipy_tukey_hsd(seed):
         for row, (i, j) in zip(res.rows, _pairs(len(gs))):
             assert row.difference == pytest.approx(ref.statistic[i, j], rel=1e-12, abs=1e-12)
             assert row.p == pytest.approx(ref.pvalue[i, j], rel=1e-8, abs=1e-11)
-            assert row.ci_low == pytest.approx(ci.low[i, j], rel=1e-9, abs=1e-9)
-            assert row.ci_high == pytest.approx(ci.high[i, j], rel=1e-9, abs=1e-9)
+            assert row.ci.low == pytest.approx(ci.low[i, j], rel=1e-9, abs=1e-9)
+            assert row.ci.high == pytest.approx(ci.high[i, j], rel=1e-9, abs=1e-9)
             assert row.differs == (ref.pvalue[i, j] < 1 - conf)
 
 
@@ -69,8 +69,8 @@ def test_games_howell_matches_scipy_tukey_hsd_unequal_var(seed):
     for row, (i, j) in zip(res.rows, _pairs(len(gs))):
         assert row.difference == pytest.approx(ref.statistic[i, j], rel=1e-12, abs=1e-12)
         assert row.p == pytest.approx(ref.pvalue[i, j], rel=1e-8, abs=1e-11)
-        assert row.ci_low == pytest.approx(ci.low[i, j], rel=1e-9, abs=1e-9)
-        assert row.ci_high == pytest.approx(ci.high[i, j], rel=1e-9, abs=1e-9)
+        assert row.ci.low == pytest.approx(ci.low[i, j], rel=1e-9, abs=1e-9)
+        assert row.ci.high == pytest.approx(ci.high[i, j], rel=1e-9, abs=1e-9)
 
 
 @pytest.mark.parametrize("seed", range(4))
@@ -90,9 +90,9 @@ def test_dunnett_matches_scipy_dunnett(seed):
         assert row.group_b == f"Group {control + 1}"
         assert row.statistic == pytest.approx(ref.statistic[r], rel=1e-10)
         assert row.p == pytest.approx(ref.pvalue[r], abs=1e-3)
-        width = row.ci_high - row.ci_low
-        assert row.ci_low == pytest.approx(ci.low[r], abs=1e-3 * width)
-        assert row.ci_high == pytest.approx(ci.high[r], abs=1e-3 * width)
+        width = row.ci.high - row.ci.low
+        assert row.ci.low == pytest.approx(ci.low[r], abs=1e-3 * width)
+        assert row.ci.high == pytest.approx(ci.high[r], abs=1e-3 * width)
 
 
 @pytest.mark.parametrize(
@@ -139,8 +139,8 @@ def test_tukey_for_two_groups_is_the_pooled_t_test():
     for method in ("tukey", "bonferroni", "holm", "sidak", "scheffe"):
         row = pairwise(gs, method).rows[0]
         assert row.p == pytest.approx(ref.pvalue, rel=1e-9), method
-        assert row.ci_low == pytest.approx(ci.low, rel=1e-9), method
-        assert row.ci_high == pytest.approx(ci.high, rel=1e-9), method
+        assert row.ci.low == pytest.approx(ci.low, rel=1e-9), method
+        assert row.ci.high == pytest.approx(ci.high, rel=1e-9), method
     row = dunnett(gs, "Group 1").rows[0]
     assert row.p == pytest.approx(ref.pvalue, rel=1e-9)
     assert row.statistic == pytest.approx(-ref.statistic, rel=1e-12)  # treatment minus control

@@ -77,8 +77,8 @@ def test_bonferroni_and_sidak_intervals_match_textbook(seed):
     ):
         crit = stats.t.isf(per / 2, df)
         res = pairwise(gs, method)
-        np.testing.assert_allclose([r.ci_low for r in res.rows], d - crit * se, rtol=1e-9, atol=1e-11)
-        np.testing.assert_allclose([r.ci_high for r in res.rows], d + crit * se, rtol=1e-9, atol=1e-11)
+        np.testing.assert_allclose([r.ci.low for r in res.rows], d - crit * se, rtol=1e-9, atol=1e-11)
+        np.testing.assert_allclose([r.ci.high for r in res.rows], d + crit * se, rtol=1e-9, atol=1e-11)
         np.testing.assert_allclose([r.statistic for r in res.rows], d / se, rtol=1e-9)
 
 

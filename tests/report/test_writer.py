@@ -308,7 +308,7 @@ def test_groups_and_comparisons_equal_the_core(demo):
     pw = pairwise(g, "tukey", 0.05)
     for row in pw.rows:
         line = next(r for r in comp if r[0] == row.group_a and r[1] == row.group_b and r[7] == row.p)
-        assert line[2:8] == [row.difference, row.se, row.ci_low, row.ci_high, row.statistic, row.p]
+        assert line[2:8] == [row.difference, row.se, row.ci.low, row.ci.high, row.statistic, row.p]
         assert line[8] == ("yes" if row.differs else "no")
     dn = dunnett(g, "Zone 1", 0.05)
     for row in dn.rows:

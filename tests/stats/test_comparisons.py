@@ -54,7 +54,7 @@ def test_rows_cover_every_pair_once_in_group_order():
     means = {k: np.mean(v) for k, v in HEADS.items()}
     for r in res.rows:
         assert r.difference == pytest.approx(means[r.group_a] - means[r.group_b], abs=1e-12)
-        assert r.ci_low < r.difference < r.ci_high
+        assert r.ci.low < r.difference < r.ci.high
         assert r.differs == (r.p < res.alpha)
     assert res.method == "tukey" and res.alpha == 0.05
     assert res.pair("Head 3", "Head 1") is res.rows[1]
@@ -191,7 +191,7 @@ def test_no_within_group_variation(method):
     ab, ac, bc = res.rows
     assert math.isinf(ab.statistic) and ab.p == 0.0 and ab.differs
     assert ac.statistic == 0.0 and ac.p == 1.0 and not ac.differs
-    assert ab.ci_low == ab.ci_high == -1.0
+    assert ab.ci.low == ab.ci.high == -1.0
     assert res.notes
 
 
@@ -222,8 +222,8 @@ def test_scheffe_matches_the_textbook_formula():
         assert row.se == pytest.approx(se, rel=1e-12)
         assert row.statistic == pytest.approx(f, rel=1e-10)
         assert row.p == pytest.approx(stats.f.sf(f, k - 1, df), rel=1e-9)
-        assert row.ci_low == pytest.approx(d - s * se, rel=1e-10)
-        assert row.ci_high == pytest.approx(d + s * se, rel=1e-10)
+        assert row.ci.low == pytest.approx(d - s * se, rel=1e-10)
+        assert row.ci.high == pytest.approx(d + s * se, rel=1e-10)
 
 
 def test_adjustments_are_ordered_as_theory_says():
@@ -231,8 +231,8 @@ def test_adjustments_are_ordered_as_theory_says():
     b, h, s = heads("bonferroni"), heads("holm"), heads("sidak")
     for rb, rh, rs in zip(b.rows, h.rows, s.rows):
         assert rh.p <= rb.p + 1e-15 and rs.p <= rb.p + 1e-15
-        assert rh.ci_low == rb.ci_low
-        assert rs.ci_high - rs.ci_low <= rb.ci_high - rb.ci_low
+        assert rh.ci.low == rb.ci.low
+        assert rs.ci.high - rs.ci.low <= rb.ci.high - rb.ci.low
         assert 0 <= rb.p <= 1
 
 
@@ -241,7 +241,7 @@ def test_nist_certified_mse_and_exact_differences():
     d = nist.load("SmLs07")
     res = pairwise(d.groups, "bonferroni")
     assert res.exact
-    assert res.mse == pytest.approx(d.certified.ms_within, rel=1e-14)
+    assert res.ms_within == pytest.approx(d.certified.ms_within, rel=1e-14)
     exact_means = {
         lab: sum(Fraction(t) for t in texts) / len(texts) for lab, texts in d.text_values.items()
     }
@@ -257,7 +257,7 @@ def test_nist_atomic_weights_two_groups():
     d = nist.load("AtmWtAg")
     res = pairwise(d.groups, "tukey")
     row = res.rows[0]
-    assert res.mse == pytest.approx(d.certified.ms_within, rel=1e-13)
+    assert res.ms_within == pytest.approx(d.certified.ms_within, rel=1e-13)
     assert row.statistic == pytest.approx(math.sqrt(2 * d.certified.f), rel=1e-12)
 
 
@@ -270,7 +270,7 @@ def test_games_howell_uses_each_pairs_own_variances_and_welch_df():
     row = res.pair("Head 1", "Head 3")
     assert row.se == pytest.approx(math.sqrt(v[0] + v[2]), rel=1e-12)
     assert res.row_df[1] == pytest.approx(df, rel=1e-12)
-    assert res.mse is None and res.df is None
+    assert res.ms_within is None and res.df_within is None
 
 
 def test_tukey_kramer_unequal_sizes_note():
@@ -380,9 +380,9 @@ def test_dunnett_rows_and_intervals():
     assert res.method == "dunnett" and res.method_name == "Dunnett"
     crit = res.multipliers[0]
     # the simultaneous critical value lies between one t test and Bonferroni (source: scipy.stats.t)
-    assert stats.t.isf(0.025, res.df) < crit < stats.t.isf(0.025 / 3, res.df)
+    assert stats.t.isf(0.025, res.df_within) < crit < stats.t.isf(0.025 / 3, res.df_within)
     for r in res.rows:
-        assert r.ci_high - r.ci_low == pytest.approx(2 * crit * r.se, rel=1e-12)
+        assert r.ci.high - r.ci.low == pytest.approx(2 * crit * r.se, rel=1e-12)
     assert res.pair("Head 3", "Head 1").differs
 
 
@@ -390,7 +390,7 @@ def test_the_documented_examples_match():
     # source: the worked examples of docs/comparisons.md (keeps the page and the code in step)
     res = heads("tukey")
     row = res.pair("Head 1", "Head 3")
-    assert round(row.difference, 3) == -1.017 and round(row.ci_low, 3) == -1.356
+    assert round(row.difference, 3) == -1.017 and round(row.ci.low, 3) == -1.356
     assert f"{row.p:.2g}" == "3.2e-07" and row.differs
     assert round(res.multipliers[0], 2) == 2.80
     d = dunnett(HEADS, "Head 1")

@@ -30,7 +30,7 @@ def test_summaries_match_numpy_and_scipy(exact):
         assert s.sd == pytest.approx(float(a.std(ddof=1)), rel=1e-12)
         assert s.se == pytest.approx(float(stats.sem(a)), rel=1e-12)
         lo, hi = stats.t.interval(0.95, a.size - 1, loc=a.mean(), scale=stats.sem(a))
-        assert s.ci_low == pytest.approx(lo, rel=1e-13) and s.ci_high == pytest.approx(hi, rel=1e-13)
+        assert s.ci.low == pytest.approx(lo, rel=1e-13) and s.ci.high == pytest.approx(hi, rel=1e-13)
         assert (s.min, s.median, s.max) == (a.min(), float(np.median(a)), a.max())
 
 
@@ -53,7 +53,7 @@ def test_confidence_level_99():
     d = sf.describe(LOTS, conf=0.99)
     a = np.array(LOTS["Lot 11"])
     lo, hi = stats.t.interval(0.99, a.size - 1, loc=a.mean(), scale=stats.sem(a))
-    assert d["Lot 11"].ci_low == pytest.approx(lo, rel=1e-13)
+    assert d["Lot 11"].ci.low == pytest.approx(lo, rel=1e-13)
     assert d.conf == 0.99
 
 
@@ -61,7 +61,7 @@ def test_group_of_one_value_has_no_sd():
     d = sf.describe({"A": [2.5], "B": [1.0, 2.0]})
     s = d["A"]
     assert s.n == 1 and s.mean == 2.5 and s.min == s.median == s.max == 2.5
-    assert all(math.isnan(v) for v in (s.sd, s.se, s.ci_low, s.ci_high))
+    assert all(math.isnan(v) for v in (s.sd, s.se, s.ci.low, s.ci.high))
 
 
 def test_sd_is_exact_for_values_with_shared_leading_digits():

@@ -139,7 +139,7 @@ def test_contrast_against_statsmodels_t_test(exact):
     assert c.se == pytest.approx(float(ref.sd[0, 0]), rel=1e-12)
     assert c.t == pytest.approx(float(ref.tvalue[0, 0]), rel=1e-12)
     assert c.p == pytest.approx(float(ref.pvalue), rel=1e-10)
-    assert (c.ci_low, c.ci_high) == (pytest.approx(lo, rel=1e-12), pytest.approx(hi, rel=1e-12))
+    assert (c.ci.low, c.ci.high) == (pytest.approx(lo, rel=1e-12), pytest.approx(hi, rel=1e-12))
     assert c.df == 11
     assert c.table()[0] == ["Estimate", "SE", "t", "df", "p", "CI low", "CI high"]
 
@@ -150,7 +150,7 @@ def test_contrast_confidence_level():
     fit = indicator_ols(list(ZONES.values()))
     lo, hi = fit.t_test(np.array([w], dtype=float)).conf_int(alpha=0.10)[0]
     c = sf.contrast(ZONES, w, conf=0.90)
-    assert c.ci_low == pytest.approx(lo, rel=1e-12) and c.ci_high == pytest.approx(hi, rel=1e-12)
+    assert c.ci.low == pytest.approx(lo, rel=1e-12) and c.ci.high == pytest.approx(hi, rel=1e-12)
 
 
 def test_contrast_weights_sum_tolerance():

@@ -143,7 +143,7 @@ def test_detectable_effect_inverts_power(k, n, target, alpha):
         (lambda: detectable_effect(3, 10, power=0.05, alpha=0.05), "must be greater than alpha"),
         (lambda: detectable_effect(3, 1), "n \\(values per group\\)"),
         (lambda: plan(3, n=10), "exactly two of"),
-        (lambda: plan(3, n=10, f=0.3, power=0.8), "exactly two of"),
+        (lambda: plan(3, n=10, cohens_f=0.3, power=0.8), "exactly two of"),
     ],
 )
 def test_bad_input_is_one_clear_line(call, match):
@@ -160,20 +160,20 @@ def test_whole_numbers_may_arrive_as_floats():
 
 
 def test_plan_solves_each_unknown():
-    p = plan(4, f=0.25, power=0.8)
+    p = plan(4, cohens_f=0.25, power=0.8)
     assert p.solved_for == "n" and p.n == sample_size(4, 0.25) and p.target_power == 0.8
     assert p.power == pytest.approx(power(4, p.n, 0.25))
-    assert (p.df1, p.df2, p.total_n) == (3, 4 * (p.n - 1), 4 * p.n)
+    assert (p.df_between, p.df_within, p.n_total) == (3, 4 * (p.n - 1), 4 * p.n)
     assert p.noncentrality == pytest.approx(4 * p.n * 0.0625)
     q = plan(4, n=20, power=0.9)
-    assert q.solved_for == "f" and q.f == pytest.approx(detectable_effect(4, 20, 0.9))
-    r = plan(4, n=20, f=0.3)
+    assert q.solved_for == "cohens_f" and q.cohens_f == pytest.approx(detectable_effect(4, 20, 0.9))
+    r = plan(4, n=20, cohens_f=0.3)
     assert r.solved_for == "power" and r.power == pytest.approx(power(4, 20, 0.3))
     assert r.target_power is None
 
 
 def test_plan_table_layout():
-    t = plan(4, f=0.25, power=0.8).table()
+    t = plan(4, cohens_f=0.25, power=0.8).table()
     assert t[0] == ["Quantity", "Value", "Note"]
     names = [row[0] for row in t[1:]]
     assert names[:3] == ["Groups", "Values per group", "Total values"]

@@ -56,8 +56,8 @@ CATALOG = {
     "SF_LETTERS": "SF_LETTERS(data, [layout], [labels], [method], [alpha])",
     "SF_EFFECT": "SF_EFFECT(data, [layout], [labels], [conf])",
     "SF_VARCOMP": "SF_VARCOMP(data, [layout], [labels], [conf])",
-    "SF_POWER": "SF_POWER(k, n, f, [alpha])",
-    "SF_SAMPLESIZE": "SF_SAMPLESIZE(k, f, [power], [alpha])",
+    "SF_POWER": "SF_POWER(k, n, cohens_f, [alpha])",
+    "SF_SAMPLESIZE": "SF_SAMPLESIZE(k, cohens_f, [power], [alpha])",
     "SF_DETECTABLE": "SF_DETECTABLE(k, n, [power], [alpha])",
 }
 PLANNING = {"SF_POWER", "SF_SAMPLESIZE", "SF_DETECTABLE"}
