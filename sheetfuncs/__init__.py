@@ -7,22 +7,22 @@ results out.
 """
 
 from .errors import InputError
-from .input.groups import CellNote, Groups, as_groups, groups_from_long, groups_from_range
-from .distributions.f import f_critical, f_tail
-from .stats.oneway import OneWayResult, oneway, oneway_from_summary
-from .stats.linear import ContrastResult, LinearTestResult, contrast, linear_test
-from .stats.describe import DescribeResult, GroupSummary, describe
-from .stats.alternatives import BrownForsytheResult, KruskalResult, WelchResult, brown_forsythe, kruskal, welch
-from .stats.assumptions import (
+from .input import CellNote, Groups, as_groups, groups_from_long, groups_from_range
+from .distributions import f_critical, f_tail
+from .stats import OneWayResult, oneway, oneway_from_summary
+from .stats import ContrastResult, LinearTestResult, contrast, linear_test
+from .stats import DescribeResult, GroupSummary, describe
+from .stats import BrownForsytheResult, KruskalResult, WelchResult, brown_forsythe, kruskal, welch
+from .stats import (
     BartlettResult, ChecksResult, LeveneResult, NormalityResult, bartlett, checks, levene,
     shapiro_residuals,
 )
-from .stats.comparisons import PairRow, PairwiseResult, dunnett, pairwise
-from .stats.lettering import LettersResult, letters
-from .stats.effects import EffectSizes, effect_sizes
-from .stats.planning import PowerPlan, detectable_effect, plan, power, sample_size
-from .stats.varcomp import VarianceComponents, variance_components
-from .input.files.reader import CellBlock, LoadedGroups, read_cells, read_groups
+from .stats import PairRow, PairwiseResult, dunnett, pairwise
+from .stats import LettersResult, letters
+from .stats import EffectSizes, effect_sizes
+from .stats import PowerPlan, detectable_effect, plan, power, sample_size
+from .stats import VarianceComponents, variance_components
+from .input import CellBlock, LoadedGroups, read_cells, read_groups
 
 __version__ = "0.1.0"
 

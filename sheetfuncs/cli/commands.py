@@ -22,8 +22,8 @@ from pathlib import Path
 from typing import Any, TextIO
 
 from ..errors import InputError, message
-from ..input.files.reader import DEFAULT_SIZE_LIMIT, LoadedGroups, read_groups, workbook_properties
-from ..input.source import InputSource
+from ..input import DEFAULT_SIZE_LIMIT, LoadedGroups, read_groups, workbook_properties
+from ..input import InputSource
 
 __all__ = ["main", "build_parser", "DEMO_SHEET", "DEFAULT_DEMO_OUTPUT", "BIG_INPUT_CELLS",
            "csv_safe", "json_ready"]
@@ -90,7 +90,7 @@ def _whole(text: str) -> int:
 
 
 def _methods() -> tuple[str, ...]:
-    from ..stats.comparisons import METHODS
+    from ..stats import METHODS
 
     return tuple(METHODS)
 
@@ -420,8 +420,8 @@ def _report_outputs(args: argparse.Namespace) -> list[tuple[Path, Path]]:
 
 
 def _cmd_report(args: argparse.Namespace) -> int:
-    from ..stats.comparisons import parse_method
-    from ..input.options import check_alpha
+    from ..stats import parse_method
+    from ..input import check_alpha
 
     pairs = _report_outputs(args)
     check_alpha(args.alpha)  # options first: one message, before any file is read
@@ -485,7 +485,7 @@ def _report_one(args, inp: Path, out: Path, inputs: Sequence[Path], prog: _Progr
 
 
 def _cmd_demo(args: argparse.Namespace) -> int:
-    from ..input.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
+    from ..input import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
 
     out = Path(args.output)
     _check_xlsx_name(out)
@@ -521,7 +521,7 @@ def _replaceable_demo(path: Path) -> bool:
     properties creator ``sheetfuncs`` and the demo's title). The properties are read through
     :func:`sheetfuncs.readers.workbook_properties` (size limit, defusedxml); a file that cannot
     be read that way is not a demo report."""
-    from ..input.demo import DEMO_TITLE
+    from ..input import DEMO_TITLE
 
     if path.name == DEFAULT_DEMO_OUTPUT:
         return True
@@ -601,13 +601,10 @@ def _records(table: list[list[Any]]) -> list[dict[str, Any]]:
 
 
 def _analysis(loaded: LoadedGroups, alpha: float, factor: str):
-    from ..stats.assumptions import checks
-    from ..stats.describe import describe
+    from ..stats import analyse
 
-    ck = checks(loaded.groups, alpha)
-    desc = describe(loaded.groups)
-    one = ck.oneway.table(factor)
-    return ck, desc, one
+    an = analyse(loaded.groups, alpha=alpha)
+    return an.checks, an.describe, an.oneway.table(factor)
 
 
 def _cell_log(loaded: LoadedGroups) -> list[dict[str, Any]]:
@@ -731,7 +728,7 @@ def _cell_shown(kind: str, value: Any) -> str:
         return f"{word} {'TRUE' if value else 'FALSE'}"
     if hasattr(value, "isoformat"):
         return f"{word} {value.isoformat()}"
-    from ..input.options import shown
+    from ..input import shown
 
     return f"{word} {shown(value)}"
 
@@ -776,7 +773,7 @@ def _table_text(args, loaded: LoadedGroups, ck, desc, one) -> None:
 
 
 def _cmd_plan(args: argparse.Namespace) -> int:
-    from ..stats.planning import power, sample_size
+    from ..stats import power, sample_size
 
     n = sample_size(args.groups, args.effect, args.power, args.alpha)
     achieved = power(args.groups, n, args.effect, args.alpha)

@@ -1,1 +1,16 @@
-"""dist"""
+"""Distributions that know nothing of groups: F, the studentized range, many-to-one t.
+
+Other layers import from this package, not its modules.
+"""
+
+from .f import check_df, f_critical, f_tail
+from .mvt import (
+    many_to_one_critical, many_to_one_tail, many_to_one_tails, range_critical, range_criticals,
+    range_tail, range_tails,
+)
+
+__all__ = [
+    "check_df", "f_critical", "f_tail",
+    "many_to_one_critical", "many_to_one_tail", "many_to_one_tails", "range_critical",
+    "range_criticals", "range_tail", "range_tails",
+]

@@ -31,7 +31,7 @@ import math
 from scipy import optimize, special
 
 from ..errors import InputError
-from ..input.options import as_real, check_alpha, shown
+from ..input import as_real, check_alpha, shown
 
 __all__ = ["f_tail", "f_critical", "check_df"]
 

@@ -1,1 +1,35 @@
-"""input"""
+"""From cells to groups: the one cleaning step between what a user has and what the statistics need.
+
+``cells`` (what a cell holds, the host's error values, A1 references), ``groups`` (the cleaning
+rules and :class:`Groups`), ``options`` (checks of scalar options, values as messages show
+them), ``source`` (where a range came from), ``files`` (workbooks and CSV files, read safely) and
+``demo`` (the built-in invented data). Other layers import from this package, not its modules.
+"""
+
+from .cells import (
+    COM_ERROR_CODES, ERROR_TEXTS, MAX_COLS, MAX_ROWS, RangeRef, a1_range, cell_position,
+    column_letters, column_number, error_text, parse_range,
+)
+from .demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups, demo_rows
+from .files import (
+    DEFAULT_SIZE_LIMIT, CellBlock, LoadedGroups, read_cells, read_groups, workbook_properties,
+)
+from .groups import (
+    CellNote, Groups, as_groups, first_duplicate, format_label, groups_from_long, groups_from_range,
+)
+from .options import (
+    as_real, check_alpha, check_conf, check_number, check_probability, one_line, shown,
+)
+from .source import InputSource
+
+__all__ = [
+    "COM_ERROR_CODES", "ERROR_TEXTS", "MAX_COLS", "MAX_ROWS", "RangeRef", "a1_range",
+    "cell_position", "column_letters", "column_number", "error_text", "parse_range",
+    "DEMO_FACTOR", "DEMO_RESPONSE", "DEMO_TITLE", "DEMO_UNIT", "demo_groups", "demo_rows",
+    "DEFAULT_SIZE_LIMIT", "CellBlock", "LoadedGroups", "read_cells", "read_groups",
+    "workbook_properties",
+    "CellNote", "Groups", "as_groups", "first_duplicate", "format_label", "groups_from_long", "groups_from_range",
+    "as_real", "check_alpha", "check_conf", "check_number", "check_probability", "one_line",
+    "shown",
+    "InputSource",
+]

@@ -29,6 +29,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import InputError
+from .cells import ERROR_TEXTS, cell_position, classify, error_text
 from .options import shown
 
 __all__ = [
@@ -38,28 +39,8 @@ __all__ = [
     "groups_from_range",
     "groups_from_long",
     "format_label",
-    "cell_position",
-    "ERROR_TEXTS",
+    "first_duplicate",
 ]
-
-#: Error texts as the host shows them (xlwings' ``err_to_str`` gives the first seven; newer hosts
-#: add the rest, which may also arrive as text from CSV exports).
-ERROR_TEXTS = frozenset(
-    {
-        "#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A",
-        "#SPILL!", "#CALC!", "#GETTING_DATA", "#FIELD!", "#BLOCKED!", "#CONNECT!",
-        "#UNKNOWN!", "#BUSY!", "#PYTHON!",
-    }
-)
-
-#: COM error codes (``0x800A0000 + xlErr``) that xlwings may pass through unconverted.
-_COM_LOW, _COM_HIGH = -2146826300, -2146826200
-_COM_NAMES = {
-    2000: "#NULL!", 2007: "#DIV/0!", 2015: "#VALUE!", 2023: "#REF!", 2029: "#NAME?",
-    2036: "#NUM!", 2042: "#N/A", 2043: "#GETTING_DATA", 2045: "#SPILL!", 2046: "#CONNECT!",
-    2047: "#BLOCKED!", 2048: "#UNKNOWN!", 2049: "#FIELD!", 2050: "#CALC!", 2051: "#BUSY!",
-}
-_COM_BASE = -2146828288  # 0x800A0000 as a signed 32-bit integer
 
 LAYOUTS = ("wide", "long", "rowwise")
 
@@ -84,11 +65,6 @@ class CellNote:
     def position(self) -> str:
         """1-based, human-readable position, e.g. ``row 3, column 2``."""
         return cell_position(self.row, self.col)
-
-
-def cell_position(row: int, col: int) -> str:
-    """1-based position of a 0-based cell within a range: ``row 3, column 2``."""
-    return f"row {row + 1}, column {col + 1}"
 
 
 @dataclass(frozen=True)
@@ -207,52 +183,6 @@ def _case_notes(labels: Sequence[str]) -> tuple[str, ...]:
 
 # --------------------------------------------------------------------------------------------
 # cell classification
-
-
-def _com_error_name(code: int) -> str:
-    return _COM_NAMES.get(code - _COM_BASE, f"with code {code}")
-
-
-def _error_text(v: Any) -> str | None:
-    """The error's name if the cell holds a host error value, else None."""
-    if isinstance(v, str):
-        s = v.strip()
-        return s if s in ERROR_TEXTS else None
-    if isinstance(v, (int, np.integer)) and not isinstance(v, (bool, np.bool_)):
-        iv = int(v)
-        if _COM_LOW <= iv <= _COM_HIGH:
-            return _com_error_name(iv)
-    return None
-
-
-def _classify(v: Any) -> tuple[str, Any]:
-    """``(kind, value)``: kind is number, blank, text, logical, error, date or other."""
-    if v is None:
-        return "blank", None
-    if isinstance(v, (bool, np.bool_)):
-        return "logical", bool(v)
-    if isinstance(v, float):
-        return "number", v
-    if isinstance(v, str):
-        if v == "":
-            return "blank", None
-        s = v.strip()
-        if s in ERROR_TEXTS:
-            return "error", s
-        return "text", v
-    if isinstance(v, (int, np.integer)):
-        iv = int(v)
-        if _COM_LOW <= iv <= _COM_HIGH:
-            return "error", _com_error_name(iv)
-        try:
-            return "number", float(iv)
-        except OverflowError:  # beyond the double range: rejected below as infinite
-            return "number", math.inf if iv > 0 else -math.inf
-    if isinstance(v, (_dt.datetime, _dt.date, _dt.time)):
-        return "date", v
-    if isinstance(v, (decimal.Decimal, np.floating)) or isinstance(v, numbers.Real):
-        return "number", float(v)
-    return "other", v
 
 
 def _bad_number_message(v: float, where: str) -> str:
@@ -399,7 +329,7 @@ def _line_values(line: Sequence[Any], lineno: int, start: int, col: _Collector) 
     # general path: cell by cell
     out: list[float] = []
     for i, v in enumerate(cells, start):
-        kind, val = _classify(v)
+        kind, val = classify(v)
         if kind == "number":
             if not math.isfinite(val):
                 col.add(lineno, i, "nan", val, "rejected")
@@ -526,8 +456,8 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
     heads = [r[0] for r in rows] if transpose else list(rows[0])
     line_length = len(rows[0]) if transpose else len(rows)
     for i, h in enumerate(heads):
-        if _error_text(h) is not None:
-            col.add(i, 0, "error", _error_text(h), "rejected")
+        if error_text(h) is not None:
+            col.add(i, 0, "error", error_text(h), "rejected")
     col.raise_errors()
     if lab == "auto":
         nonblank = [h for h in heads if not (h is None or (isinstance(h, str) and h.strip() == ""))]
@@ -568,7 +498,7 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
     final: list[str] = []
     for j, (label, i) in enumerate(zip(raw_labels, positions)):
         final.append(label if label is not None else _unique_default(j + 1, taken))
-    dup = _first_duplicate(final)
+    dup = first_duplicate(final)
     if dup is not None:
         where = "rows" if transpose else "columns"
         idx = [positions[j] + 1 for j, x in enumerate(final) if x == dup]
@@ -591,7 +521,8 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
     return _make_groups(final, arrays, col.notes, lay, "range" if has_labels else "default")
 
 
-def _first_duplicate(items: Sequence[str]) -> str | None:
+def first_duplicate(items: Sequence[str]) -> str | None:
+    """The first item that occurs a second time, or ``None`` when all differ."""
     seen: set[str] = set()
     for x in items:
         if x in seen:
@@ -630,14 +561,14 @@ def _from_long_rows(rows: list[tuple], lab: str) -> Groups:
         start = 1
     for r in range(len(rows)):
         for c in (0, 1):
-            e = _error_text(rows[r][c])
+            e = error_text(rows[r][c])
             if e is not None and not (r < start and c == 0 and False):
                 col.add(r, c, "error", e, "rejected")
     col.raise_errors()
     order: dict[str, list[float]] = {}
     for r in range(start, len(rows)):
         lv, vv = rows[r]
-        kind, val = _classify(vv)
+        kind, val = classify(vv)
         label_blank = lv is None or (isinstance(lv, str) and lv.strip() == "")
         if kind == "blank":
             continue
@@ -711,13 +642,13 @@ def _numbers(values: Any, label: str) -> np.ndarray:
         try:
             arr = np.asarray(seq, dtype=np.float64)
         except OverflowError:
-            arr = np.array([_classify(v)[1] for v in seq], dtype=np.float64)
+            arr = np.array([classify(v)[1] for v in seq], dtype=np.float64)
     else:
         out = []
         for i, v in enumerate(seq):
             if isinstance(v, (list, tuple, np.ndarray)):
                 raise InputError(flat_msg)
-            kind, val = _classify(v)
+            kind, val = classify(v)
             if kind != "number":
                 raise InputError(
                     f'group "{label}" holds {v!r} at position {i + 1}; '
@@ -759,7 +690,7 @@ def as_groups(data: Any) -> Groups:
             f"cannot read groups from {type(data).__name__}; pass a mapping "
             "label -> values, a list of sequences, or a Groups object"
         )
-    dup = _first_duplicate(labels)
+    dup = first_duplicate(labels)
     if dup is not None:
         raise InputError(f'the label "{dup}" is used twice; give each group its own label')
     for lab, a in zip(labels, arrays):

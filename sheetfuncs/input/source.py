@@ -4,18 +4,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["InputSource", "column_letters"]
+from .cells import column_letters
 
-
-def column_letters(col: int) -> str:
-    """1-based column number as letters: 1 -> A, 27 -> AA."""
-    if col < 1:
-        raise ValueError("column numbers start at 1")
-    out = ""
-    while col:
-        col, rem = divmod(col - 1, 26)
-        out = chr(65 + rem) + out
-    return out
+__all__ = ["InputSource"]
 
 
 @dataclass(frozen=True)

@@ -11,7 +11,8 @@ import math
 from dataclasses import dataclass
 from typing import Any
 
-from .analysis import Analysis, Unavailable
+from ..stats import Unavailable
+from .context import ReportContext
 from .formats import format_measure, format_number, format_p, format_sig
 
 __all__ = ["Findings", "findings", "CAUTIONS", "effect_label"]
@@ -78,22 +79,22 @@ def _quote(label: str) -> str:
     return f'"{label}"'
 
 
-def _oneway_phrase(an: Analysis) -> str:
+def _oneway_phrase(an: ReportContext) -> str:
     ow = an.oneway
     return f"one-way F test, F({ow.df_between}, {ow.df_within}) = {format_sig(ow.f)}, {format_p(ow.p)}"
 
 
-def _welch_phrase(an: Analysis) -> str:
+def _welch_phrase(an: ReportContext) -> str:
     w = an.welch
     return f"Welch's test, F({_df(w.df1)}, {_df(w.df2)}) = {format_sig(w.statistic)}, {format_p(w.p)}"
 
 
-def _kruskal_phrase(an: Analysis) -> str:
+def _kruskal_phrase(an: ReportContext) -> str:
     k = an.kruskal
     return f"Kruskal–Wallis test, H = {format_sig(k.statistic)} on {k.df} df, {format_p(k.p)}"
 
 
-def _headline(an: Analysis) -> tuple[str, str, str]:
+def _headline(an: ReportContext) -> tuple[str, str, str]:
     """(verdict, read, headline)."""
     a = an.alpha
     read = an.checks.read
@@ -138,7 +139,7 @@ def _headline(an: Analysis) -> tuple[str, str, str]:
     )
 
 
-def _pair_sentence(an: Analysis, row: Any, interval: str) -> str:
+def _pair_sentence(an: ReportContext, row: Any, interval: str) -> str:
     d, (lo, hi) = row.difference, row.ci
     a_lab, b_lab = row.group_a, row.group_b
     if d < 0:
@@ -163,7 +164,7 @@ def _hits(res: Any) -> list[Any]:
     return sorted((r for r in res.rows if r.differs), key=lambda r: -abs(r.difference))
 
 
-def _pair_lines(an: Analysis, res: Any, name: str, lead: str = "") -> list[str]:
+def _pair_lines(an: ReportContext, res: Any, name: str, lead: str = "") -> list[str]:
     """A count of the pairs that differ, with one line per pair (largest difference first)."""
     hits = _hits(res)
     a = _alpha(an.alpha)
@@ -178,7 +179,7 @@ def _pair_lines(an: Analysis, res: Any, name: str, lead: str = "") -> list[str]:
     return out
 
 
-def _p_read(an: Analysis, read: str) -> float:
+def _p_read(an: ReportContext, read: str) -> float:
     if read == "welch":
         return an.welch.p
     if read == "kruskal":
@@ -192,7 +193,7 @@ def _near_alpha(p: float, alpha: float) -> bool:
     return math.isfinite(p) and alpha / 5 <= p < 2 * alpha
 
 
-def _differ_section(an: Analysis, verdict: str, read: str = "oneway") -> tuple[str, ...]:
+def _differ_section(an: ReportContext, verdict: str, read: str = "oneway") -> tuple[str, ...]:
     out: list[str] = []
     pw = an.pairwise
     gh = an.unequal_pairs
@@ -301,7 +302,7 @@ def _names(labels: list[str]) -> str:
     return ", ".join(q[:-1]) + " and " + q[-1]
 
 
-def _size_section(an: Analysis, verdict: str) -> tuple[str, ...]:
+def _size_section(an: ReportContext, verdict: str) -> tuple[str, ...]:
     out: list[str] = []
     desc = an.describe
     means = [(s.mean, s.label) for s in desc]
@@ -354,7 +355,7 @@ def _percent(x: float) -> str:
     return f"about {x:.0%}"
 
 
-def _read_section(an: Analysis, read: str) -> tuple[str, ...]:
+def _read_section(an: ReportContext, read: str) -> tuple[str, ...]:
     names = {
         "oneway": "the one-way F test",
         "welch": "Welch's test (it does not assume equal variances)",
@@ -385,7 +386,7 @@ _READ_NAMES = {"oneway": "the one-way F test", "welch": "Welch's test",
                "kruskal": "the Kruskal–Wallis rank test"}
 
 
-def _data_notes(an: Analysis, read: str = "oneway") -> tuple[tuple[str, ...], tuple[str, ...]]:
+def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...], tuple[str, ...]]:
     """(notes, possible-typo notes). The typo notes are shown once, under the answer; the notes
     only point to them."""
     g = an.groups
@@ -442,7 +443,7 @@ def _data_notes(an: Analysis, read: str = "oneway") -> tuple[tuple[str, ...], tu
     return tuple(notes), typos
 
 
-def _key_figures(an: Analysis) -> tuple[tuple[str, Any, str | None, Any, str], ...]:
+def _key_figures(an: ReportContext) -> tuple[tuple[str, Any, str | None, Any, str], ...]:
     ow = an.oneway
     a = an.alpha
     rows: list[tuple[str, Any, str | None, Any, str]] = []
@@ -472,7 +473,7 @@ def _key_figures(an: Analysis) -> tuple[tuple[str, Any, str | None, Any, str], .
     return tuple(rows)
 
 
-def findings(an: Analysis) -> Findings:
+def findings(an: ReportContext) -> Findings:
     """Work out the plain-words reading of ``an``."""
     verdict, read, headline = _headline(an)
     notes, typos = _data_notes(an, read)

@@ -23,7 +23,8 @@ from openpyxl.formatting.rule import CellIsRule, FormulaRule
 from openpyxl.styles import Font, PatternFill
 from openpyxl.utils import get_column_letter
 
-from .analysis import Analysis, Unavailable
+from ..stats import Unavailable
+from .context import ReportContext
 from .findings import CAUTIONS, Findings
 from .formats import P_FORMAT, Precision, fixed, format_measure, sig_decimals
 from .grid import Formula, Grid, Style, quote_sheet, safe_text
@@ -212,12 +213,12 @@ def _finish_rules(grid: Grid, alpha: float) -> None:
     ]
 
 
-def _title(grid: Grid, an: Analysis, title: str, subtitle: str) -> None:
+def _title(grid: Grid, an: ReportContext, title: str, subtitle: str) -> None:
     grid.put(1, 1, title, TITLE)
     grid.put(2, 1, subtitle, SUBTITLE)
 
 
-def _path_words(an: Analysis) -> str:
+def _path_words(an: ReportContext) -> str:
     return "decimal-exact sums of squares" if an.exact else "floating-point sums of squares"
 
 
@@ -290,7 +291,7 @@ class DataLayout:
 # Findings
 
 
-def build_findings(an: Analysis, fi: Findings, written: str) -> Grid:
+def build_findings(an: ReportContext, fi: Findings, written: str) -> Grid:
     g = Grid("Findings")
     g.widths = {1: 30.0, 2: 16.0, 3: 14.0, 4: 12.0, 5: 44.0}
     wide = 5
@@ -365,7 +366,7 @@ class Positions:
     cells: dict[str, str]
 
 
-def build_tables(an: Analysis) -> tuple[Grid, Positions]:
+def build_tables(an: ReportContext) -> tuple[Grid, Positions]:
     g = Grid("Tables")
     prec = an.precision
     _title(g, an, f"Tables · {an.title}", f"alpha = {an.alpha:g} · {an.conf:.0%} intervals · {_path_words(an)}")
@@ -441,7 +442,7 @@ def build_tables(an: Analysis) -> tuple[Grid, Positions]:
 # Comparisons
 
 
-def build_comparisons(an: Analysis) -> Grid:
+def build_comparisons(an: ReportContext) -> Grid:
     g = Grid("Comparisons")
     prec = an.precision
     _title(g, an, f"Comparisons · {an.title}",
@@ -529,7 +530,7 @@ def _mark_differs(g: Grid, header: list[Any], first: int, last: int) -> None:
 # Groups
 
 
-def build_groups(an: Analysis) -> tuple[Grid, dict[str, Any]]:
+def build_groups(an: ReportContext) -> tuple[Grid, dict[str, Any]]:
     g = Grid("Groups")
     prec = an.precision
     unit = f" ({an.unit})" if an.unit else ""
@@ -561,7 +562,7 @@ MAX_GROUP_SERIES = 250
 _PLOTTED_PER_GROUP = 201
 
 
-def build_chart(an: Analysis, layout: DataLayout) -> Grid:
+def build_chart(an: ReportContext, layout: DataLayout) -> Grid:
     g = Grid("Chart")
     prec = an.precision
     k = an.groups.k
@@ -709,7 +710,7 @@ def _markers_only(s: Series, symbol: str, size: int, color: str) -> None:
 # Audit
 
 
-def build_audit(an: Analysis, layout: DataLayout, tables: Positions) -> tuple[Grid, dict[str, str]]:
+def build_audit(an: ReportContext, layout: DataLayout, tables: Positions) -> tuple[Grid, dict[str, str]]:
     g = Grid("Audit")
     prec = an.precision
     k = an.groups.k
@@ -833,7 +834,7 @@ def _audit_floor(key: str, rows: dict[str, int]) -> str:
 
 REFERENCES = {
     "oneway": "One-way analysis of variance: Fisher, R. A. (1925), Statistical Methods for Research "
-              "Workers; e.g. Montgomery, D. C., Design and Analysis of Experiments, ch. 3.",
+              "Workers; e.g. Montgomery, D. C., Design and ReportContext of Experiments, ch. 3.",
     "fdist": "F upper tail from the regularised incomplete beta function: Abramowitz & Stegun (1964), 26.6.2.",
     "t": "t intervals for group means: NIST/SEMATECH e-Handbook of Statistical Methods, 7.2.2.1.",
     "welch": "Welch, B. L. (1951), Biometrika 38, 330–336.",
@@ -843,7 +844,7 @@ REFERENCES = {
     "bartlett": "Bartlett, M. S. (1937), Proceedings of the Royal Society A 160, 268–282.",
     "normality": "Shapiro, S. S. & Wilk, M. B. (1965), Biometrika 52, 591–611 (Royston's 1995 approximation); "
                  "above 5,000 residuals D'Agostino, R. B. & Pearson, E. S. (1973), Biometrika 60, 613–622.",
-    "effects": "Effect sizes and their intervals: Cohen, J. (1988), Statistical Power Analysis for the Behavioral "
+    "effects": "Effect sizes and their intervals: Cohen, J. (1988), Statistical Power ReportContext for the Behavioral "
                "Sciences; Steiger, J. H. (2004), Psychological Methods 9, 164–182; Smithson, M. (2003), "
                "Confidence Intervals.",
     "tukey": "Tukey, J. W. (1953), The Problem of Multiple Comparisons; Kramer, C. Y. (1956), Biometrics 12, 307–310.",
@@ -857,7 +858,7 @@ REFERENCES = {
 }
 
 
-def build_about(an: Analysis, *, source: Any, written: str, version: str, data_sheets: tuple[str, ...]) -> Grid:
+def build_about(an: ReportContext, *, source: Any, written: str, version: str, data_sheets: tuple[str, ...]) -> Grid:
     g = Grid("About")
     _title(g, an, "About this report", "Inputs, options, software and the methods behind every figure")
     r = 4

@@ -18,7 +18,8 @@ from openpyxl.cell import WriteOnlyCell
 from openpyxl.workbook.defined_name import DefinedName
 
 from ..errors import InputError
-from .analysis import Analysis, analyse, centred_values
+from ..stats import centred_values
+from .context import ReportContext, prepare
 from .findings import findings
 from .grid import Style, apply_style, make_cell, safe_text, setup_print
 from .sheets import (
@@ -98,7 +99,7 @@ def _content(value: Any) -> str:
     return value if isinstance(value, str) else repr(value)
 
 
-def _data_header(an: Analysis) -> list[str]:
+def _data_header(an: ReportContext) -> list[str]:
     unit = f" ({an.unit})" if an.unit else ""
     return [
         "Group no.", an.factor, f"{an.response}{unit}", f"Centred value (value − {an.centre:f})", "",
@@ -106,7 +107,7 @@ def _data_header(an: Analysis) -> list[str]:
     ]
 
 
-def _write_data(wb: Workbook, sheets: list[Any], an: Analysis, layout: DataLayout, source: Any,
+def _write_data(wb: Workbook, sheets: list[Any], an: ReportContext, layout: DataLayout, source: Any,
                 progress: Progress | None) -> None:
     """Stream the long-form data and the log of unused input cells over the Data sheets."""
     header = _data_header(an)
@@ -171,7 +172,7 @@ def _write_data(wb: Workbook, sheets: list[Any], an: Analysis, layout: DataLayou
         progress("data", done, total)
 
 
-def build_workbook(an: Analysis, *, source: Any = None, progress: Progress | None = None,
+def build_workbook(an: ReportContext, *, source: Any = None, progress: Progress | None = None,
                    row_limit: int = ROW_LIMIT) -> Workbook:
     """The report workbook for an analysis (not yet saved)."""
     written = timestamp()
@@ -241,7 +242,7 @@ def write_report(
     target = _check_target(path, force, source)
     if progress is not None:
         progress("analysis", 0, 1)
-    an = analyse(groups, alpha=alpha, method=method, control=control, factor=factor,
+    an = prepare(groups, alpha=alpha, method=method, control=control, factor=factor,
                  response=response, unit=unit, title=title)
     if progress is not None:
         progress("analysis", 1, 1)

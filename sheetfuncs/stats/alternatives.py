@@ -44,8 +44,8 @@ import numpy as np
 from scipy import stats
 
 from ..errors import InputError
-from ..distributions.f import f_tail
-from ..input.groups import Groups, as_groups
+from ..distributions import f_tail
+from ..input import Groups, as_groups
 from .moments import ExactMoments, FloatMoments, compute_moments
 from .oneway import require_two_groups
 

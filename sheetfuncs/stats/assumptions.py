@@ -55,10 +55,11 @@ from .alternatives import (
     welch,
 )
 from ..errors import InputError
-from ..input.groups import Groups, as_groups
+from ..input import Groups, as_groups
 from .moments import ExactMoments, FloatMoments, compute_moments
 from .oneway import OneWayResult, oneway, oneway_from_moments, require_two_groups
-from ..input.options import check_alpha, shown
+from ..input import check_alpha, shown
+from .outcome import Unavailable, attempt
 
 __all__ = [
     "LeveneResult",
@@ -672,15 +673,6 @@ def _sentence(text: str) -> str:
     return text if not text or text.endswith(".") else text + "."
 
 
-def _failure_reason(err: Exception) -> str:
-    """The reason recorded for a test that failed on a numerical problem it did not foresee."""
-    detail = str(err).strip() or type(err).__name__
-    return (
-        f"the computation failed on these data ({detail}); the other checks still answer, and "
-        "this is worth reporting to the maintainers with the data"
-    )
-
-
 def _sd_ratio(g: Groups, mom: ExactMoments | FloatMoments) -> float:
     sds = [math.sqrt(float(mom.ss_group(i) / (n - 1))) for i, n in enumerate(g.counts) if n >= 2]
     if len(sds) < 2:
@@ -691,7 +683,14 @@ def _sd_ratio(g: Groups, mom: ExactMoments | FloatMoments) -> float:
     return math.inf if lo == 0.0 else hi / lo
 
 
-def checks(groups: Any, alpha: float = 0.05, *, exact: bool | None = None) -> ChecksResult:
+def checks(
+    groups: Any,
+    alpha: float = 0.05,
+    *,
+    exact: bool | None = None,
+    moments: ExactMoments | FloatMoments | None = None,
+    oneway: OneWayResult | None = None,
+) -> ChecksResult:
     """Run the assumption checks and say, in plain words, which test to read.
 
     The rule (see ``docs/checks.md``):
@@ -709,30 +708,30 @@ def checks(groups: Any, alpha: float = 0.05, *, exact: bool | None = None) -> Ch
     Welch cannot run (a group with zero variance or a single value), the one-way F is read and
     the reasons say plainly that its p-value may mislead. The one-way analysis itself must be
     possible (two groups, some variation, residual degrees of freedom), else InputError.
+
+    ``moments`` and ``oneway``, when given, are the groups' moments and one-way result already
+    computed (by :func:`sheetfuncs.stats.analyse`), and are used instead of computing them again.
     """
     g = as_groups(groups)
     a = check_alpha(alpha)
     require_two_groups(g)
-    mom = compute_moments(g, exact)
-    ow = oneway_from_moments(g, mom)
+    mom = moments if moments is not None else compute_moments(g, exact)
+    ow = oneway if oneway is not None else oneway_from_moments(g, mom)
     missing: list[tuple[str, str]] = []
 
-    def attempt(name: str, fn, *args, **kw):
-        try:
-            return fn(*args, **kw)
-        except InputError as err:
-            missing.append((name, err.reason))
+    def secondary(name: str, call):
+        # an unforeseen numerical failure of one secondary test must not hide the others
+        got = attempt(name, call, numerical=True)
+        if isinstance(got, Unavailable):
+            missing.append((name, got.reason))
             return None
-        except (ArithmeticError, ValueError) as err:
-            # an unforeseen numerical failure of one secondary test must not hide the others
-            missing.append((name, _failure_reason(err)))
-            return None
+        return got
 
-    lev = attempt("Levene (median)", levene, g, "median", exact=exact)
-    bart = attempt("Bartlett", bartlett, g, exact=exact)
-    norm = attempt("Normal residuals", shapiro_residuals, g, exact=exact)
-    wel = attempt("Welch", welch, g, exact=exact)
-    kw = attempt("Kruskal-Wallis", kruskal, g)
+    lev = secondary("Levene (median)", lambda: levene(g, "median", exact=exact))
+    bart = secondary("Bartlett", lambda: bartlett(g, exact=exact))
+    norm = secondary("Normal residuals", lambda: shapiro_residuals(g, exact=exact))
+    wel = secondary("Welch", lambda: welch(g, exact=exact))
+    kw = secondary("Kruskal-Wallis", lambda: kruskal(g))
 
     ratio = _sd_ratio(g, mom)
     smallest = min(g.counts)

@@ -48,17 +48,17 @@ from typing import Any, ClassVar
 from scipy import stats
 
 from ..errors import InputError
-from ..distributions.f import f_critical, f_tail
-from ..input.groups import Groups, as_groups, format_label
+from ..distributions import f_critical, f_tail
+from ..input import Groups, as_groups, format_label
 from .moments import TOO_LARGE, ExactMoments, FloatMoments, compute_moments, rounded
-from ..distributions.mvt import (
+from ..distributions import (
     many_to_one_critical, many_to_one_tails, range_critical, range_criticals, range_tails,
 )
 from .oneway import oneway_from_moments, require_two_groups
-from ..input.options import check_alpha, shown
+from ..input import check_alpha, shown
 from .interval import Interval
 
-__all__ = ["METHODS", "PairRow", "PairwiseResult", "pairwise", "dunnett", "parse_method"]
+__all__ = ["METHODS", "METHOD_NAMES", "PairRow", "PairwiseResult", "pairwise", "dunnett", "parse_method"]
 
 #: The pairwise methods, in the order the documentation lists them.
 METHODS = ("tukey", "games-howell", "bonferroni", "holm", "sidak", "scheffe")
@@ -73,7 +73,8 @@ _ALIASES = {
     "scheffe": "scheffe", "scheffé": "scheffe",
 }
 
-_NAMES = {
+#: Each method and the name a reader knows it by.
+METHOD_NAMES = {
     "tukey": "Tukey–Kramer", "games-howell": "Games–Howell", "bonferroni": "Bonferroni",
     "holm": "Holm", "sidak": "Šidák", "scheffe": "Scheffé", "dunnett": "Dunnett",
 }
@@ -410,7 +411,7 @@ def _row(g: Groups, i: int, j: int, d: float, se: float, mult: float, stat: floa
 def _result(g, mom, meth, a, rows, ms_within, df_within, row_df, mults, notes, control=None) -> PairwiseResult:
     return PairwiseResult(
         method=meth, alpha=a, rows=tuple(rows), interval=_interval_label(meth, a),
-        statistic_name=_STATISTIC[meth], method_name=_NAMES[meth], labels=g.labels,
+        statistic_name=_STATISTIC[meth], method_name=METHOD_NAMES[meth], labels=g.labels,
         counts=g.counts, means=_means(g, mom), ms_within=ms_within, df_within=df_within,
         row_df=tuple(row_df),
         multipliers=tuple(mults), exact=mom.exact, control=control, notes=tuple(notes),

@@ -17,9 +17,9 @@ from typing import Any, ClassVar
 import numpy as np
 from scipy import stats
 
-from ..input.groups import as_groups
+from ..input import as_groups
 from .moments import check_float_zero_spread, check_ss_range, compute_moments
-from ..input.options import check_conf
+from ..input import check_conf
 from .interval import Interval
 
 __all__ = ["GroupSummary", "DescribeResult", "describe"]

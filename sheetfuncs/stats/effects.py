@@ -36,12 +36,12 @@ from typing import Any, ClassVar
 from scipy import optimize, stats
 
 from ..errors import InputError
-from ..distributions.f import check_df
-from ..input.groups import as_groups
+from ..distributions import check_df
+from ..input import as_groups
 from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
 from .planning import ncf_cdf
-from ..input.options import check_conf, shown
+from ..input import check_conf, shown
 from .interval import Interval
 
 __all__ = ["EffectSizes", "effect_sizes", "noncentrality_interval"]

@@ -19,15 +19,14 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any, ClassVar
 
-import numpy as np
 from scipy import stats
 
 from ..errors import InputError
-from ..distributions.f import f_tail
-from ..input.groups import Groups, as_groups, format_label
+from ..distributions import f_tail
+from ..input import Groups, as_groups, format_label
 from .moments import check_float_zero_spread, check_ss_range, compute_moments, rounded
 from .oneway import require_two_groups
-from ..input.options import as_real, check_conf, one_line, shown
+from ..input import as_real, check_conf, one_line, shown
 from .interval import Interval
 
 __all__ = ["LinearTestResult", "ContrastResult", "linear_test", "contrast", "per_group_argument"]

@@ -36,7 +36,7 @@ from collections.abc import Sequence
 import numpy as np
 
 from ..errors import InputError
-from ..input.groups import Groups
+from ..input import Groups
 
 __all__ = [
     "ExactMoments", "FloatMoments", "compute_moments", "decimal_parts", "check_ss_range",

@@ -21,9 +21,9 @@ from typing import Any, ClassVar
 import numpy as np
 
 from ..errors import InputError
-from ..input.options import as_real, one_line, shown
-from ..distributions.f import f_tail
-from ..input.groups import Groups, _first_duplicate, as_groups, format_label
+from ..input import as_real, one_line, shown
+from ..distributions import f_tail
+from ..input import Groups, first_duplicate, as_groups, format_label
 from .moments import (
     ExactMoments, FloatMoments, check_float_zero_spread, check_ss_range, compute_moments,
     decimal_parts, rounded,
@@ -226,7 +226,7 @@ def oneway_from_summary(
             raise InputError(
                 f"{len(labs)} names for {len(cs)} groups; give one name per group"
             )
-        dup = _first_duplicate(labs)
+        dup = first_duplicate(labs)
         if dup is not None:
             idx = [i + 1 for i, x in enumerate(labs) if x == dup]
             raise InputError(

@@ -33,8 +33,8 @@ from typing import Any, ClassVar
 from scipy import optimize, special, stats
 
 from ..errors import InputError
-from ..distributions.f import f_critical, f_tail
-from ..input.options import check_alpha, check_number, check_probability, shown
+from ..distributions import f_critical, f_tail
+from ..input import check_alpha, check_number, check_probability, shown
 
 __all__ = [
     "power",

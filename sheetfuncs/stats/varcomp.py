@@ -40,11 +40,11 @@ from typing import Any, ClassVar
 
 from scipy import stats
 
-from ..distributions.f import f_critical
-from ..input.groups import as_groups
+from ..distributions import f_critical
+from ..input import as_groups
 from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
-from ..input.options import check_conf
+from ..input import check_conf
 from .interval import Interval
 
 __all__ = ["VarianceComponents", "variance_components"]

@@ -74,26 +74,26 @@ import xlwings as xw
 
 # analyses are imported by name: the package's functions `power`, `pairwise` and `letters`
 # hide their module names
-from ..stats.alternatives import (
+from ..stats import (
     BrownForsytheResult, KruskalResult, WelchResult, brown_forsythe, kruskal, welch,
 )
-from ..stats.assumptions import (
+from ..stats import (
     BartlettResult, ChecksResult, LeveneResult, NormalityResult, bartlett, checks, levene,
     shapiro_residuals,
 )
-from ..stats.describe import DescribeResult, describe
-from ..stats.effects import EffectSizes, effect_sizes
+from ..stats import DescribeResult, describe
+from ..stats import EffectSizes, effect_sizes
 from ..errors import InputError, message
-from ..distributions.f import f_critical, f_tail
-from ..input.groups import _error_text, cell_position, format_label, groups_from_range
-from ..stats.lettering import LettersResult, letters
-from ..stats.linear import ContrastResult, LinearTestResult, contrast, linear_test
-from ..stats.oneway import OneWayResult, oneway, oneway_from_summary
-from ..stats.comparisons import PairwiseResult, dunnett, pairwise
-from ..stats.planning import detectable_effect, sample_size
-from ..stats.planning import power as power_of
-from ..input.options import check_number, one_line
-from ..stats.varcomp import VarianceComponents, variance_components
+from ..distributions import f_critical, f_tail
+from ..input import error_text, cell_position, format_label, groups_from_range
+from ..stats import LettersResult, letters
+from ..stats import ContrastResult, LinearTestResult, contrast, linear_test
+from ..stats import OneWayResult, oneway, oneway_from_summary
+from ..stats import PairwiseResult, dunnett, pairwise
+from ..stats import detectable_effect, sample_size
+from ..stats import power as power_of
+from ..input import check_number, one_line
+from ..stats import VarianceComponents, variance_components
 
 __all__ = [
     "Arg",
@@ -315,7 +315,7 @@ def _normalise(value: Any, arg: Arg) -> Any:
                 + ("a number" if arg.kind == "number" else "a value")
             )
         return arg.default
-    err = _error_text(value)
+    err = error_text(value)
     if err is not None:
         raise InputError(f"{arg.name} holds the error {err}; fix that cell")
     if arg.kind == "number":
@@ -333,7 +333,7 @@ def _range_errors(cells: Any, arg: Arg) -> None:
         return
     for r, row in enumerate(cells):
         for c, v in enumerate(row if isinstance(row, (list, tuple, np.ndarray)) else [row]):
-            err = _error_text(v)
+            err = error_text(v)
             if err is not None:
                 raise InputError(
                     f"the {arg.name} range holds the error {err} at "

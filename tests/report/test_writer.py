@@ -28,7 +28,8 @@ from sheetfuncs.stats.lettering import letters
 from sheetfuncs.stats.moments import compute_moments
 from sheetfuncs.stats.comparisons import dunnett, pairwise
 from sheetfuncs.report import SHEET_ORDER, write_report
-from sheetfuncs.report.analysis import analyse, centred_values, centring_constant
+from sheetfuncs.report.context import prepare
+from sheetfuncs.stats import centred_values, centring_constant
 from sheetfuncs.report.findings import findings
 from sheetfuncs.report.formats import P_FORMAT
 from sheetfuncs.report.grid import safe_text
@@ -262,7 +263,7 @@ def test_float_path_decimals_follow_the_spread(tmp_path):
     # two more for means (common practice), not a fixed four
     rng = np.random.default_rng(3)
     g = {f"Cell {i}": (250 + 2 * rng.standard_normal(8)).tolist() for i in range(3)}
-    an = analyse(g)
+    an = prepare(g)
     assert not an.exact
     assert an.precision.value == 2 and an.precision.mean == 4
     from sheetfuncs.report.formats import Precision, format_measure, spread_decimals
@@ -384,7 +385,7 @@ def _findings_sheet(path: Path) -> str:
 
 
 def test_findings_clear_difference(tmp_path):
-    an = analyse(CLEAR, factor="Filling line", response="fill weight", unit="g")
+    an = prepare(CLEAR, factor="Filling line", response="fill weight", unit="g")
     fi = findings(an)
     assert fi.verdict == "differs" and fi.read == "oneway"
     assert fi.headline.startswith("Yes: Filling line matters")
@@ -397,7 +398,7 @@ def test_findings_clear_difference(tmp_path):
 
 
 def test_findings_no_difference(tmp_path):
-    fi = findings(analyse(NONE, factor="Lot", response="assay"))
+    fi = findings(prepare(NONE, factor="Lot", response="assay"))
     assert fi.verdict == "no difference"
     assert fi.headline.startswith("No clear effect")
     assert "does not prove the groups equal" in fi.headline
@@ -407,7 +408,7 @@ def test_findings_no_difference(tmp_path):
 
 
 def test_findings_unequal_variances_reads_welch(tmp_path):
-    an = analyse(UNEQUAL, factor="Supplier", response="bore diameter", unit="mm")
+    an = prepare(UNEQUAL, factor="Supplier", response="bore diameter", unit="mm")
     fi = findings(an)
     assert an.checks.variances_unequal
     assert fi.read == "welch"
@@ -423,7 +424,7 @@ def test_findings_unequal_variances_lead_with_games_howell_and_do_not_contradict
     # The invented UNEQUAL scenario: Welch's p is about 0.0001, far from alpha, and the pooled
     # Tukey–Kramer comparisons find no pair while Games–Howell finds one (scipy.stats'
     # tukey_hsd is not needed: the report's own pairs are what the text must follow).
-    an = analyse(UNEQUAL, factor="Supplier", response="bore diameter", unit="mm")
+    an = prepare(UNEQUAL, factor="Supplier", response="bore diameter", unit="mm")
     fi = findings(an)
     assert fi.read == "welch" and fi.verdict == "differs" and an.welch.p < 0.001
     differ = dict(fi.sections)["Which groups differ"]
@@ -447,7 +448,7 @@ def test_findings_near_threshold_sentence_only_near_alpha():
     # Scheffé's pairwise comparisons (never more significant than the F test) find no pair
     lots = {"Lot 1": [10.0, 10.4, 9.7, 10.2, 9.9, 10.3], "Lot 2": [10.1, 9.8, 10.3, 10.0, 10.4, 9.9],
             "Lot 3": [10.51, 10.21, 10.71, 10.41, 10.11, 10.61]}
-    an = analyse(lots, method="scheffe")
+    an = prepare(lots, method="scheffe")
     fi = findings(an)
     assert fi.verdict == "differs" and fi.read == "oneway" and 0.01 <= an.oneway.p < 0.05
     assert not any(r.differs for r in an.pairwise.rows)
@@ -457,7 +458,7 @@ def test_findings_near_threshold_sentence_only_near_alpha():
 
 def test_findings_typo_notes_appear_once(tmp_path):
     g = groups_from_range([["Lot a", "Lot A", "Lot b"], [1.0, 2.0, 1.5], [1.2, 2.2, 1.4], [1.1, 2.1, 1.6]])
-    fi = findings(analyse(g))
+    fi = findings(prepare(g))
     assert len(fi.typo_notes) == 1
     assert fi.text().count(fi.typo_notes[0]) == 1
     sheet = _findings_sheet(_write(tmp_path, g))
@@ -469,7 +470,7 @@ def test_findings_percent_wording():
 
     assert _percent(0.004) == "less than 1%"
     assert _percent(0.25) == "about 25%"
-    fi = findings(analyse(NONE))
+    fi = findings(prepare(NONE))
     assert "accounts for less than 1%" in fi.text()
 
 
@@ -480,7 +481,7 @@ def test_findings_rank_test_read_and_disagreeing(tmp_path):
     ovens = {"Oven 1": [5.1, 5.2, 5.0, 5.3, 5.1, 5.2, 5.0, 7.9],
              "Oven 2": [5.6, 5.5, 5.7, 5.6, 5.4, 5.5, 5.7, 8.3],
              "Oven 3": [5.2, 5.1, 5.3, 5.2, 5.0, 5.3, 5.1, 8.0]}
-    an = analyse(ovens, factor="Oven", response="cure time")
+    an = prepare(ovens, factor="Oven", response="cure time")
     fi = findings(an)
     assert fi.read == "kruskal"
     assert (an.oneway.p < 0.05) != (an.kruskal.p < 0.05)

@@ -48,19 +48,16 @@ from pathlib import Path
 from typing import Any
 
 from ...errors import InputError
-from ..groups import ERROR_TEXTS, Groups, groups_from_range
-from ..source import InputSource, column_letters
+from ..cells import ERROR_TEXTS, RangeRef, a1_range, column_letters, parse_range
+from ..groups import Groups, groups_from_range
+from ..source import InputSource
 
 __all__ = [
     "DEFAULT_SIZE_LIMIT",
-    "MAX_ROWS",
-    "MAX_COLS",
     "WORKBOOK_SUFFIXES",
     "CSV_SUFFIXES",
     "CellBlock",
     "LoadedGroups",
-    "RangeRef",
-    "parse_range",
     "read_cells",
     "read_groups",
     "csv_value",
@@ -73,9 +70,6 @@ __all__ = [
 
 #: Default limit on the total uncompressed size of a workbook (and on the size of a CSV file).
 DEFAULT_SIZE_LIMIT = 512 * 1024 * 1024
-#: The host's sheet size (rows, columns).
-MAX_ROWS, MAX_COLS = 1_048_576, 16_384
-
 WORKBOOK_SUFFIXES = (".xlsx", ".xlsm", ".xltx", ".xltm")
 CSV_SUFFIXES = (".csv", ".tsv", ".txt")
 _DELIMITERS = ("\t", ";", ",")  # in order of preference when several fit
@@ -135,93 +129,6 @@ class LoadedGroups:
     @property
     def source(self) -> InputSource:
         return self.block.source
-
-
-@dataclass(frozen=True)
-class RangeRef:
-    """A parsed range reference: 1-based bounds; ``max_row``/``max_col`` ``None`` = open."""
-
-    min_row: int
-    min_col: int
-    max_row: int | None
-    max_col: int | None
-    sheet: str | None = None
-
-    def a1(self, last_row: int | None = None, last_col: int | None = None) -> str:
-        """The reference in A1 form; an open side is closed at ``last_row``/``last_col`` when
-        given, else written as the host writes it (``B:E`` for whole columns, ``2:40`` for
-        whole rows)."""
-        if self.max_row is None and last_row is None and self.min_row == 1:
-            c2 = self.max_col if self.max_col is not None else (last_col or self.min_col)
-            return f"{column_letters(self.min_col)}:{column_letters(c2)}"
-        if self.max_col is None and last_col is None and self.min_col == 1:
-            r2 = self.max_row if self.max_row is not None else (last_row or self.min_row)
-            return f"{self.min_row}:{r2}"
-        r2 = self.max_row if self.max_row is not None else (last_row or self.min_row)
-        c2 = self.max_col if self.max_col is not None else (last_col or self.min_col)
-        return _a1(self.min_row, self.min_col, r2, c2)
-
-
-def _a1(r1: int, c1: int, r2: int, c2: int) -> str:
-    first = f"{column_letters(c1)}{r1}"
-    if (r1, c1) == (r2, c2):
-        return first
-    return f"{first}:{column_letters(c2)}{r2}"
-
-
-# --------------------------------------------------------------------------------------------
-# range references
-
-_CELL = r"\$?([A-Za-z]{1,3})\$?([0-9]{1,7})"
-_RE_CELLS = re.compile(rf"^{_CELL}(?::{_CELL})?$")
-_RE_COLS = re.compile(r"^\$?([A-Za-z]{1,3}):\$?([A-Za-z]{1,3})$")
-_RE_ROWS = re.compile(r"^\$?([0-9]{1,7}):\$?([0-9]{1,7})$")
-_RE_SHEET = re.compile(r"^(?:'((?:[^']|'')+)'|([^'!]+))!(.+)$")
-
-
-def _col_number(letters: str) -> int:
-    n = 0
-    for ch in letters.upper():
-        n = n * 26 + (ord(ch) - 64)
-    return n
-
-
-def parse_range(text: str) -> RangeRef | None:
-    """Parse ``A1:F40``, ``$B$2:$E$30``, ``B:E``, ``2:40``, ``C5`` or ``'Lot data'!A1:F40``.
-
-    Returns ``None`` when the text is not an A1 reference (it may then be a defined name);
-    raises :class:`InputError` for a reference outside the sheet's size.
-    """
-    s = text.strip()
-    sheet = None
-    m = _RE_SHEET.match(s)
-    if m:
-        sheet = (m.group(1).replace("''", "'") if m.group(1) is not None else m.group(2)).strip()
-        s = m.group(3).strip()
-    ref: RangeRef | None = None
-    if (m := _RE_CELLS.match(s)) is not None:
-        c1, r1 = _col_number(m.group(1)), int(m.group(2))
-        if m.group(3) is None:
-            c2, r2 = c1, r1
-        else:
-            c2, r2 = _col_number(m.group(3)), int(m.group(4))
-        ref = RangeRef(min(r1, r2), min(c1, c2), max(r1, r2), max(c1, c2), sheet)
-    elif (m := _RE_COLS.match(s)) is not None:
-        c1, c2 = _col_number(m.group(1)), _col_number(m.group(2))
-        ref = RangeRef(1, min(c1, c2), None, max(c1, c2), sheet)
-    elif (m := _RE_ROWS.match(s)) is not None:
-        r1, r2 = int(m.group(1)), int(m.group(2))
-        ref = RangeRef(min(r1, r2), 1, max(r1, r2), None, sheet)
-    if ref is None:
-        return None
-    rows = [r for r in (ref.min_row, ref.max_row) if r is not None]
-    cols = [c for c in (ref.min_col, ref.max_col) if c is not None]
-    if min(rows) < 1 or max(rows) > MAX_ROWS or min(cols) < 1 or max(cols) > MAX_COLS:
-        raise InputError(
-            f"the range {text.strip()} lies outside a sheet (rows 1 to {MAX_ROWS:,}, "
-            "columns A to XFD); check the reference"
-        )
-    return ref
 
 
 # --------------------------------------------------------------------------------------------
@@ -829,7 +736,7 @@ def _read_workbook(
     if suspects:
         _check_formulas(p, title, suspects, source)
     width = max(len(r) for r in rows)
-    block_ref = _a1(first_row, first_col, first_row + len(rows) - 1, first_col + width - 1)
+    block_ref = a1_range(first_row, first_col, first_row + len(rows) - 1, first_col + width - 1)
     return CellBlock(rows=tuple(rows), source=source, kind="workbook", ref=block_ref)
 
 
@@ -1296,6 +1203,6 @@ def _read_csv(
         raise InputError(f"{what} holds no values; check the file and the range")
     source = InputSource(path=str(p), sheet=None, first_row=fr, first_col=fc)
     width = max(len(x) for x in trimmed)
-    block_ref = _a1(fr, fc, fr + len(trimmed) - 1, fc + width - 1)
+    block_ref = a1_range(fr, fc, fr + len(trimmed) - 1, fc + width - 1)
     return CellBlock(rows=tuple(trimmed), source=source, kind="csv", ref=block_ref,
                      delimiter=delimiter)

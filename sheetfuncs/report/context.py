@@ -1,0 +1,88 @@
+"""What one report shows: the core's analysis, the names the user gave, and two report figures.
+
+The report writer never computes statistics of its own: :func:`prepare` calls
+:func:`sheetfuncs.stats.analyse` once and the sheet builders only shape its results. The report
+adds the names of the factor, the response and its unit and the title; the Audit sheet's
+centring constant (a round number near the grand mean, from which a spreadsheet's own
+floating-point functions reproduce the exact figures, :mod:`sheetfuncs.stats.centring`); and
+the decimals figures are shown with (:class:`~sheetfuncs.report.formats.Precision`).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, fields
+from decimal import Decimal
+from typing import Any
+
+from ..errors import InputError
+from ..stats import Analysis, DescribeResult, ExactMoments, OneWayResult, analyse, centring_constant
+from .formats import Precision
+
+__all__ = ["ReportContext", "prepare"]
+
+
+@dataclass(frozen=True)
+class ReportContext(Analysis):
+    """Every result of the analysis (the fields of :class:`~sheetfuncs.stats.Analysis`), plus
+    ``factor``, ``response``, ``unit`` (or ``None``) and ``title`` as the report names them,
+    ``centre`` (the Audit sheet's centring constant) and ``precision`` (decimals shown)."""
+
+    factor: str
+    response: str
+    unit: str | None
+    title: str
+    centre: Decimal
+    precision: Precision
+
+    def units(self, text: str) -> str:
+        """``text`` followed by the unit, when there is one: ``2.95 Shore A``."""
+        return f"{text} {self.unit}" if self.unit else text
+
+
+def _text_option(value: Any, name: str, default: str | None) -> str | None:
+    if value is None:
+        return default
+    if not isinstance(value, str):
+        raise InputError(f"{name} must be text, not {value!r}")
+    s = value.strip()
+    return s if s else default
+
+
+def _smallest_spread(desc: DescribeResult, ow: OneWayResult) -> float | None:
+    """The smallest positive group SD (the overall SD when no group varies): it sets the
+    decimals of the floating-point path, whose values carry no decimals of their own."""
+    sds = [float(s.sd) for s in desc if s.n > 1 and math.isfinite(float(s.sd)) and float(s.sd) > 0]
+    if sds:
+        return min(sds)
+    if ow.df_total > 0 and ow.ss_total > 0 and math.isfinite(ow.ss_total):
+        return math.sqrt(ow.ss_total / ow.df_total)
+    return None
+
+
+def prepare(
+    groups: Any,
+    *,
+    alpha: Any = 0.05,
+    method: Any = "tukey",
+    control: Any = None,
+    factor: str | None = "Factor",
+    response: str | None = "Response",
+    unit: str | None = None,
+    title: str | None = None,
+) -> ReportContext:
+    """Run every analysis of the report once. Option errors and an impossible one-way analysis
+    raise :class:`~sheetfuncs.errors.InputError`; a secondary analysis that cannot run is kept
+    as :class:`~sheetfuncs.stats.Unavailable` with its reason."""
+    fac = _text_option(factor, "the factor name", "Factor")
+    resp = _text_option(response, "the response name", "Response")
+    un = _text_option(unit, "the unit", None)
+    ttl = _text_option(title, "the title", None) or f"{resp} by {fac}"
+    an = analyse(groups, alpha=alpha, method=method, control=control)
+    mom = an.moments
+    prec = Precision(mom.scale if isinstance(mom, ExactMoments) else None, _smallest_spread(an.describe, an.oneway))
+    return ReportContext(
+        **{f.name: getattr(an, f.name) for f in fields(Analysis)},
+        factor=fac, response=resp, unit=un, title=ttl,
+        centre=centring_constant(mom, an.oneway), precision=prec,
+    )

@@ -1,0 +1,126 @@
+"""Every result of one analysis of the groups, computed once, for every front that shows several.
+
+The report and the command line never compute statistics of their own: they call
+:func:`analyse` once and shape what it returns. It runs the one-way analysis on the groups'
+moments, the group summaries, the assumption checks (with Welch and Kruskal–Wallis, reusing those
+moments and that one-way result), the effect sizes, the compact letters and the pairwise
+comparisons they are drawn from, Dunnett's comparisons with a control when one is named, and
+Games–Howell when the checks find unequal spreads and the chosen method pools the variances.
+An analysis that cannot run on these data is kept as :class:`~sheetfuncs.stats.outcome.Unavailable`
+with its reason; the one-way analysis itself and the options must be possible, else
+:class:`~sheetfuncs.errors.InputError`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+from ..errors import InputError
+from ..input import Groups, as_groups, format_label
+from ..input import check_alpha
+from .alternatives import KruskalResult, WelchResult
+from .assumptions import ChecksResult, checks
+from .comparisons import METHOD_NAMES, PairwiseResult, dunnett, pairwise, parse_method
+from .describe import DescribeResult, describe
+from .effects import EffectSizes, effect_sizes
+from .lettering import LettersResult, letters
+from .moments import ExactMoments, FloatMoments, compute_moments
+from .oneway import OneWayResult, oneway_from_moments, require_two_groups
+from .outcome import Unavailable, attempt
+
+__all__ = ["Analysis", "analyse"]
+
+
+@dataclass(frozen=True)
+class Analysis:
+    """Every result of one analysis (``Unavailable`` where an analysis could not run).
+
+    ``alpha`` is the significance level and ``conf = 1 - alpha`` the confidence level of every
+    interval; ``method`` the pairwise method (canonical name) and ``control`` the control's
+    label or ``None``; ``welch`` and ``kruskal`` are the checks' own results (or
+    ``Unavailable`` with the checks' reason); ``pairwise`` are the comparisons the ``letters``
+    were drawn from; ``unequal_pairs`` holds Games–Howell comparisons when the checks find
+    unequal spreads and ``method`` pools the variances (else ``None``).
+    """
+
+    groups: Groups
+    alpha: float
+    conf: float
+    method: str
+    control: str | None
+    moments: ExactMoments | FloatMoments
+    oneway: OneWayResult
+    describe: DescribeResult
+    checks: ChecksResult
+    welch: WelchResult | Unavailable
+    kruskal: KruskalResult | Unavailable
+    effects: EffectSizes | Unavailable
+    pairwise: PairwiseResult | Unavailable
+    dunnett: PairwiseResult | Unavailable | None
+    letters: LettersResult | Unavailable
+    unequal_pairs: PairwiseResult | Unavailable | None
+
+    @property
+    def exact(self) -> bool:
+        """Whether the decimal-exact path was used."""
+        return bool(self.oneway.exact)
+
+    @property
+    def method_name(self) -> str:
+        """The pairwise method's published name, e.g. ``Tukey–Kramer``."""
+        return METHOD_NAMES[self.method]
+
+
+def control_label(control: Any, g: Groups) -> str | None:
+    """The control's label (matched as the groups' labels are formed), ``None`` when not given."""
+    if control is None:
+        return None
+    label = format_label(control)
+    if label == "":
+        return None
+    if label not in g.labels:
+        shown = ", ".join(f'"{x}"' for x in g.labels[:8]) + (", ..." if g.k > 8 else "")
+        raise InputError(
+            f'the control "{label}" is not one of the groups ({shown}); give the '
+            "label of the control group exactly as it heads its column"
+        )
+    return label
+
+
+def _checked(result: Any, what: str, chk: ChecksResult) -> Any:
+    """One of the checks' results, or ``Unavailable`` with the reason the checks recorded."""
+    if result is not None:
+        return result
+    return Unavailable(what, dict(chk.not_available).get(what, "not available"))
+
+
+def analyse(groups: Any, *, alpha: Any = 0.05, method: Any = "tukey", control: Any = None) -> Analysis:
+    """Run every analysis once (see the module docstring); intervals are at ``1 - alpha``."""
+    g = as_groups(groups)
+    a = check_alpha(alpha)
+    m = parse_method(method)
+    require_two_groups(g)
+    ctrl = control_label(control, g)
+    mom = compute_moments(g)
+    ow = oneway_from_moments(g, mom)
+    conf = 1.0 - a
+    chk = checks(g, a, moments=mom, oneway=ow)
+    let = attempt("letters", lambda: letters(g, m, a))
+    shared = getattr(let, "comparisons", None)
+    if isinstance(shared, PairwiseResult) and shared.method == m and shared.alpha == a:
+        pw = shared  # the very comparisons the letters were drawn from
+    else:
+        pw = attempt(METHOD_NAMES[m], lambda: pairwise(g, m, a))
+    gh = None
+    if chk.variances_unequal and m != "games-howell":
+        gh = attempt(METHOD_NAMES["games-howell"], lambda: pairwise(g, "games-howell", a))
+    return Analysis(
+        groups=g, alpha=a, conf=conf, method=m, control=ctrl, moments=mom, oneway=ow,
+        describe=describe(g, conf), checks=chk,
+        welch=_checked(chk.welch, "Welch", chk), kruskal=_checked(chk.kruskal, "Kruskal-Wallis", chk),
+        effects=attempt("effect sizes", lambda: effect_sizes(g, conf)),
+        pairwise=pw,
+        dunnett=attempt("Dunnett", lambda: dunnett(g, ctrl, a)) if ctrl is not None else None,
+        letters=let, unequal_pairs=gh,
+    )
