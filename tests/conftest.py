@@ -1,5 +1,7 @@
 from hypothesis import HealthCheck, settings
 
+from tests.support.xlwings_engine import xlwings_pipeline  # noqa: F401  (a fixture)
+
 # Property tests repeat exactly from run to run (no flaky CI) and have no per-example deadline.
 settings.register_profile(
     "sheetfuncs", derandomize=True, deadline=None, suppress_health_check=[HealthCheck.too_slow]

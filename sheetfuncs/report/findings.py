@@ -2,7 +2,7 @@
 
 Order follows what a reader needs first: the answer (does the factor matter), the key figures,
 which groups differ, how large the differences are, which result to read given the checks and
-why, notes on the data, and the cautions. Every number quoted comes from :mod:`._analysis`.
+why, notes on the data, and the cautions. Every number quoted comes from :func:`sheetfuncs.stats.analyse`.
 """
 
 from __future__ import annotations
@@ -11,7 +11,7 @@ import math
 from dataclasses import dataclass
 from typing import Any
 
-from ..stats import Unavailable
+from ..stats import Unavailable, df_text, sentence
 from .context import ReportContext
 from .formats import format_measure, format_number, format_p, format_sig
 
@@ -67,10 +67,6 @@ def effect_label(f: float) -> str:
     return "large"
 
 
-def _df(v: float) -> str:
-    return str(int(v)) if float(v).is_integer() else f"{v:.2f}"
-
-
 def _alpha(a: float) -> str:
     return f"{a:g}"
 
@@ -86,7 +82,7 @@ def _oneway_phrase(an: ReportContext) -> str:
 
 def _welch_phrase(an: ReportContext) -> str:
     w = an.welch
-    return f"Welch's test, F({_df(w.df1)}, {_df(w.df2)}) = {format_sig(w.statistic)}, {format_p(w.p)}"
+    return f"Welch's test, F({df_text(w.df1, w.df2)}) = {format_sig(w.statistic)}, {format_p(w.p)}"
 
 
 def _kruskal_phrase(an: ReportContext) -> str:
@@ -374,14 +370,6 @@ def _read_section(an: ReportContext, read: str) -> tuple[str, ...]:
     return tuple(out)
 
 
-def _sentence(text: str) -> str:
-    text = text.strip()
-    if not text:
-        return text
-    text = text[0].upper() + text[1:]
-    return text if text.endswith((".", "!", "?")) else text + "."
-
-
 _READ_NAMES = {"oneway": "the one-way F test", "welch": "Welch's test",
                "kruskal": "the Kruskal–Wallis rank test"}
 
@@ -421,14 +409,14 @@ def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...
     if not isinstance(eff, Unavailable):
         eff_notes = [n for n in (getattr(eff, "notes", ()) or ()) if n]
         if read == "oneway":
-            notes.extend(_sentence(n) for n in eff_notes)
+            notes.extend(sentence(n) for n in eff_notes)
         else:
             # the effect sizes come from the one-way table: say so when another result is read
             if eff_notes:
                 notes.append(
                     f"About the effect sizes, which come from the one-way table and not from "
                     f"{_READ_NAMES[read]} (the result read here), so they describe the one-way "
-                    "analysis only: " + " ".join(_sentence(n) for n in eff_notes)
+                    "analysis only: " + " ".join(sentence(n) for n in eff_notes)
                 )
     if an.exact:
         notes.append(
@@ -457,7 +445,7 @@ def _key_figures(an: ReportContext) -> tuple[tuple[str, Any, str | None, Any, st
     if isinstance(w, Unavailable):
         rows.append(("Welch F", None, None, None, "not available: " + w.reason))
     else:
-        rows.append(("Welch F", w.statistic, f"{_df(w.df1)}, {_df(w.df2)}", w.p, reading(w.p)))
+        rows.append(("Welch F", w.statistic, df_text(w.df1, w.df2), w.p, reading(w.p)))
     k = an.kruskal
     if isinstance(k, Unavailable):
         rows.append(("Kruskal–Wallis H", None, None, None, "not available: " + k.reason))

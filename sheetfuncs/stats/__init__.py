@@ -31,6 +31,7 @@ from .oneway import OneWayResult, oneway, oneway_from_moments, oneway_from_summa
 from .outcome import Unavailable, attempt
 from .planning import PowerPlan, detectable_effect, ncf_cdf, ncf_sf, plan, power, sample_size
 from .varcomp import VarianceComponents, variance_components
+from .wording import df_text, sentence
 
 __all__ = [
     "BrownForsytheResult", "KruskalResult", "WelchResult", "brown_forsythe", "kruskal", "welch",
@@ -50,4 +51,5 @@ __all__ = [
     "Unavailable", "attempt",
     "PowerPlan", "detectable_effect", "ncf_cdf", "ncf_sf", "plan", "power", "sample_size",
     "VarianceComponents", "variance_components",
+    "df_text", "sentence",
 ]

@@ -60,6 +60,7 @@ from .moments import ExactMoments, FloatMoments, compute_moments
 from .oneway import OneWayResult, oneway, oneway_from_moments, require_two_groups
 from ..input import check_alpha, shown
 from .outcome import Unavailable, attempt
+from .wording import df_text, sentence
 
 __all__ = [
     "LeveneResult",
@@ -616,13 +617,13 @@ class ChecksResult:
         ow, w, kw, lev, b, nm = self.oneway, self.welch, self.kruskal, self.levene, self.bartlett, self.normality
         rows: list[list[Any]] = [list(self.HEADER)]
         if self.read == "welch" and w is not None:
-            rows.append(["Read", w.statistic, _df_text(w.df1, w.df2), w.p, self.read_name])
+            rows.append(["Read", w.statistic, df_text(w.df1, w.df2), w.p, self.read_name])
         elif self.read == "kruskal" and kw is not None:
             rows.append(["Read", kw.statistic, kw.df, kw.p, self.read_name])
         else:
-            rows.append(["Read", ow.f, _df_text(ow.df_between, ow.df_within), ow.p, self.read_name])
+            rows.append(["Read", ow.f, df_text(ow.df_between, ow.df_within), ow.p, self.read_name])
         rows.append(self._row(
-            "Levene (median)", lev, lambda: (lev.statistic, _df_text(lev.df_between, lev.df_within), lev.p),
+            "Levene (median)", lev, lambda: (lev.statistic, df_text(lev.df_between, lev.df_within), lev.p),
             lambda: "variances look unequal" if lev.p < a else "no sign of unequal variances"))
         ratio = self.sd_ratio
         if math.isnan(ratio):
@@ -644,10 +645,10 @@ class ChecksResult:
         rows.append(["Smallest group size", self.smallest_n, None, None,
                      f"fewer than {SMALL_GROUP_N}" if self.smallest_n < SMALL_GROUP_N
                      else f"{SMALL_GROUP_N} or more"])
-        rows.append(["One-way F", ow.f, _df_text(ow.df_between, ow.df_within), ow.p,
+        rows.append(["One-way F", ow.f, df_text(ow.df_between, ow.df_within), ow.p,
                      "assumes equal variances and normal residuals"])
         rows.append(self._row(
-            "Welch", w, lambda: (w.statistic, _df_text(w.df1, w.df2), w.p),
+            "Welch", w, lambda: (w.statistic, df_text(w.df1, w.df2), w.p),
             lambda: "does not assume equal variances"))
         rows.append(self._row(
             "Kruskal-Wallis", kw, lambda: (kw.statistic, kw.df, kw.p),
@@ -655,22 +656,8 @@ class ChecksResult:
         return rows
 
 
-def _df_text(df1: float, df2: float) -> str:
-    """Two degrees of freedom as one cell's text, e.g. ``3, 17.42``."""
-    def one(v: float) -> str:
-        return str(int(v)) if float(v).is_integer() else f"{v:.2f}"
-
-    return f"{one(df1)}, {one(df2)}"
-
-
 def _p_text(p: float) -> str:
     return "p < 1e-300" if p < 1e-300 else f"p = {p:.3g}"
-
-
-def _sentence(text: str) -> str:
-    """The text with a closing full stop (it follows a colon in a reason)."""
-    text = text.strip()
-    return text if not text or text.endswith(".") else text + "."
 
 
 def _sd_ratio(g: Groups, mom: ExactMoments | FloatMoments) -> float:
@@ -742,7 +729,7 @@ def checks(
     if lev is None:
         reasons.append(
             "Levene's test (median-centred) could not run: "
-            + _sentence(dict(missing)["Levene (median)"])
+            + sentence(dict(missing)["Levene (median)"], capital=False)
         )
     elif lev_flag:
         reasons.append(
@@ -776,7 +763,7 @@ def checks(
     if norm is None:
         reasons.append(
             "The normality of the residuals could not be tested: "
-            + _sentence(dict(missing)["Normal residuals"])
+            + sentence(dict(missing)["Normal residuals"], capital=False)
         )
     else:
         reasons.append(
@@ -798,7 +785,7 @@ def checks(
         read = "oneway"
         reasons.append(
             "The variances look unequal, but Welch's test could not run: "
-            + _sentence(dict(missing)["Welch"])
+            + sentence(dict(missing)["Welch"], capital=False)
             + " The one-way F is shown instead, and with unequal variances its p-value may "
             "mislead: look at the data of that group before relying on any result."
         )

@@ -22,7 +22,7 @@ from sheetfuncs.distributions.mvt import (
     many_to_one_critical, many_to_one_tail, many_to_one_tails, range_critical, range_criticals,
     range_tail, range_tails,
 )
-from tests.stats.test_comparisons import _mp_many_to_one_normal  # mpmath reference (Dunnett 1955 reduction)
+from tests.support.mpmath_refs import many_to_one_normal  # mpmath reference (Dunnett 1955 reduction)
 
 SQRT2 = math.sqrt(2.0)
 
@@ -107,7 +107,7 @@ def test_many_to_one_with_repeated_factors_matches_mpmath():
     h = np.array([1.5, 4.0])
     got = many_to_one_tails(h, lam, math.inf)
     for hi, p in zip(h, got):
-        assert p == pytest.approx(_mp_many_to_one_normal(float(hi), lam), rel=1e-10)
+        assert p == pytest.approx(many_to_one_normal(float(hi), lam), rel=1e-10)
 
 
 def test_vector_edges_and_checks():

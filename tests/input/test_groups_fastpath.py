@@ -250,9 +250,9 @@ def test_ints_bools_and_error_codes_are_not_read_as_floats() -> None:
 
 # --------------------------------------------------------------------------------------------
 # the harness's read, which skips per-cell work on rows it leaves unchanged, against xlwings'
-# own pipeline (reference library; Windows engine stand-in from tests/test_harness.py)
+# own pipeline (reference library; Windows engine stand-in from tests/support/xlwings_engine.py)
 
-from tests.worksheet.test_harness import _com, xlwings_pipeline  # noqa: E402,F401  (the fixture and COM hand-over)
+from tests.support.xlwings_engine import com_value  # noqa: E402
 
 from sheetfuncs.worksheet import harness  # noqa: E402
 
@@ -271,7 +271,7 @@ def test_harness_read_matches_xlwings_on_a_large_block(xlwings_pipeline) -> None
     rows[3900][2] = dt.date(2024, 3, 1)
     for block in (rows, rows[:2400]):  # with and without the cells that need cleaning
         for options in ({"ndim": 2, "err_to_str": True}, {"ndim": 2}):
-            expected = xlwings_pipeline.read(None, _com(block), dict(options))
+            expected = xlwings_pipeline.read(None, com_value(block), dict(options))
             assert harness.read_argument(block, options) == expected
 
 
@@ -284,7 +284,7 @@ def test_harness_read_matches_xlwings_on_a_large_block(xlwings_pipeline) -> None
     BLOCK_SIZES,
 )
 def test_harness_read_matches_xlwings_on_random_blocks(xlwings_pipeline, block, options, block_cells) -> None:
-    expected = xlwings_pipeline.read(None, _com(block), dict(options))
+    expected = xlwings_pipeline.read(None, com_value(block), dict(options))
     with mock.patch.object(harness, "_BLOCK_CELLS", block_cells):
         got = harness.read_argument(block, options)
     assert got == expected and type(got) is type(expected)

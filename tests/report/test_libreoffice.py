@@ -24,7 +24,7 @@ from tests.support import nist
 from sheetfuncs import as_groups, oneway
 from sheetfuncs.input.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
 from sheetfuncs.report import write_report
-from tests.report.test_writer import CLEAR, EQUAL_MEANS, NONE, UNEQUAL
+from tests.support.scenarios import CLEAR, EQUAL_MEANS, NONE, UNEQUAL
 
 NAMES = ("ss_between", "ss_within", "df_between", "df_within", "f_ratio", "p_value")
 

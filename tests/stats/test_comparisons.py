@@ -20,6 +20,7 @@ import pytest
 from scipy import stats
 
 from tests.support import nist
+from tests.support.mpmath_refs import many_to_one_normal
 from sheetfuncs.errors import InputError
 from sheetfuncs.input.groups import groups_from_range
 from sheetfuncs.distributions.mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
@@ -301,29 +302,13 @@ def test_range_tail_known_variance_matches_mpmath(r, k):
     assert range_tail(r, k, math.inf) == pytest.approx(_mp_range_tail_normal(r, k), rel=1e-11)
 
 
-def _mp_many_to_one_normal(h: float, lam: list[float]) -> float:
-    """P(max |Z_j| > h), corr l_i l_j, by mpmath at 30 digits (Dunnett 1955 reduction)."""
-    with mp.workdps(30):
-        h = mp.mpf(h)
-        ls = [mp.mpf(x) for x in lam]
-        ss = [mp.sqrt(1 - x * x) for x in ls]
-
-        def f(u):
-            inside = mp.mpf(1)
-            for l, s in zip(ls, ss):
-                inside *= mp.ncdf((h - l * u) / s) - mp.ncdf((-h - l * u) / s)
-            return mp.npdf(u) * (1 - inside)
-
-        return float(mp.quad(f, [-mp.inf, -h, -h / 2, 0, h / 2, h, mp.inf]))
-
-
 @pytest.mark.parametrize(
     "h,lam",
     [(2.2, [0.5 ** 0.5] * 3), (7.0, [0.5 ** 0.5] * 2), (5.5, [0.95, 0.2, 0.6])],
 )
 def test_many_to_one_known_variance_matches_mpmath(h, lam):
     # source: mpmath quadrature of Dunnett's (1955) one-dimensional form
-    assert many_to_one_tail(h, lam, math.inf) == pytest.approx(_mp_many_to_one_normal(h, lam), rel=1e-10)
+    assert many_to_one_tail(h, lam, math.inf) == pytest.approx(many_to_one_normal(h, lam), rel=1e-10)
 
 
 @pytest.mark.parametrize("q,k,df", [(15.0, 4, 30), (40.0, 5, 12), (80.0, 3, 60), (25.0, 8, 200)])

@@ -18,83 +18,17 @@ from typing import Any
 
 import numpy as np
 import pytest
-import xlwings
 from scipy import stats
-from xlwings import conversion
-from xlwings.main import Engine
 
 from tests.support import ranges
+from tests.support.xlwings_engine import CELL_ERRORS, com_value
 import sheetfuncs as sf
 from sheetfuncs.worksheet import harness
 from sheetfuncs.worksheet.harness import BLANK, CALC, DIV0, MISSING, NA, REF, SPILL, VALUE, call, column, is_message
 from sheetfuncs.worksheet.functions import MAX_DOUBLE, REGISTRY
 
 # --------------------------------------------------------------------------------------------
-# Part 1: the harness against xlwings' pipeline
-
-# The two element functions of xlwings 0.37's Windows engine (xlwings/_xlwindows.py,
-# ``_clean_value_data_element`` and ``Engine.prepare_xl_data_element``), transcribed with the
-# pywin32 time type replaced by datetime, so that xlwings' own pipeline stages (Ensure2D,
-# cleaning, dimensions, writing) run here exactly as they run on Windows.
-_CELL_ERRORS = {
-    -2146826281: "#DIV/0!", -2146826246: "#N/A", -2146826259: "#NAME?", -2146826288: "#NULL!",
-    -2146826252: "#NUM!", -2146826265: "#REF!", -2146826273: "#VALUE!",
-}
-
-
-def _clean_element(value, datetime_builder, empty_as, number_builder, err_to_str):
-    if value in ("", None):
-        return empty_as
-    elif isinstance(value, (dt.date, dt.datetime)):
-        return datetime_builder(
-            month=value.month, day=value.day, year=value.year, hour=value.hour,
-            minute=value.minute, second=value.second, microsecond=value.microsecond, tzinfo=None,
-        )
-    elif number_builder is not None and isinstance(value, float):
-        value = number_builder(value)
-    elif isinstance(value, int) and value in _CELL_ERRORS:
-        return _CELL_ERRORS[value] if err_to_str else None
-    return value
-
-
-class _WindowsLikeEngine:
-    name = "excel"
-    type = "desktop"
-
-    @staticmethod
-    def clean_value_data(data, datetime_builder, empty_as, number_builder, err_to_str):
-        return [[_clean_element(c, datetime_builder, empty_as, number_builder, err_to_str) for c in row]
-                for row in data]
-
-    @staticmethod
-    def prepare_xl_data_element(x, options):
-        if isinstance(x, (dt.date, dt.datetime)):
-            return x
-        elif isinstance(x, (np.floating, float)) and np.isnan(x):
-            return ""
-        elif isinstance(x, np.number):
-            return float(x)
-        elif x is None:
-            return ""
-        return x
-
-
-@pytest.fixture(scope="module")
-def xlwings_pipeline():
-    engine = Engine(impl=_WindowsLikeEngine())
-    assert "excel" not in xlwings.engines.engines_by_name
-    xlwings.engines.add(engine)
-    yield conversion
-    xlwings.engines.engines.remove(engine)
-    del xlwings.engines.engines_by_name["excel"]
-
-
-def _com(value: Any) -> Any:
-    """The value as COM hands it to xlwings: blocks as tuples of row tuples."""
-    if isinstance(value, list):
-        return tuple(tuple(harness.host_value(v) for v in r) for r in value)
-    return harness.host_value(value)
-
+# Part 1: the harness against xlwings' pipeline (tests/support/xlwings_engine.py)
 
 _BLOCKS = [
     5.0,
@@ -116,7 +50,7 @@ _BLOCKS = [
 @pytest.mark.parametrize("block", _BLOCKS, ids=[repr(b)[:30] for b in _BLOCKS])
 @pytest.mark.parametrize("options", [{"ndim": 2, "err_to_str": True}, {"err_to_str": True}, {"ndim": 2}, {}])
 def test_read_matches_xlwings(xlwings_pipeline, block, options) -> None:
-    expected = xlwings_pipeline.read(None, _com(block), dict(options))
+    expected = xlwings_pipeline.read(None, com_value(block), dict(options))
     got = harness.read_argument(block, options)
     assert got == expected and type(got) is type(expected)
     if isinstance(got, list) and got and isinstance(got[0], list):
@@ -160,7 +94,7 @@ def test_error_codes() -> None:
     # COM error codes are 0x800A0000 + the host's error number (#N/A = 2042); xlwings 0.37
     # converts the seven classic ones under err_to_str (its Windows cell_errors table)
     assert NA.com_code == -2146826246 == -2146828288 + 2042
-    assert harness.XLWINGS_ERROR_TEXTS == _CELL_ERRORS
+    assert harness.XLWINGS_ERROR_TEXTS == CELL_ERRORS
     assert harness.read_argument([[SPILL]], {"ndim": 2, "err_to_str": True}) == [[SPILL.com_code]]
     assert harness.read_argument([[NA]], {"ndim": 2}) == [[None]]  # why err_to_str is needed
 

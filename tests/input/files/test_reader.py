@@ -18,6 +18,7 @@ import openpyxl
 import pytest
 
 from tests.support import nist
+from tests.support.workbooks import make_book, patch_zip, sheet_xml
 from sheetfuncs import oneway
 from sheetfuncs.input.demo import demo_groups, demo_rows
 from sheetfuncs.errors import InputError
@@ -33,47 +34,6 @@ from sheetfuncs.input.files.reader import (
 
 ROOT = Path(__file__).resolve().parents[3]
 DEMO_BOOK = ROOT / "workbooks" / "demo.xlsx"
-
-
-# --------------------------------------------------------------------------------------------
-# helpers shared with the other input tests
-
-
-def make_book(path: Path, sheets: dict[str, list[list[object]]], *, at: str = "A1") -> Path:
-    """A workbook with the given sheets; each sheet's rows start at cell ``at``."""
-    wb = openpyxl.Workbook()
-    wb.remove(wb.active)
-    r0, c0 = openpyxl.utils.cell.coordinate_to_tuple(at)
-    for name, rows in sheets.items():
-        ws = wb.create_sheet(name)
-        for i, row in enumerate(rows):
-            for j, v in enumerate(row):
-                if v is not None:
-                    ws.cell(row=r0 + i, column=c0 + j, value=v)
-    wb.save(path)
-    return path
-
-
-def patch_zip(src: Path, dst: Path, changes: dict[str, bytes | None]) -> Path:
-    """Copy a zip, replacing (or with ``None`` dropping) the named members; new names are added."""
-    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(dst, "w", zipfile.ZIP_DEFLATED) as zout:
-        done = set()
-        for info in zin.infolist():
-            if info.filename in changes:
-                done.add(info.filename)
-                if changes[info.filename] is not None:
-                    zout.writestr(info.filename, changes[info.filename])
-            else:
-                zout.writestr(info, zin.read(info.filename))
-        for name, data in changes.items():
-            if name not in done and data is not None:
-                zout.writestr(name, data)
-    return dst
-
-
-def sheet_xml(path: Path, member: str = "xl/worksheets/sheet1.xml") -> str:
-    with zipfile.ZipFile(path) as z:
-        return z.read(member).decode("utf-8")
 
 
 def nist_long_rows(name: str) -> list[list[object]]:

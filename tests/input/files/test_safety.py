@@ -18,7 +18,7 @@ from sheetfuncs.input.files import reader as readers
 from sheetfuncs.cli.commands import main
 from sheetfuncs.errors import InputError
 from sheetfuncs.input.files.reader import check_archive, openpyxl_uses_defusedxml, read_cells, read_groups
-from tests.input.files.test_reader import make_book, patch_zip, sheet_xml
+from tests.support.workbooks import make_book, patch_zip, sheet_xml
 
 ROWS = [["A", "B"], [1.0, 2.0], [1.5, 2.5], [1.2, 2.1]]
 SHEET = "xl/worksheets/sheet1.xml"
