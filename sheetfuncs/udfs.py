@@ -1,6 +1,6 @@
 """The module users point xlwings at ("UDF Modules" = ``sheetfuncs.udfs``): every SF_ function."""
 
-from .worksheet.functions import (  # noqa: F401
+from .worksheet.registry import (  # noqa: F401
     REGISTRY,
     SF_BARTLETT, SF_BROWNFORSYTHE, SF_CHECKS, SF_CONTRAST, SF_DETECTABLE, SF_DFB, SF_DFT, SF_DFW,
     SF_DUNNETT, SF_EFFECT, SF_F, SF_FCRIT, SF_FROMSTATS, SF_FTAIL, SF_GLT, SF_GROUPS, SF_KRUSKAL,
@@ -9,6 +9,6 @@ from .worksheet.functions import (  # noqa: F401
 )
 
 if __name__ == "__main__":
-    from sheetfuncs.worksheet.functions import main
+    from sheetfuncs.worksheet.registry import main
 
     raise SystemExit(main())

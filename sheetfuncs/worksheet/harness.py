@@ -54,7 +54,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import PREFIX
-from .functions import MISSING, REGISTRY, Function
+from .registry import MISSING, REGISTRY, Function
 
 __all__ = [
     "ErrorCell",

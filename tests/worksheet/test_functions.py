@@ -15,8 +15,8 @@ from typing import Any
 import numpy as np
 import pytest
 
-from sheetfuncs.worksheet import functions as udfs
-from sheetfuncs.worksheet.functions import KINDS, MAX_DOUBLE, REGISTRY, Arg, Example, Ref, worksheet_function
+from sheetfuncs.worksheet import registry as udfs
+from sheetfuncs.worksheet.registry import KINDS, MAX_DOUBLE, REGISTRY, Arg, Example, Ref, worksheet_function
 
 #: The catalog of issue 3, exactly as the issue writes the signatures.
 CATALOG = {
@@ -182,7 +182,7 @@ def test_importing_the_module_works_in_a_fresh_interpreter() -> None:
 
 def test_docs_are_in_sync() -> None:
     current = udfs.DOCS_PATH.read_text(encoding="utf-8")
-    assert current == udfs.markdown(), "run: python -m sheetfuncs.worksheet.functions --markdown > docs/functions.md"
+    assert current == udfs.markdown(), "run: python -m sheetfuncs.worksheet.registry --markdown > docs/functions.md"
 
 
 def test_docs_cover_every_function_with_an_invented_example() -> None:

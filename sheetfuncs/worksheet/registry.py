@@ -1198,6 +1198,6 @@ REGISTRY: Mapping[str, Function] = _collect(globals())
 
 if __name__ == "__main__":
     # run the package's copy of this module, so the harness and the docs share one registry
-    from sheetfuncs.worksheet.functions import main as _main
+    from sheetfuncs.worksheet.registry import main as _main
 
     raise SystemExit(_main())
