@@ -55,12 +55,8 @@ outside source.
 from __future__ import annotations
 
 import argparse
-import datetime as _dt
-import decimal
 import functools
 import inspect
-import math
-import numbers
 import re
 import sys
 from collections.abc import Callable, Mapping
@@ -69,7 +65,6 @@ from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
-import numpy as np
 import xlwings as xw
 
 # analyses are imported by name: the package's functions `power`, `pairwise` and `letters`
@@ -83,17 +78,20 @@ from ..stats import (
 )
 from ..stats import DescribeResult, describe
 from ..stats import EffectSizes, effect_sizes
-from ..errors import InputError, message
+from ..errors import InputError
 from ..distributions import f_critical, f_tail
-from ..input import error_text, cell_position, format_label, groups_from_range
+from ..input import format_label, groups_from_range
 from ..stats import LettersResult, letters
 from ..stats import ContrastResult, LinearTestResult, contrast, linear_test
 from ..stats import OneWayResult, oneway, oneway_from_summary
 from ..stats import PairwiseResult, dunnett, pairwise
 from ..stats import detectable_effect, sample_size
 from ..stats import power as power_of
-from ..input import check_number, one_line
 from ..stats import VarianceComponents, variance_components
+from .convert import (
+    MAX_DOUBLE, cell_message, check_range_errors, normalise, per_group_column, shape_result,
+    to_cell,
+)
 
 __all__ = [
     "Arg",
@@ -111,8 +109,6 @@ __all__ = [
     "main",
 ]
 
-#: The largest double: what a cell shows for an infinite result (the host cannot hold infinity).
-MAX_DOUBLE = sys.float_info.max
 #: The category the function dialog lists the functions under.
 CATEGORY = "sheetfuncs"
 #: Argument kinds: a range of cells, or one number, text or logical value.
@@ -281,123 +277,6 @@ def formula_text(name: str, args: tuple[Any, ...]) -> str:
 
 
 # --------------------------------------------------------------------------------------------
-# converting in
-
-
-def _one_value(value: Any, arg: Arg) -> Any:
-    """A single-value argument as one cell value (a one-cell range arrives as that value)."""
-    if isinstance(value, (list, tuple)):
-        cells = [c for row in value for c in (row if isinstance(row, (list, tuple)) else [row])]
-        if len(cells) == 1:
-            return cells[0]
-        raise InputError(
-            f"{arg.name} must be one value, not a range of {len(cells)} cells; "
-            "point it at a single cell or type the value"
-        )
-    return value
-
-
-def _normalise(value: Any, arg: Arg) -> Any:
-    """One argument as its wrapper expects it: defaults filled in, checked by kind."""
-    if arg.kind == "range":
-        if value is None or (isinstance(value, str) and value == ""):
-            if arg.required:
-                raise InputError(f"{arg.name} is missing; select the cells that hold it")
-            return arg.default
-        if not isinstance(value, (list, tuple, np.ndarray)):
-            return [[value]]  # one value typed in place of a range
-        return value
-    value = _one_value(value, arg)
-    if value is None or (isinstance(value, str) and value.strip() == ""):
-        if arg.required:
-            raise InputError(
-                f"{arg.name} is missing (or its cell is blank); give "
-                + ("a number" if arg.kind == "number" else "a value")
-            )
-        return arg.default
-    err = error_text(value)
-    if err is not None:
-        raise InputError(f"{arg.name} holds the error {err}; fix that cell")
-    if arg.kind == "number":
-        if isinstance(value, (_dt.date, _dt.time)):
-            raise InputError(f"{arg.name} is a date; give a number")
-        return check_number(value, arg.name)
-    if arg.kind == "text":
-        return format_label(value)  # text trimmed; a number or date as it reads
-    return value  # logical: a bool or text such as "auto", read by the core
-
-
-def _range_errors(cells: Any, arg: Arg) -> None:
-    """Error cells in a per-group range (pooling, weights, summaries) name the cell."""
-    if not isinstance(cells, (list, tuple, np.ndarray)):
-        return
-    for r, row in enumerate(cells):
-        for c, v in enumerate(row if isinstance(row, (list, tuple, np.ndarray)) else [row]):
-            err = error_text(v)
-            if err is not None:
-                raise InputError(
-                    f"the {arg.name} range holds the error {err} at "
-                    f"{cell_position(r, c)}; fix or clear that cell"
-                )
-
-
-def _column(cells: Any, arg: Arg) -> list[Any] | None:
-    """A per-group range (one row or one column) as a flat list; blanks at the end are dropped."""
-    if cells is None:
-        return None
-    _range_errors(cells, arg)
-    flat = one_line(cells, arg.name)
-    while flat and (flat[-1] is None or (isinstance(flat[-1], str) and flat[-1].strip() == "")):
-        flat.pop()
-    for i, v in enumerate(flat):
-        if v is None or (isinstance(v, str) and v.strip() == ""):
-            raise InputError(
-                f"entry {i + 1} of {arg.name} is blank; give one value per group, "
-                "with no gaps"
-            )
-    return flat
-
-
-# --------------------------------------------------------------------------------------------
-# shaping out
-
-
-def to_cell(value: Any) -> Any:
-    """One result value as a cell holds it: numbers as float, inf as the largest double, NaN and
-    ``None`` as blank (``None``), text and logicals as they are."""
-    if value is None or isinstance(value, str):
-        return value
-    if isinstance(value, (bool, np.bool_)):
-        return bool(value)
-    if isinstance(value, (numbers.Real, decimal.Decimal)):
-        v = float(value)
-        if math.isnan(v):
-            return None
-        if math.isinf(v):
-            return MAX_DOUBLE if v > 0 else -MAX_DOUBLE
-        return v
-    raise TypeError(f"a result of type {type(value).__name__} cannot go into a cell")
-
-
-def _shape(value: Any, result: str) -> Any:
-    if result == "scalar":
-        return to_cell(value)
-    rows = [[to_cell(v) for v in row] for row in value]
-    width = max((len(r) for r in rows), default=0)
-    return [r + [None] * (width - len(r)) for r in rows]
-
-
-_MESSAGE_MAX = 1000
-
-
-def _message(err: InputError) -> str:
-    """An input problem as the one line of text the cell shows."""
-    text = message(err.reason)
-    # a cell holds at most 32,767 characters; a message quoting a huge label is cut short
-    return text if len(text) <= _MESSAGE_MAX else text[: _MESSAGE_MAX - 1] + "…"
-
-
-# --------------------------------------------------------------------------------------------
 # the registry
 
 
@@ -451,10 +330,10 @@ def worksheet_function(
             bound = sig.bind(*values, **named)
             bound.apply_defaults()
             try:
-                given = [_normalise(bound.arguments[a.name], a) for a in args]
-                return _shape(inner(*given), result)
+                given = [normalise(bound.arguments[a.name], a) for a in args]
+                return shape_result(inner(*given), result)
             except InputError as err:
-                return _message(err)
+                return cell_message(err)
 
         cell_function.__doc__ = description
         record = Function(
@@ -616,7 +495,10 @@ _SUMMARY_SHEET: tuple[tuple[Any, ...], ...] = (
     ),
 )
 def SF_FROMSTATS(counts: Any, means: Any, sds: Any, names: Any = None) -> Any:
-    cols = [_column(counts, _COUNTS), _column(means, _MEANS), _column(sds, _SDS), _column(names, _NAMES)]
+    cols = [
+        per_group_column(counts, _COUNTS), per_group_column(means, _MEANS),
+        per_group_column(sds, _SDS), per_group_column(names, _NAMES),
+    ]
     return oneway_from_summary(*_without_headers(cols)).table()
 
 
@@ -660,7 +542,7 @@ _WEIGHTS = Arg(
     ),
 )
 def SF_GLT(data: Any, pooling: Any, layout: Any = None, labels: Any = None) -> Any:
-    _range_errors(pooling, _POOLING)
+    check_range_errors(pooling, _POOLING)
     return linear_test(groups_from_range(data, layout, labels), pooling).table()
 
 
@@ -678,7 +560,7 @@ def SF_GLT(data: Any, pooling: Any, layout: Any = None, labels: Any = None) -> A
     ),
 )
 def SF_CONTRAST(data: Any, weights: Any, layout: Any = None, labels: Any = None, conf: Any = None) -> Any:
-    _range_errors(weights, _WEIGHTS)
+    check_range_errors(weights, _WEIGHTS)
     return contrast(groups_from_range(data, layout, labels), weights, conf).table()
 
 

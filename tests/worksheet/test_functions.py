@@ -7,16 +7,14 @@ the core (the same call a report makes) or is marked as common practice.
 from __future__ import annotations
 
 import inspect
-import math
 import sys
 from fractions import Fraction
 from typing import Any
 
-import numpy as np
 import pytest
 
 from sheetfuncs.worksheet import registry as udfs
-from sheetfuncs.worksheet.registry import KINDS, MAX_DOUBLE, REGISTRY, Arg, Example, Ref, worksheet_function
+from sheetfuncs.worksheet.registry import KINDS, REGISTRY, Arg, Example, Ref, worksheet_function
 
 #: The catalog of issue 3, exactly as the issue writes the signatures.
 CATALOG = {
@@ -220,32 +218,11 @@ def test_formula_text() -> None:
 # shaping results
 
 
-def test_to_cell() -> None:
-    # GUIDE.md: infinity as the largest double, NaN and None as blank, numbers as plain floats
-    assert udfs.to_cell(math.inf) == MAX_DOUBLE == 1.7976931348623157e308
-    assert udfs.to_cell(-math.inf) == -MAX_DOUBLE
-    assert udfs.to_cell(math.nan) is None and udfs.to_cell(None) is None
-    assert type(udfs.to_cell(np.float64(2.5))) is float and udfs.to_cell(np.int64(3)) == 3.0
-    assert type(udfs.to_cell(7)) is float
-    assert udfs.to_cell(True) is True and udfs.to_cell(np.bool_(False)) is False
-    assert udfs.to_cell("Head 1") == "Head 1"
-    assert udfs.to_cell(Fraction(1, 4)) == 0.25
-    with pytest.raises(TypeError):
-        udfs.to_cell(object())
-
-
 def test_wrappers_take_raw_tuples_and_lists_alike() -> None:
     rows = (("A", "B"), (1.0, 2.0), (1.5, 2.5), (1.25, None))
     as_lists = [list(r) for r in rows]
     assert udfs.SF_TABLE(rows) == udfs.SF_TABLE(as_lists)
     assert udfs.SF_F(rows, "wide", True) == udfs.SF_F(as_lists, layout="wide", labels=True)
-
-
-def test_tables_come_back_rectangular_with_blanks() -> None:
-    out = udfs.SF_TABLE([["A", "B"], [1.0, 2.0], [1.5, 2.5], [1.25, None]])
-    assert [len(r) for r in out] == [6, 6, 6, 6]
-    assert out[0] == ["Source", "df", "SS", "MS", "F", "p"]
-    assert out[2][4] is None and out[3][3] is None
 
 
 def test_input_error_becomes_one_line_and_bugs_do_not() -> None:

@@ -35,7 +35,8 @@ from sheetfuncs.stats.lettering import letters
 from sheetfuncs.stats.comparisons import METHODS, dunnett, pairwise
 from sheetfuncs.stats.planning import detectable_effect, sample_size
 from sheetfuncs.stats.planning import power as power_of
-from sheetfuncs.worksheet.registry import MAX_DOUBLE, REGISTRY
+from sheetfuncs.worksheet.convert import MAX_DOUBLE
+from sheetfuncs.worksheet.registry import REGISTRY
 from sheetfuncs.stats.varcomp import variance_components
 
 # --------------------------------------------------------------------------------------------
