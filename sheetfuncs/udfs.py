@@ -7,8 +7,3 @@ from .worksheet.registry import (  # noqa: F401
     SF_LETTERS, SF_LEVENE, SF_MSB, SF_MSW, SF_P, SF_PAIRS, SF_POWER, SF_R2, SF_SAMPLESIZE,
     SF_SHAPIRO, SF_SSB, SF_SST, SF_SSW, SF_TABLE, SF_VARCOMP, SF_WELCH,
 )
-
-if __name__ == "__main__":
-    from sheetfuncs.worksheet.registry import main
-
-    raise SystemExit(main())
