@@ -46,7 +46,7 @@ from sheetfuncs import groups_from_range, oneway
 
 from sheetfuncs.worksheet import harness
 
-from sheetfuncs.worksheet import registry as udfs  # noqa: E402
+from sheetfuncs import udfs  # noqa: E402
 
 
 def _per_call(f: Callable[[], object], loops: int) -> float:

@@ -16,8 +16,8 @@ from typing import Any
 
 from ..input import parse_range
 from . import harness
-from .registry import REGISTRY, Function, Ref
-from .registry import EXAMPLE_NOTE, EXAMPLE_SHEET
+from .functions import EXAMPLE_NOTE, EXAMPLE_SHEET, REGISTRY
+from .registry import Example, Function, Ref
 
 __all__ = ["DOCS_PATH", "resolve", "markdown", "main"]
 
@@ -144,17 +144,22 @@ def _example_lines(f: Function) -> list[str]:
     """The worked example: its note, its own cells when it has them, the formula and what the
     cell shows, computed through the harness."""
     ex = f.example
-    values = [resolve(a, ex.cells) if isinstance(a, Ref) else a for a in ex.args]
+    values = [resolve(a, _cells(ex)) if isinstance(a, Ref) else a for a in ex.args]
     out = harness.call(f.name, *values)
     lines = ["", f"**Example.** {ex.note}" + ("" if ex.note.endswith(("?", ".", ":")) else ":")]
     if not ex.shared:
-        lines += [""] + _sheet_table(ex.cells)
+        lines += [""] + _sheet_table(_cells(ex))
     if isinstance(out, list):
         lines += ["", f"`{f.example_formula}` spills", ""]
         lines += _md_table([_shown(v) for v in out[0]], out[1:])
     else:
         lines += ["", f"`{f.example_formula}` returns `{_shown(out)}`."]
     return lines
+
+
+def _cells(ex: Example) -> tuple[tuple[Any, ...], ...]:
+    """The cells an example's references point into."""
+    return EXAMPLE_SHEET if ex.cells is None else ex.cells
 
 
 def main(argv: list[str] | None = None) -> int:

@@ -54,7 +54,8 @@ from typing import Any
 import numpy as np
 
 from ..errors import PREFIX
-from .registry import MISSING, REGISTRY, Function
+from .functions import REGISTRY
+from .registry import MISSING, Function
 
 __all__ = [
     "ErrorCell",

@@ -13,7 +13,7 @@ import sys
 import pytest
 
 from sheetfuncs.worksheet import docs
-from sheetfuncs.worksheet.registry import REGISTRY
+from sheetfuncs.worksheet.functions import REGISTRY
 from sheetfuncs.worksheet.registry import Ref
 
 

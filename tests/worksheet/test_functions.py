@@ -1,4 +1,6 @@
-"""The worksheet-function registry: catalog, recorded xlwings options, docs, shaping of results.
+"""The worksheet functions (sheetfuncs.worksheet.functions) and the module xlwings loads
+(sheetfuncs.udfs): catalog, records, recorded xlwings options, Python signatures, the
+registry's order.
 
 The numbers in these tests are invented; where a value is checked, the expectation comes from
 the core (the same call a report makes) or is marked as common practice.
@@ -9,15 +11,15 @@ from __future__ import annotations
 import inspect
 import sys
 from pathlib import Path
-from fractions import Fraction
 from typing import Any
 
 import pytest
 
 import sheetfuncs
-
-from sheetfuncs.worksheet import registry as udfs
-from sheetfuncs.worksheet.registry import KINDS, REGISTRY, Arg, Example, Ref, worksheet_function
+from sheetfuncs import udfs
+from sheetfuncs.worksheet import functions
+from sheetfuncs.worksheet.functions import REGISTRY, checks, comparisons, effects, oneway
+from sheetfuncs.worksheet.registry import CATEGORY, DIALOG_LIMIT, KINDS
 
 #: The catalog of issue 3, exactly as the issue writes the signatures.
 CATALOG = {
@@ -59,7 +61,7 @@ def test_description_and_argument_help(name: str) -> None:
     assert rec.name.startswith("SF_") and rec.name.isupper() and rec.name not in HOST_BUILTINS
     # one sentence that the function dialog keeps whole (it keeps 255 characters)
     assert rec.description.endswith(".") and rec.description.count(". ") == 0
-    assert 20 <= len(rec.description) <= udfs.DIALOG_LIMIT
+    assert 20 <= len(rec.description) <= DIALOG_LIMIT
     assert rec.result in ("scalar", "table")
     if name in CATALOG:  # the analyses' result kinds: tests/test_udfs_analyses.py
         assert (rec.result == "table") == (name in TABLES)
@@ -68,7 +70,7 @@ def test_description_and_argument_help(name: str) -> None:
     assert rec.returns
     for a in rec.args:
         assert a.kind in KINDS
-        assert a.help.endswith(".") and len(a.dialog_text) <= udfs.DIALOG_LIMIT
+        assert a.help.endswith(".") and len(a.dialog_text) <= DIALOG_LIMIT
     # data first, options after: once an argument is optional, all later ones are too
     optional = [not a.required for a in rec.args]
     assert optional == sorted(optional)
@@ -77,7 +79,7 @@ def test_description_and_argument_help(name: str) -> None:
 @pytest.mark.parametrize("name", sorted(REGISTRY))
 def test_recorded_xlwings_options(name: str) -> None:
     rec = REGISTRY[name]
-    assert dict(rec.func_options) == {"category": udfs.CATEGORY}
+    assert dict(rec.func_options) == {"category": CATEGORY}
     assert dict(rec.ret_options) == {}
     for a in rec.args:
         opts = a.xlwings_options
@@ -131,42 +133,6 @@ def test_argument_names_are_safe_in_the_generated_vba(name: str) -> None:
         assert a.name.lower() not in VBA_RESERVED
 
 
-class _Recorder:
-    """Stands in for the xlwings module and records how the decorators are applied."""
-
-    def __init__(self) -> None:
-        self.calls: list[tuple[str, tuple, dict]] = []
-
-    def _deco(self, kind: str, args: tuple, kwargs: dict):
-        def apply(f):
-            self.calls.append((kind, args, kwargs))
-            return f
-        return apply
-
-    def arg(self, *args, **kwargs):
-        return self._deco("arg", args, kwargs)
-
-    def ret(self, *args, **kwargs):
-        return self._deco("ret", args, kwargs)
-
-    def func(self, *args, **kwargs):
-        return self._deco("func", args, kwargs)
-
-
-@pytest.mark.parametrize("name", sorted(REGISTRY))
-def test_decorators_applied_from_the_record(name: str) -> None:
-    rec = REGISTRY[name]
-    fake = _Recorder()
-    f = getattr(udfs, name)
-    assert udfs.apply_xlwings(f, rec, fake) is f
-    kinds = [c[0] for c in fake.calls]
-    # xlwings' func sets the category and arg/ret reset it on Windows, so func comes last
-    assert kinds == ["arg"] * len(rec.args) + ["ret", "func"]
-    for (kind, args, kwargs), a in zip(fake.calls, rec.args):
-        assert args == (a.name,) and kwargs == a.xlwings_options
-    assert fake.calls[-1][2] == {"category": udfs.CATEGORY}
-
-
 def test_importing_the_module_works_in_a_fresh_interpreter() -> None:
     # common practice: the module a user points xlwings at must import on any system
     import subprocess
@@ -177,17 +143,6 @@ def test_importing_the_module_works_in_a_fresh_interpreter() -> None:
     assert int(out.stdout) == len(REGISTRY)
 
 
-def test_formula_text() -> None:
-    assert udfs.formula_text("SF_X", (Ref("A1:C7"), udfs.MISSING, True, "long", 0.9, ((1, -0.5),))) == (
-        '=SF_X(A1:C7,,TRUE,"long",0.9,{1,-0.5})'
-    )
-    assert udfs.formula_literal('say "hi"') == '"say ""hi"""'
-
-
-# --------------------------------------------------------------------------------------------
-# shaping results
-
-
 def test_wrappers_take_raw_tuples_and_lists_alike() -> None:
     rows = (("A", "B"), (1.0, 2.0), (1.5, 2.5), (1.25, None))
     as_lists = [list(r) for r in rows]
@@ -195,44 +150,28 @@ def test_wrappers_take_raw_tuples_and_lists_alike() -> None:
     assert udfs.SF_F(rows, "wide", True) == udfs.SF_F(as_lists, layout="wide", labels=True)
 
 
-def test_input_error_becomes_one_line_and_bugs_do_not() -> None:
-    msg = udfs.SF_P([["A"], [1.0], [2.0]])
-    assert isinstance(msg, str) and msg.startswith("sheetfuncs: ") and "\n" not in msg
-
-    @worksheet_function(
-        description="Returns a value the host cannot hold.",
-        args=(Arg("x", "number", "A number."),),
-        result="scalar",
-        returns="Nothing useful.",
-        example=Example("none", (1,)),
-    )
-    def SF_BROKEN(x: Any) -> Any:
-        return Fraction(1, 3) if x > 0 else object()
-
-    assert SF_BROKEN(1.0) == 1 / 3
-    with pytest.raises(TypeError):
-        SF_BROKEN(-1.0)  # a bug surfaces as a traceback, not as a message
+# --------------------------------------------------------------------------------------------
+# the module xlwings loads, and the registry's order
 
 
-def test_decorator_checks_the_wrapper_against_its_record() -> None:
-    rec_args = (Arg("data", "range", "Data."), Arg("conf", "number", "Level.", default=0.95))
-    deco = worksheet_function(
-        description="Test.", args=rec_args, result="scalar", returns="x.", example=Example("n", ())
-    )
+def test_udfs_holds_every_function_and_the_registry_and_nothing_else() -> None:
+    # xlwings' "Import Functions" scans dir() of the module, and its call path looks each
+    # function up by name (xlwings 0.37 source, udfs.py)
+    public = {n for n in dir(udfs) if not n.startswith("_")}
+    assert public == set(REGISTRY) | {"REGISTRY"}
+    assert udfs.REGISTRY is REGISTRY
+    for name, rec in REGISTRY.items():
+        # the very objects the decorators made, carrying their records
+        assert getattr(udfs, name) is rec.call is getattr(functions, name)
+    assert "sheetfuncs.udfs" in (udfs.__doc__ or "") and "nothing else" in (udfs.__doc__ or "")
 
-    def wrong_names(data: Any, level: Any = None) -> Any:
-        return 1
 
-    def wrong_default(data: Any, conf: Any = 0.95) -> Any:
-        return 1
+def test_registry_order_is_topic_by_topic() -> None:
+    topics = (oneway, checks, comparisons, effects)
+    assert list(REGISTRY) == [name for module in topics for name in module.__all__]
+    for module in topics:  # each module exports exactly the functions it defines
+        defined = [n for n, v in vars(module).items() if hasattr(v, "__sheetfuncs__")]
+        assert defined == list(module.__all__)
+    assert list(REGISTRY)[:3] == ["SF_TABLE", "SF_SSB", "SF_SSW"] and list(REGISTRY)[-1] == "SF_VARCOMP"
+    assert len(REGISTRY) == 33
 
-    def wrong_annotation(data: Any, conf: float = None) -> Any:  # type: ignore[assignment]
-        return 1
-
-    for fn in (wrong_names, wrong_default, wrong_annotation):
-        with pytest.raises(TypeError):
-            deco(fn)
-    with pytest.raises(ValueError):
-        Arg("x", "matrix", "Not a kind.")
-    with pytest.raises(ValueError):
-        worksheet_function(description="T.", args=(), result="chart", returns="", example=Example("n", ()))

@@ -36,7 +36,7 @@ from sheetfuncs.stats.comparisons import METHODS, dunnett, pairwise
 from sheetfuncs.stats.planning import detectable_effect, sample_size
 from sheetfuncs.stats.planning import power as power_of
 from sheetfuncs.worksheet.convert import MAX_DOUBLE
-from sheetfuncs.worksheet.registry import REGISTRY
+from sheetfuncs.worksheet.functions import REGISTRY
 from sheetfuncs.stats.varcomp import variance_components
 
 # --------------------------------------------------------------------------------------------

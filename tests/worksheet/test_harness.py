@@ -26,7 +26,7 @@ import sheetfuncs as sf
 from sheetfuncs.worksheet import harness
 from sheetfuncs.worksheet.harness import BLANK, CALC, DIV0, MISSING, NA, REF, SPILL, VALUE, call, column, is_message
 from sheetfuncs.worksheet.convert import MAX_DOUBLE
-from sheetfuncs.worksheet.registry import REGISTRY
+from sheetfuncs.worksheet.functions import REGISTRY
 
 # --------------------------------------------------------------------------------------------
 # Part 1: the harness against xlwings' pipeline (tests/support/xlwings_engine.py)
