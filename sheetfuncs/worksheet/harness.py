@@ -54,6 +54,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import PREFIX
+from ..input import COM_ERROR_CODES  # each error value's COM code, by name (re-exported)
 from .functions import REGISTRY
 from .registry import MISSING, Function
 
@@ -79,19 +80,6 @@ __all__ = [
 #: What the host shows for a blank result cell: xlwings writes ``""``.
 BLANK = ""
 
-#: The host's error values and their COM codes, 0x800A0000 + the host's error number (xlErrNull
-#: 2000, xlErrDiv0 2007, xlErrValue 2015, xlErrRef 2023, xlErrName 2029, xlErrNum 2036, xlErrNA
-#: 2042; newer hosts 2043-2051; from the host's published error enumeration, from memory).
-_COM_BASE = -2146828288
-COM_ERROR_CODES: dict[str, int] = {
-    name: _COM_BASE + number
-    for name, number in (
-        ("#NULL!", 2000), ("#DIV/0!", 2007), ("#VALUE!", 2015), ("#REF!", 2023),
-        ("#NAME?", 2029), ("#NUM!", 2036), ("#N/A", 2042), ("#GETTING_DATA", 2043),
-        ("#SPILL!", 2045), ("#CONNECT!", 2046), ("#BLOCKED!", 2047), ("#UNKNOWN!", 2048),
-        ("#FIELD!", 2049), ("#CALC!", 2050), ("#BUSY!", 2051),
-    )
-}
 #: The codes xlwings 0.37 turns into text under ``err_to_str`` (its Windows ``cell_errors``).
 XLWINGS_ERROR_TEXTS: dict[int, str] = {
     COM_ERROR_CODES[name]: name

@@ -95,6 +95,13 @@ def test_error_codes() -> None:
     # COM error codes are 0x800A0000 + the host's error number (#N/A = 2042); xlwings 0.37
     # converts the seven classic ones under err_to_str (its Windows cell_errors table)
     assert NA.com_code == -2146826246 == -2146828288 + 2042
+    # the host's error numbers (its published error enumeration, from memory), all 15 of them
+    assert {name: code + 2146828288 for name, code in harness.COM_ERROR_CODES.items()} == {
+        "#NULL!": 2000, "#DIV/0!": 2007, "#VALUE!": 2015, "#REF!": 2023, "#NAME?": 2029,
+        "#NUM!": 2036, "#N/A": 2042, "#GETTING_DATA": 2043, "#SPILL!": 2045, "#CONNECT!": 2046,
+        "#BLOCKED!": 2047, "#UNKNOWN!": 2048, "#FIELD!": 2049, "#CALC!": 2050, "#BUSY!": 2051,
+    }
+    assert [e.com_code for e in (SPILL, CALC)] == [-2146828288 + 2045, -2146828288 + 2050]
     assert harness.XLWINGS_ERROR_TEXTS == CELL_ERRORS
     assert harness.read_argument([[SPILL]], {"ndim": 2, "err_to_str": True}) == [[SPILL.com_code]]
     assert harness.read_argument([[NA]], {"ndim": 2}) == [[None]]  # why err_to_str is needed
