@@ -13,8 +13,8 @@ from ...stats import (
     NormalityResult, WelchResult, bartlett, brown_forsythe, checks, kruskal, levene,
     shapiro_residuals, welch,
 )
-from ..registry import Arg, Example, worksheet_function
-from .shared import DATA, DATA_REF, LABELS, LAYOUT, ON_SHEET
+from ..registry import Arg, worksheet_function
+from .shared import DATA, LABELS, LAYOUT, ON_SHEET_EXAMPLE
 
 __all__ = [
     "SF_WELCH", "SF_BROWNFORSYTHE", "SF_KRUSKAL", "SF_LEVENE", "SF_BARTLETT", "SF_SHAPIRO",
@@ -35,7 +35,7 @@ _ALPHA_CHECKS = Arg(
     returns="A header row and one row: Test, Statistic (Welch's F), df1 (groups minus one), df2 "
     "(Welch's approximate degrees of freedom, usually not a whole number) and p. Every group "
     "needs two or more values and some spread.",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_WELCH(data: Any, layout: Any = None, labels: Any = None) -> Any:
     return welch(groups_from_range(data, layout, labels)).table()
@@ -50,7 +50,7 @@ def SF_WELCH(data: Any, layout: Any = None, labels: Any = None) -> Any:
     returns="A header row and one row: Test, Statistic (F*), df1 (groups minus one), df2 "
     "(Satterthwaite's degrees of freedom) and p. This is the 1974 test for means; the "
     "Brown-Forsythe test for variances is SF_LEVENE with center \"median\".",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_BROWNFORSYTHE(data: Any, layout: Any = None, labels: Any = None) -> Any:
     return brown_forsythe(groups_from_range(data, layout, labels)).table()
@@ -65,7 +65,7 @@ def SF_BROWNFORSYTHE(data: Any, layout: Any = None, labels: Any = None) -> Any:
     returns="A header row and one row: Test, Statistic (H, corrected for ties), df (groups minus "
     "one), p (chi-square approximation) and Rank epsilon squared, H (N + 1) / (N^2 - 1) for N "
     "values in all.",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_KRUSKAL(data: Any, layout: Any = None, labels: Any = None) -> Any:
     return kruskal(groups_from_range(data, layout, labels)).table()
@@ -85,7 +85,7 @@ def SF_KRUSKAL(data: Any, layout: Any = None, labels: Any = None) -> Any:
     columns=LeveneResult.HEADER,
     returns="A header row and one row: Test (naming the centre), Statistic (the F ratio of the "
     "absolute distances), df1, df2 and p.",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_LEVENE(data: Any, layout: Any = None, labels: Any = None, center: Any = None) -> Any:
     return levene(groups_from_range(data, layout, labels), center).table()
@@ -99,7 +99,7 @@ def SF_LEVENE(data: Any, layout: Any = None, labels: Any = None, center: Any = N
     columns=BartlettResult.HEADER,
     returns="A header row and one row: Test, Statistic (chi-square), df (groups minus one) and "
     "p. For data that may not be normal, SF_LEVENE is the robust choice.",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_BARTLETT(data: Any, layout: Any = None, labels: Any = None) -> Any:
     return bartlett(groups_from_range(data, layout, labels)).table()
@@ -114,7 +114,7 @@ def SF_BARTLETT(data: Any, layout: Any = None, labels: Any = None) -> Any:
     returns="A header row and one row: Test (naming the method), Statistic (W, or K^2 above "
     "5,000 residuals), n (residuals tested) and p. The residuals are each value minus its group "
     "mean; groups of one value are left out, since their residual is zero by construction.",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_SHAPIRO(data: Any, layout: Any = None, labels: Any = None) -> Any:
     return shapiro_residuals(groups_from_range(data, layout, labels)).table()
@@ -138,7 +138,7 @@ def SF_SHAPIRO(data: Any, layout: Any = None, labels: Any = None) -> Any:
     "smallest group has fewer than 15 values, else the one-way F (see docs/checks.md). "
     "Pre-testing assumptions is itself a judgement: look at the data, weigh how they were "
     "collected and follow your organisation's procedures before acting on the reading.",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_CHECKS(data: Any, layout: Any = None, labels: Any = None, alpha: Any = None) -> Any:
     return checks(groups_from_range(data, layout, labels), alpha).table()

@@ -11,7 +11,7 @@ from ...input import groups_from_range
 # the package's functions `pairwise` and `letters` hide their module names: import them by name
 from ...stats import LettersResult, PairwiseResult, dunnett, letters, pairwise
 from ..registry import Arg, Example, worksheet_function
-from .shared import DATA, DATA_REF, LABELS, LAYOUT, ON_SHEET
+from .shared import DATA, DATA_REF, LABELS, LAYOUT, ON_SHEET, ON_SHEET_EXAMPLE
 
 __all__ = ["SF_PAIRS", "SF_DUNNETT", "SF_LETTERS"]
 
@@ -26,9 +26,12 @@ _ALPHA_FAMILY = Arg(
     "Significance level for the whole family of comparisons, between 0 and 1.",
     default=0.05,
 )
-_PAIR_COLUMNS = tuple(
-    h.format(interval="kind and level", statistic="q, t or F") for h in PairwiseResult.HEADER
-)
+
+
+def _pair_columns(statistic: str) -> tuple[str, ...]:
+    """The pairwise table's header as the docs show it: the interval's kind and level, and the
+    statistic's name, are filled in per call."""
+    return tuple(h.format(interval="kind and level", statistic=statistic) for h in PairwiseResult.HEADER)
 
 
 @worksheet_function(
@@ -36,7 +39,7 @@ _PAIR_COLUMNS = tuple(
     "otherwise): differences, intervals, adjusted p-values and whether each pair differs.",
     args=(DATA, LAYOUT, LABELS, _METHOD, _ALPHA_FAMILY),
     result="table",
-    columns=_PAIR_COLUMNS,
+    columns=_pair_columns("q, t or F"),
     returns="A header row, then one row per pair of groups in range order: Group A, Group B, "
     "Difference (mean of A minus mean of B), SE, the interval for the difference, the method's "
     "statistic (q for Tukey-Kramer and Games-Howell, t for Bonferroni, Holm and Sidak, F for "
@@ -44,7 +47,7 @@ _PAIR_COLUMNS = tuple(
     "interval headers say what the intervals are: simultaneous at 1 - alpha, except that Holm "
     "rows show Bonferroni intervals and Games-Howell intervals are approximate. The pooled "
     "methods use the one-way residual mean square; Games-Howell uses each pair's own variances.",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_PAIRS(data: Any, layout: Any = None, labels: Any = None, method: Any = None,
              alpha: Any = None) -> Any:
@@ -62,7 +65,7 @@ def SF_PAIRS(data: Any, layout: Any = None, labels: Any = None, method: Any = No
         LAYOUT, LABELS, _ALPHA_FAMILY,
     ),
     result="table",
-    columns=tuple(h.format(interval="kind and level", statistic="t") for h in PairwiseResult.HEADER),
+    columns=_pair_columns("t"),
     returns="A header row, then one row per group other than the control, in range order: the "
     "group, the control, Difference (group mean minus control mean), SE, the simultaneous "
     "interval, t, the adjusted two-sided p-value and Differs (TRUE when p < alpha). p-values and "
@@ -84,7 +87,7 @@ def SF_DUNNETT(data: Any, control: Any, layout: Any = None, labels: Any = None,
     returns="A header row, then one row per group, highest mean first: Group, Mean and Letters. "
     "Two groups share a letter exactly when the chosen method does not separate them at alpha "
     "(insert-and-absorb algorithm of Piepho 2004).",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_LETTERS(data: Any, layout: Any = None, labels: Any = None, method: Any = None,
                alpha: Any = None) -> Any:

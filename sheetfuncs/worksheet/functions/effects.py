@@ -14,7 +14,7 @@ from ...stats import (
 )
 from ...stats import power as power_of
 from ..registry import Arg, Example, Ref, worksheet_function
-from .shared import CONF, DATA, DATA_REF, LABELS, LAYOUT, ON_SHEET
+from .shared import CONF, DATA, LABELS, LAYOUT, ON_SHEET_EXAMPLE
 
 __all__ = ["SF_EFFECT", "SF_POWER", "SF_SAMPLESIZE", "SF_DETECTABLE", "SF_VARCOMP"]
 
@@ -30,7 +30,7 @@ __all__ = ["SF_EFFECT", "SF_POWER", "SF_SAMPLESIZE", "SF_DETECTABLE", "SF_VARCOM
     "(Steiger 2004); omega and epsilon squared are bias-corrected and shown as 0 when they come "
     "out negative, which their Note says. Cohen's f shows as 1.7976931348623157E+308 when there "
     "is no variation within the groups.",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_EFFECT(data: Any, layout: Any = None, labels: Any = None, conf: Any = None) -> Any:
     return effect_sizes(groups_from_range(data, layout, labels), conf).table()

@@ -19,7 +19,7 @@ from ...stats import (
 )
 from ..convert import check_range_errors, per_group_column
 from ..registry import MISSING, Arg, Example, Ref, worksheet_function
-from .shared import CONF, DATA, DATA_REF, LABELS, LAYOUT, ON_SHEET
+from .shared import CONF, DATA, DATA_REF, LABELS, LAYOUT, ON_SHEET, ON_SHEET_EXAMPLE
 
 __all__ = [
     "SF_TABLE", "SF_SSB", "SF_SSW", "SF_SST", "SF_DFB", "SF_DFW", "SF_DFT", "SF_MSB", "SF_MSW",
@@ -75,7 +75,7 @@ def _oneway_figure(name: str, attribute: str, what: str) -> Callable[..., Any]:
         args=(DATA, LAYOUT, LABELS),
         result="scalar",
         returns=f"One number: {what}.{extra}{guard}",
-        example=Example(ON_SHEET, (DATA_REF,)),
+        example=ON_SHEET_EXAMPLE,
     )(figure)
 
 
@@ -95,7 +95,7 @@ SF_SSB, SF_SSW, SF_SST, SF_DFB, SF_DFW, SF_DFT, SF_MSB, SF_MSW, SF_F, SF_P, SF_R
     columns=DescribeResult.HEADER,
     returns="A header row, then one row per group in range order. A group with one value has "
     "blank SD, SE and interval cells.",
-    example=Example(ON_SHEET, (DATA_REF,)),
+    example=ON_SHEET_EXAMPLE,
 )
 def SF_GROUPS(data: Any, layout: Any = None, labels: Any = None, conf: Any = None) -> Any:
     return describe(groups_from_range(data, layout, labels), conf).table()

@@ -6,10 +6,11 @@ from __future__ import annotations
 
 from typing import Any
 
-from ..registry import Arg, Ref
+from ..registry import Arg, Example, Ref
 
 __all__ = [
-    "DATA", "LAYOUT", "LABELS", "CONF", "DATA_REF", "ON_SHEET", "EXAMPLE_NOTE", "EXAMPLE_SHEET",
+    "DATA", "LAYOUT", "LABELS", "CONF", "DATA_REF", "ON_SHEET", "ON_SHEET_EXAMPLE", "EXAMPLE_NOTE",
+    "EXAMPLE_SHEET",
 ]
 
 DATA = Arg(
@@ -34,6 +35,8 @@ CONF = Arg("conf", "number", "Confidence level of the intervals, between 0 and 1
 #: The data block of the example sheet, and the note of the examples that use it as it is.
 DATA_REF = Ref("A1:C7")
 ON_SHEET = "On the example sheet (invented data)"
+#: The example of most functions that take data: the example sheet's block, options left out.
+ON_SHEET_EXAMPLE = Example(ON_SHEET, (DATA_REF,))
 
 #: The shared example sheet (invented data), laid out from cell A1, and what it holds: the cells
 #: of every example that lays out no cells of its own (``Example.cells`` is ``None``).
