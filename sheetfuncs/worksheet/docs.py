@@ -32,7 +32,7 @@ def resolve(ref: Ref, cells: tuple[tuple[Any, ...], ...]) -> list[list[Any]]:
         raise ValueError(f"not an A1 reference into the example cells: {ref.address}")
     width = max(len(r) for r in cells)
     grid = [list(r) + [None] * (width - len(r)) for r in cells]
-    out = []
+    out: list[list[Any]] = []
     for r in range(bounds.min_row - 1, bounds.max_row):
         row = grid[r] if r < len(grid) else [None] * width
         out.append([row[c] if c < width else None for c in range(bounds.min_col - 1, bounds.max_col)])

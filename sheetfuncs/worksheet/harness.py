@@ -4,7 +4,8 @@ On Windows, xlwings reads every argument of a worksheet function through its con
 pipeline, calls the function, and converts the return value before the host writes it into the
 cells. Off Windows its decorators are no-ops and that pipeline needs a running spreadsheet, so
 this module re-implements the conversion for the options each function declares in the registry
-(:data:`sheetfuncs.udfs.REGISTRY`). Tests and the benchmark use it; it imports no xlwings code.
+(:data:`sheetfuncs.udfs.REGISTRY`). Tests and the benchmark use it; it runs none of xlwings'
+code.
 
 What a caller writes for a cell (host values):
 

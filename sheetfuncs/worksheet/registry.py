@@ -313,7 +313,7 @@ def worksheet_function(
 def collect(*modules: ModuleType) -> Mapping[str, Function]:
     """The records of the worksheet functions defined in ``modules``, by name, module by module
     in the order given and in the order each module defines them."""
-    found = {}
+    found: dict[str, Function] = {}
     for module in modules:
         for value in vars(module).values():
             record = getattr(value, "__sheetfuncs__", None)
