@@ -1,4 +1,5 @@
-"""groups_from_range, groups_from_long and as_groups: the range rules of the engineering guide.
+"""Tests of sheetfuncs.input.ranges: groups_from_range and groups_from_long, the range rules of
+the engineering guide.
 
 The rules follow the host spreadsheet's own statistics functions (common practice): numbers
 count, blanks are ignored, text and logical values in a referenced range are ignored (and
@@ -13,8 +14,8 @@ import decimal
 import numpy as np
 import pytest
 
-from sheetfuncs import Groups, InputError, as_groups, groups_from_long, groups_from_range
-from sheetfuncs.input.groups import ERROR_TEXTS, format_label
+from sheetfuncs import Groups, InputError, groups_from_long, groups_from_range
+from sheetfuncs.input.cells import ERROR_TEXTS
 
 COM_NA = -2146826246      # 0x800A0000 + 2042 (#N/A), as xlwings may pass it unconverted
 COM_SPILL = -2146826243   # 0x800A0000 + 2045 (#SPILL!)
@@ -108,8 +109,6 @@ def test_numeric_labels_are_shown_in_shortest_form():
     g = groups_from_range([[3.0, 2.5, decimal.Decimal("7.50"), 1e20], [1.0, 2.0, 3.0, 4.0],
                            [2.0, 3.0, 4.0, 5.0]], labels=True)
     assert g.labels == ("3", "2.5", "7.5", "1e+20")
-    assert format_label(3.0) == "3" and format_label(-0.25) == "-0.25" and format_label(12) == "12"
-    assert format_label(1.5e300) == "1.5e+300"
 
 
 def test_labels_are_trimmed_and_compared_case_sensitively():
@@ -369,52 +368,3 @@ def test_groups_from_long_length_mismatch_names_both_lengths():
         "sheetfuncs: the label column has 3 entries but the value column has 2; "
         "give one label per value"
     )
-
-
-# -- Python inputs -----------------------------------------------------------------------------
-
-
-def test_as_groups_mapping_and_sequences():
-    g = as_groups({"Lot 7": [1, 2], 3: np.array([4.0, 5.0])})
-    assert g.labels == ("Lot 7", "3")
-    assert arrays(g) == [[1.0, 2.0], [4.0, 5.0]]
-    g = as_groups([[1.0, 2.0], (3.0, 4.0), np.arange(3)])
-    assert g.labels == ("Group 1", "Group 2", "Group 3")
-    assert as_groups(g) is g
-
-
-def test_as_groups_accepts_decimal_values():
-    g = as_groups({"A": [decimal.Decimal("0.1"), decimal.Decimal("0.25")], "B": [1, 2]})
-    assert arrays(g)[0] == [0.1, 0.25]
-
-
-@pytest.mark.parametrize("data, message", [
-    ([1.0, 2.0, 3.0], "got one flat sequence of numbers"),
-    (np.zeros((3, 2)), "a 2-D array is ambiguous"),
-    ("1,2,3", "cannot read groups from str"),
-    (42, "cannot read groups from int"),
-    ({"A": [1.0, "x"]}, 'group "A" holds \'x\' at position 2'),
-    ({"A": [1.0, True]}, 'group "A" holds True at position 2'),
-    ({"A": [1.0, None]}, 'group "A" holds None at position 2'),
-    ({"A": "123"}, 'group "A" is text'),
-    ({"A": [[1.0, 2.0]]}, 'group "A" must be a flat sequence'),
-    ({"A": [], "B": [1.0]}, 'group "A" has no numbers'),
-    ({"A": [1.0, float("nan")]}, 'NaN \\(not a number\\) at position 2 of group "A"'),
-    ({"A": [float("inf"), 1.0]}, 'an infinite value at position 1 of group "A"'),
-    ({"A": [1.0], " A": [2.0]}, 'the label "A" is used twice'),
-])
-def test_as_groups_bad_python_input(data, message):
-    with pytest.raises(InputError, match="^sheetfuncs: " + message):
-        as_groups(data)
-
-
-def test_groups_label_and_array_counts_must_match():
-    with pytest.raises(InputError, match="^sheetfuncs: 1 labels for 2 groups"):
-        Groups(labels=("A",), arrays=(np.ones(2), np.ones(2)))
-
-
-def test_groups_repr_and_mapping_view():
-    g = as_groups({"A": [1.0, 2.0], "B": [3.0]})
-    assert repr(g) == "Groups('A': n=2, 'B': n=1)"
-    assert list(g.as_dict()) == ["A", "B"]
-    assert len(g) == 2

@@ -19,7 +19,8 @@ from typing import TYPE_CHECKING, Any, TypedDict
 
 from ...errors import InputError
 from ..cells import ERROR_TEXTS, RangeRef, parse_range
-from ..groups import Groups, groups_from_range
+from ..groups import Groups
+from ..ranges import groups_from_range
 from ..source import InputSource
 from .block import CellBlock, Progress, is_blank
 from .delimited import read_delimited
