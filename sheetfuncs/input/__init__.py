@@ -1,9 +1,10 @@
 """From cells to groups: the one cleaning step between what a user has and what the statistics need.
 
-``cells`` (what a cell holds, the host's error values, A1 references), ``groups`` (the cleaning
-rules and :class:`Groups`), ``options`` (checks of scalar options, values as messages show
-them), ``source`` (where a range came from), ``files`` (workbooks and CSV files, read safely) and
-``demo`` (the built-in invented data). Other layers import from this package, not its modules.
+``cells`` (what a cell holds, the host's error values, A1 references), ``groups``
+(:class:`Groups` and Python inputs), ``ranges`` (the range rules that clean a spreadsheet
+range), ``options`` (checks of scalar options, values as messages show them), ``source`` (where
+a range came from), ``files`` (workbooks and CSV files, read safely) and ``demo`` (the built-in
+invented data). Other layers import from this package, not its modules.
 """
 
 from .cells import (
@@ -14,12 +15,11 @@ from .demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
 from .files import (
     DEFAULT_SIZE_LIMIT, CellBlock, LoadedGroups, read_cells, read_groups, workbook_properties,
 )
-from .groups import (
-    CellNote, Groups, as_groups, first_duplicate, format_label, groups_from_long, groups_from_range,
-)
+from .groups import CellNote, Groups, as_groups, first_duplicate, format_label
 from .options import (
     as_real, check_alpha, check_conf, check_number, check_probability, one_line, shown,
 )
+from .ranges import groups_from_long, groups_from_range
 from .source import InputSource
 
 __all__ = [

@@ -8,7 +8,8 @@ text note typed into a data cell.
 
 from __future__ import annotations
 
-from .groups import Groups, groups_from_range
+from .groups import Groups
+from .ranges import groups_from_range
 
 __all__ = ["DEMO_TITLE", "DEMO_FACTOR", "DEMO_RESPONSE", "DEMO_UNIT", "demo_rows", "demo_groups"]
 

@@ -464,7 +464,7 @@ def test_dash_value_with_equals_sign_is_taken(tmp_path, capsys):
     out = tmp_path / "r.xlsx"
     code, _, err = run(["report", str(src), "-o", str(out), "--title=-2+3", "--unit=-dB"], capsys)
     assert code == 0, err
-    from sheetfuncs.input.files.reader import workbook_properties
+    from sheetfuncs.input import workbook_properties
 
     assert "-2+3" in workbook_properties(out)["title"]
 

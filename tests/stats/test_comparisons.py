@@ -22,7 +22,7 @@ from scipy import stats
 from tests.support import nist
 from tests.support.mpmath_refs import many_to_one_normal
 from sheetfuncs.errors import InputError
-from sheetfuncs.input.groups import groups_from_range
+from sheetfuncs.input import groups_from_range
 from sheetfuncs.distributions.mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
 from sheetfuncs.stats.comparisons import METHODS, PairwiseResult, dunnett, pairwise
 

@@ -7,7 +7,7 @@ from pathlib import Path
 
 import openpyxl
 
-__all__ = ["make_book", "patch_zip", "sheet_xml"]
+__all__ = ["lots_book", "make_book", "patch_zip", "sheet_xml"]
 
 
 def make_book(path: Path, sheets: dict[str, list[list[object]]], *, at: str = "A1") -> Path:
@@ -23,6 +23,14 @@ def make_book(path: Path, sheets: dict[str, list[list[object]]], *, at: str = "A
                     ws.cell(row=r0 + i, column=c0 + j, value=v)
     wb.save(path)
     return path
+
+
+def lots_book(folder: Path) -> Path:
+    """``lots.xlsx`` in ``folder``: a sheet "Notes" with one note, then a sheet "Lot data" whose
+    block (labels Lot A to Lot C, invented readings, one "n/a") starts at C3."""
+    rows = [["Lot A", "Lot B", "Lot C"], [1.2, 2.2, 3.1], [1.4, 2.1, "n/a"], [1.1, 2.6, 3.3]]
+    return make_book(folder / "lots.xlsx", {"Notes": [["see other sheet"]], "Lot data": rows},
+                     at="C3")
 
 
 def patch_zip(src: Path, dst: Path, changes: dict[str, bytes | None]) -> Path:

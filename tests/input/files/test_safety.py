@@ -1,8 +1,9 @@
-"""Safety of the input side (issue 5, item 5): each refused input gets its one clear line.
+"""Tests of sheetfuncs.input.files.safety: each refused input gets its one clear line.
 
-Entity bomb, size limit, corrupt and encrypted files, empty and missing sheets, formulas
-without saved values, macros never run or copied, inputs never overwritten, existing outputs
-kept, and formula-like labels that stay text all the way into a written report.
+Entity bombs, the size limit, corrupt, encrypted and old-format files; then, through the command
+line and a written report: macros never run or copied, inputs never overwritten, existing
+outputs kept, and formula-like labels that stay text all the way into a written report. (Empty
+and missing sheets and formulas without saved values: test_xlsx.py.)
 """
 
 from __future__ import annotations
@@ -14,14 +15,19 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from sheetfuncs.input.files import reader as readers
+from sheetfuncs.input.files import safety, xlsx
 from sheetfuncs.cli.commands import main
 from sheetfuncs.errors import InputError
-from sheetfuncs.input.files.reader import check_archive, openpyxl_uses_defusedxml, read_cells, read_groups
+from sheetfuncs.input.files.reader import read_cells, read_groups
+from sheetfuncs.input.files.safety import check_archive, openpyxl_uses_defusedxml
 from tests.support.workbooks import make_book, patch_zip, sheet_xml
 
 ROWS = [["A", "B"], [1.0, 2.0], [1.5, 2.5], [1.2, 2.1]]
 SHEET = "xl/worksheets/sheet1.xml"
+ENCRYPTED = (
+    "sheetfuncs: locked.xlsx is encrypted (password-protected); remove the password in a "
+    "spreadsheet program (save a copy without one) and read that copy"
+)
 
 
 def _book(tmp_path: Path, name: str = "in.xlsx") -> Path:
@@ -117,13 +123,13 @@ def test_defusedxml_inside_openpyxl_refuses_a_bomb_the_scan_missed(tmp_path, mon
         cur = cur.__cause__ or cur.__context__
     assert any(isinstance(x, DefusedXmlException) for x in chain)
     # With the prolog scan switched off, the reader still turns it into the one clear line.
-    monkeypatch.setattr(readers, "_has_doctype", lambda zf, info: False)
+    monkeypatch.setattr(safety, "_has_doctype", lambda zf, info: False)
     with pytest.raises(InputError, match=r"bomb\.xlsx contains an XML document type declaration"):
         read_cells(path)
 
 
 def test_workbooks_are_refused_when_openpyxl_is_not_defused(tmp_path, monkeypatch):
-    monkeypatch.setattr(readers, "openpyxl_uses_defusedxml", lambda: False)
+    monkeypatch.setattr(xlsx, "openpyxl_uses_defusedxml", lambda: False)
     with pytest.raises(InputError, match="openpyxl is not parsing through defusedxml"):
         read_cells(_book(tmp_path))
 
@@ -273,13 +279,10 @@ def _cfb(streams: dict[str, bytes]) -> bytes:
 def test_encrypted_workbook(tmp_path):
     path = tmp_path / "locked.xlsx"
     path.write_bytes(_cfb({"EncryptionInfo": b"\x04\x00\x04\x00", "EncryptedPackage": b"\x10"}))
-    assert readers._cfb_names(path) >= {"Root Entry", "EncryptionInfo", "EncryptedPackage"}
+    assert safety._cfb_names(path) >= {"Root Entry", "EncryptionInfo", "EncryptedPackage"}
     with pytest.raises(InputError) as ei:
         read_cells(path)
-    assert str(ei.value) == (
-        "sheetfuncs: locked.xlsx is encrypted (password-protected); remove the password in a "
-        "spreadsheet program (save a copy without one) and read that copy"
-    )
+    assert str(ei.value) == ENCRYPTED
 
 
 def test_workbook_encrypted_by_an_independent_implementation(tmp_path):
@@ -301,10 +304,7 @@ def test_workbook_encrypted_by_an_independent_implementation(tmp_path):
         OOXMLFile(plain).encrypt("a password", out)
     with pytest.raises(InputError) as ei:
         read_cells(path)
-    assert str(ei.value) == (
-        "sheetfuncs: locked.xlsx is encrypted (password-protected); remove the password in a "
-        "spreadsheet program (save a copy without one) and read that copy"
-    )
+    assert str(ei.value) == ENCRYPTED
 
 
 def test_old_binary_workbook_in_disguise(tmp_path):
@@ -312,46 +312,6 @@ def test_old_binary_workbook_in_disguise(tmp_path):
     path.write_bytes(_cfb({"Workbook": b"\x09\x08"}))
     with pytest.raises(InputError, match=r"old\.xlsx is in the old binary \.xls format, not \.xlsx"):
         check_archive(path)
-
-
-# --------------------------------------------------------------------------------------------
-# sheets and cells
-
-
-def test_empty_sheet(tmp_path):
-    path = make_book(tmp_path / "e.xlsx", {"Blank": [], "Data": ROWS})
-    with pytest.raises(InputError) as ei:
-        read_cells(path)
-    assert str(ei.value) == (
-        'sheetfuncs: sheet "Blank" of e.xlsx is empty; choose the sheet that holds the data '
-        "(--sheet)"
-    )
-    with pytest.raises(InputError) as ei:
-        read_cells(path, sheet="Data", cell_range="D1:E9")
-    assert str(ei.value) == 'sheetfuncs: the range D1:E9 of sheet "Data" in e.xlsx is empty; check the range'
-
-
-def test_missing_sheet(tmp_path):
-    path = make_book(tmp_path / "m.xlsx", {"Run 1": ROWS, "Run 2": ROWS})
-    with pytest.raises(InputError) as ei:
-        read_cells(path, sheet="Run 3")
-    assert str(ei.value) == 'sheetfuncs: m.xlsx has no sheet named "Run 3"; its sheets are "Run 1", "Run 2"'
-
-
-def test_formula_without_saved_value_is_reported_with_its_address(tmp_path):
-    rows = [["A", "B"], [1.0, 2.0], [1.5, "=A3+1"], [1.2, "=A4*2"]]
-    path = make_book(tmp_path / "calc.xlsx", {"Run 1": rows}, at="B2")
-    with pytest.raises(InputError) as ei:
-        read_groups(path)
-    assert str(ei.value) == (
-        "sheetfuncs: the formula in 'Run 1'!C4 of calc.xlsx has no saved value (and 1 more); "
-        "the file was saved by a program that does not calculate: open it in a spreadsheet "
-        "program and save it, or paste the values, then try again"
-    )
-    # cells are 0-based within the block (which starts at B2)
-    assert ei.value.cells == ((2, 1), (3, 1))
-    # never read as blank: a range that leaves the formulas out reads fine
-    assert read_groups(path, cell_range="B2:C3", labels="yes").groups.counts == (1, 1)
 
 
 # --------------------------------------------------------------------------------------------
@@ -376,7 +336,7 @@ def _xlsm(tmp_path: Path) -> Path:
 
 
 def test_macros_are_not_loaded(tmp_path):
-    wb = readers._open_workbook(_xlsm(tmp_path), data_only=True)
+    wb = xlsx._open_workbook(_xlsm(tmp_path), data_only=True)
     try:
         assert wb.vba_archive is None
     finally:
@@ -482,4 +442,4 @@ def test_demo_reads_an_existing_files_properties_safely(tmp_path, monkeypatch, c
     assert "is not a sheetfuncs demo report, so it is kept" in line
     assert bad.read_bytes() == before
     with pytest.raises(InputError, match="document type declaration"):
-        readers.workbook_properties(bad)
+        xlsx.workbook_properties(bad)

@@ -1,12 +1,12 @@
 """The block read of groups_from_range (all data cells floats or blanks) against the cell-by-cell read.
 
 ``groups_from_range`` reads a wide or rowwise range whose data cells are all ``float`` or
-``None`` in one block (``sheetfuncs.input.groups._plain_block``); every other range, and every range
-when ``block=False`` is passed to ``sheetfuncs.input.groups._read_range``, is read cell by cell. The
+``None`` in one block (``sheetfuncs.input.ranges._plain_block``); every other range, and every range
+when ``block=False`` is passed to ``sheetfuncs.input.ranges._read_range``, is read cell by cell. The
 two reads must give identical results (labels, arrays bit for bit, ignored cells, notes, layout,
 label source) or the identical message. The expected behaviour is the cell-by-cell read, whose
-range rules tests/test_groups.py checks against the engineering guide (common practice for the
-host's statistics functions); here it is the reference the block read is held to.
+range rules tests/input/test_ranges.py checks against the engineering guide (common practice
+for the host's statistics functions); here it is the reference the block read is held to.
 
 All values are invented.
 """
@@ -25,8 +25,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from sheetfuncs import InputError, groups_from_range
-import sheetfuncs.input.groups as groups_module
-from sheetfuncs.input.groups import _plain_block, _read_range
+import sheetfuncs.input.ranges as ranges_module
+from sheetfuncs.input.ranges import _plain_block, _read_range
 
 NA_CODE = -2146826246  # #N/A as an unconverted COM error code (0x800A0000 + 2042, from memory)
 
@@ -131,7 +131,7 @@ BLOCK_SIZES = st.sampled_from([1, 2, 3, 5, 8192])  # cells per block of rows: ma
 @given(plain_ranges(), BLOCK_SIZES)
 def test_block_read_equals_cell_read_on_floats_and_blanks(case, block_cells) -> None:
     rows, layout, labels, _ = case
-    with mock.patch.object(groups_module, "_BLOCK_CELLS", block_cells):
+    with mock.patch.object(ranges_module, "_BLOCK_CELLS", block_cells):
         _assert_same(rows, layout, labels)
 
 
@@ -147,7 +147,7 @@ def test_block_read_is_taken_on_floats_and_blanks(case) -> None:
 
 
 def test_groups_from_range_uses_the_block_read(monkeypatch) -> None:
-    import sheetfuncs.input.groups as groups_module
+    import sheetfuncs.input.ranges as ranges_module
 
     taken = []
 
@@ -156,7 +156,7 @@ def test_groups_from_range_uses_the_block_read(monkeypatch) -> None:
         taken.append(out is not None)
         return out
 
-    monkeypatch.setattr(groups_module, "_plain_block", spy)
+    monkeypatch.setattr(ranges_module, "_plain_block", spy)
     groups_from_range([["A", "B"], [1.0, 2.0], [3.0, None]])
     groups_from_range([["A", 1.0, 2.0], ["B", 3.0, None]], layout="rowwise")
     groups_from_range([[1.0, 2.0], [3.0, None]], labels=False)
@@ -168,7 +168,7 @@ def test_groups_from_range_uses_the_block_read(monkeypatch) -> None:
 @given(mixed_ranges(), BLOCK_SIZES)
 def test_other_cells_take_the_cell_read(case, block_cells) -> None:
     rows, layout, labels, (r, c) = case
-    with mock.patch.object(groups_module, "_BLOCK_CELLS", block_cells):
+    with mock.patch.object(ranges_module, "_BLOCK_CELLS", block_cells):
         _assert_same(rows, layout, labels)
     start = _data_start(rows, layout, labels)
     if start is None:
@@ -186,7 +186,7 @@ def test_nan_beside_blanks_is_still_rejected(case, block_cells) -> None:
     rows, layout, _, _ = case
     rows = [list(r) for r in rows]
     rows[-1][-1] = math.nan  # a genuine NaN in the last data cell, blanks possibly elsewhere
-    with mock.patch.object(groups_module, "_BLOCK_CELLS", block_cells):
+    with mock.patch.object(ranges_module, "_BLOCK_CELLS", block_cells):
         fast = _assert_same(rows, layout, False)
     assert fast[0] == "error" and "NaN" in fast[1]
     assert fast[2] == ((len(rows) - 1, len(rows[0]) - 1),)

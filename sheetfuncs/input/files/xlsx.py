@@ -1,0 +1,375 @@
+"""Workbooks (``.xlsx``, ``.xlsm``): the saved values of a block of cells, and the document properties.
+
+Read with openpyxl in read-only mode with ``data_only=True``: the values the spreadsheet
+program saved, never the formulas; macros are neither run nor loaded (``keep_vba=False``). The
+file first passes :func:`.safety.check_archive`, and workbooks are read only while openpyxl parses
+through defusedxml. The sheet is the one named (matched case-insensitively) or the first
+worksheet; the range is an A1 reference, a defined name, or the sheet's used range. A formula
+cell that has no saved value (a file written by a program that does not calculate) is an error
+naming its address, never a blank. The document properties part is found through the package
+relationships (ECMA-376 Part 2) and parsed with defusedxml.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import os
+import warnings
+import zipfile
+import zlib
+from collections.abc import Sequence
+from pathlib import Path
+from typing import Any
+
+from ...errors import InputError
+from ..cells import RangeRef, parse_range
+from ..source import InputSource
+from .block import PROGRESS_STEP, CellBlock, Progress, cell_block, trim_rows
+from .safety import (
+    DEFAULT_SIZE_LIMIT, bomb_message, check_archive, damaged_error, defusedxml_refused,
+    openpyxl_uses_defusedxml,
+)
+
+__all__ = ["read_workbook", "workbook_properties"]
+
+_NONE = type(None)
+_TEXT_TYPES = ("s", "str", "inlineStr")
+_EXACT_INT = 2**53
+
+
+# --------------------------------------------------------------------------------------------
+# opening a workbook, choosing the sheet and the range
+
+
+def _open_workbook(p: Path, data_only: bool):
+    import openpyxl
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        try:
+            return openpyxl.load_workbook(
+                p, read_only=True, data_only=data_only, keep_vba=False, keep_links=False
+            )
+        except InputError:
+            raise
+        except Exception as e:
+            if defusedxml_refused(e):
+                raise InputError(bomb_message(p.name, "a workbook part")) from None
+            raise damaged_error(p.name, e) from None
+
+
+def _sheet_list(names: Sequence[str]) -> str:
+    shown = ", ".join(f'"{n}"' for n in names[:12])
+    return shown + (f" and {len(names) - 12} more" if len(names) > 12 else "")
+
+
+def _pick_sheet(wb, p: Path, sheet: str | None):
+    worksheets = list(wb.worksheets)
+    if sheet is None:
+        if not worksheets:
+            raise InputError(f"{p.name} has no worksheets (only chart sheets)")
+        return worksheets[0]
+    want = sheet.strip()
+    if len(want) >= 2 and want[0] == want[-1] == "'":
+        want = want[1:-1].replace("''", "'")
+    by_name = {ws.title: ws for ws in worksheets}
+    if want in by_name:
+        return by_name[want]
+    folded = [ws for ws in worksheets if ws.title.casefold() == want.casefold()]
+    if len(folded) == 1:
+        return folded[0]
+    if want in wb.sheetnames:
+        raise InputError(
+            f'"{want}" in {p.name} is a chart sheet, not a worksheet; choose a '
+            f"sheet with data: {_sheet_list([ws.title for ws in worksheets])}"
+        )
+    raise InputError(
+        f'{p.name} has no sheet named "{want}"; its sheets are '
+        f"{_sheet_list([ws.title for ws in worksheets])}"
+    )
+
+
+def _defined_range(wb, p: Path, name: str) -> RangeRef:
+    dn = None
+    try:
+        dn = wb.defined_names.get(name)
+        if dn is None:
+            for key, val in wb.defined_names.items():
+                if key.casefold() == name.casefold():
+                    dn = val
+                    break
+    except Exception:  # unusual defined-name tables: treat as absent
+        dn = None
+    if dn is None:
+        raise InputError(
+            f'"{name}" is neither a range like A1:F40 nor a name defined in '
+            f"{p.name}; check the range"
+        )
+    try:
+        dests = list(dn.destinations)
+    except Exception:
+        dests = []
+    if len(dests) != 1:
+        raise InputError(
+            f'the name "{name}" in {p.name} does not refer to one block of cells; '
+            "give the range as A1:F40"
+        )
+    sheet_name, cells = dests[0]
+    ref = parse_range(cells)
+    if ref is None:
+        raise InputError(f'cannot read the cells "{cells}" that "{name}" refers to')
+    return RangeRef(ref.min_row, ref.min_col, ref.max_row, ref.max_col,
+                    sheet_name.replace("''", "'"))
+
+
+def _sheet_prefix(title: str) -> str:
+    """``'Lot data'!``: a sheet name as it precedes a reference (quoted, as in addresses)."""
+    return "'" + title.replace("'", "''") + "'!"
+
+
+def _addr(sheet: str | None, row: int, col: int) -> str:
+    return InputSource(sheet=sheet).full_address(row - 1, col - 1)
+
+
+# --------------------------------------------------------------------------------------------
+# reading the block
+
+
+def read_workbook(
+    p: Path,
+    sheet: str | None,
+    ref: RangeRef | None,
+    name: str | None,
+    size_limit: int,
+    progress: Progress | None,
+    shown: str | None = None,
+) -> CellBlock:
+    """The block of saved values of a workbook's sheet.
+
+    ``ref`` is the range (``None``: the used range) or ``name`` a defined name; ``shown`` the
+    range as the user gave it, for messages. See :func:`.reader.read_cells`.
+    """
+    if not openpyxl_uses_defusedxml():
+        raise InputError(
+            "openpyxl is not parsing through defusedxml (is the environment "
+            "variable OPENPYXL_DEFUSEDXML set to False?); unset it so that workbooks are read "
+            "safely"
+        )
+    check_archive(p, size_limit)
+    wb = _open_workbook(p, data_only=True)
+    try:
+        if name is not None:
+            ref = _defined_range(wb, p, name)
+            if sheet is not None and sheet.strip().casefold() != (ref.sheet or "").casefold():
+                raise InputError(
+                    f'the name "{name}" refers to sheet "{ref.sheet}", not '
+                    f'"{sheet}"; leave out the sheet or give an A1 range'
+                )
+            sheet = ref.sheet
+        ws = _pick_sheet(wb, p, sheet)
+        rows, suspects, first_row, first_col = _read_sheet(ws, ref, progress, p.name)
+        title = ws.title
+    finally:
+        wb.close()
+    source = InputSource(path=str(p), sheet=title, first_row=first_row, first_col=first_col)
+    if not rows:
+        raise InputError(_empty_message(p, title, ref, name, shown, len(wb.sheetnames)))
+    if suspects:
+        _check_formulas(p, title, suspects, source)
+    return cell_block(rows, source, "workbook")
+
+
+def _empty_message(
+    p: Path, title: str, ref: RangeRef | None, name: str | None, shown: str | None, n_sheets: int
+) -> str:
+    """What to say when the sheet, or the range or name given, holds no cells."""
+    if ref is None:
+        return (
+            f'sheet "{title}" of {p.name} is empty; choose the sheet that holds '
+            "the data"
+            + (" (--sheet)" if n_sheets > 1 else "")
+        )
+    if name is not None:
+        what = f'the name "{name}" ({_sheet_prefix(title)}{ref.a1()})'
+    elif shown is not None and ref.sheet is not None:
+        what = f"the range {shown}"
+    else:
+        what = f'the range {shown or ref.a1()} of sheet "{title}"'
+    return f"{what} in {p.name} is empty; check the range"
+
+
+def _read_sheet(ws, ref: RangeRef | None, progress: Progress | None, file_name: str):
+    """:func:`_sheet_rows`, with a parser's failure turned into one line."""
+    known = ws.max_row, ws.max_column
+    try:
+        return _sheet_rows(ws, ref, known, progress, file_name)
+    except InputError:
+        raise
+    except Exception as e:
+        if defusedxml_refused(e):
+            raise InputError(bomb_message(file_name, f'sheet "{ws.title}"')) from None
+        raise damaged_error(file_name, e) from None
+
+
+def _sheet_rows(ws, ref: RangeRef | None, known, progress: Progress | None, file_name: str):
+    """Rows of saved values, trimmed; cells that exist but hold nothing (possible formulas)."""
+    from openpyxl.cell.read_only import EmptyCell
+
+    ws.reset_dimensions()  # dimension records are often wrong: read what is there
+    r1 = ref.min_row if ref else 1
+    c1 = ref.min_col if ref else 1
+    r2 = ref.max_row if ref else None
+    c2 = ref.max_col if ref else None
+    known_rows, known_cols = known
+    total = 0
+    if known_rows and known_cols:
+        total = (min(known_rows, r2 or known_rows) - r1 + 1) * (
+            min(known_cols, c2 or known_cols) - c1 + 1
+        )
+        total = max(total, 0)
+    rows: list[tuple[Any, ...]] = []
+    suspects: list[tuple[int, int]] = []  # 1-based sheet (row, col)
+    done = next_report = 0
+    if progress is not None:
+        progress("reading", 0, total)
+    r = r1 - 1
+    for cells in ws.iter_rows(min_row=r1, max_row=None, min_col=c1, max_col=c2):
+        r += 1
+        if r2 is not None and r > r2:
+            break
+        vals = [cell.value for cell in cells]
+        types = set(map(type, vals))
+        if _NONE in types:  # cells that exist but hold nothing may be unsaved formulas
+            for j, v in enumerate(vals):
+                if v is None:
+                    cell = cells[j]
+                    if not isinstance(cell, EmptyCell) and cell.data_type not in _TEXT_TYPES:
+                        suspects.append((r, c1 + j))
+        if _dt.timedelta in types:
+            j = next(j for j, v in enumerate(vals) if isinstance(v, _dt.timedelta))
+            raise InputError(
+                f"a duration (time) value at {_addr(ws.title, r, c1 + j)} of "
+                f"{file_name}; durations are not read as measurements: convert them to "
+                "numbers (e.g. minutes) in the sheet"
+            )
+        if int in types:  # whole numbers saved without a decimal point: the same doubles
+            vals = [float(v) if type(v) is int and abs(v) <= _EXACT_INT else v for v in vals]
+        rows.append(tuple(vals))
+        done += len(vals)
+        if progress is not None and done >= next_report:
+            progress("reading", done, total)
+            next_report = done + PROGRESS_STEP
+    if progress is not None:
+        progress("reading", done, max(total, done))
+    return trim_rows(rows, r1, c1, ref, suspects)
+
+
+# --------------------------------------------------------------------------------------------
+# formula cells without saved values
+
+
+def _check_formulas(p: Path, title: str, suspects: list[tuple[int, int]], source: InputSource):
+    """Cells that exist but have no saved value: are they formulas? Then stop with an error."""
+    from openpyxl.worksheet.formula import ArrayFormula, DataTableFormula
+
+    want = set(suspects)
+    lo = min(r for r, _ in suspects)
+    hi = max(r for r, _ in suspects)
+    c_lo = min(c for _, c in suspects)
+    c_hi = max(c for _, c in suspects)
+    wb = _open_workbook(p, data_only=False)
+    found: list[tuple[int, int]] = []
+    try:
+        ws = wb[title]
+        ws.reset_dimensions()
+        r = lo - 1
+        for cells in ws.iter_rows(min_row=lo, max_row=None, min_col=c_lo, max_col=c_hi):
+            r += 1
+            if r > hi:
+                break
+            for j, cell in enumerate(cells):
+                if (r, c_lo + j) not in want:
+                    continue
+                v = getattr(cell, "value", None)
+                if isinstance(v, (ArrayFormula, DataTableFormula)) or (
+                    isinstance(v, str) and v.startswith("=")
+                ):
+                    found.append((r, c_lo + j))
+    except InputError:
+        raise
+    except Exception as e:
+        raise damaged_error(p.name, e) from None
+    finally:
+        wb.close()
+    if found:
+        first = found[0]
+        more = f" (and {len(found) - 1} more)" if len(found) > 1 else ""
+        where = _addr(title, *first)
+        raise InputError(
+            f"the formula in {where} of {p.name} has no saved value{more}; the file "
+            "was saved by a program that does not calculate: open it in a spreadsheet program "
+            "and save it, or paste the values, then try again",
+            cells=tuple((r - source.first_row, c - source.first_col) for r, c in found),
+        )
+
+
+# --------------------------------------------------------------------------------------------
+# document properties
+
+_CORE_REL = "http://schemas.openxmlformats.org/package/2006/relationships/metadata/core-properties"
+_CORE_FIELDS = {
+    "{http://purl.org/dc/elements/1.1/}creator": "creator",
+    "{http://purl.org/dc/elements/1.1/}title": "title",
+    "{http://purl.org/dc/elements/1.1/}subject": "subject",
+    "{http://purl.org/dc/elements/1.1/}description": "description",
+    "{http://schemas.openxmlformats.org/package/2006/metadata/core-properties}keywords": "keywords",
+    "{http://schemas.openxmlformats.org/package/2006/metadata/core-properties}category": "category",
+}
+_CORE_MAX = 1024 * 1024  # a core-properties part is a few hundred bytes
+
+
+def workbook_properties(
+    path: str | os.PathLike[str], size_limit: int = DEFAULT_SIZE_LIMIT
+) -> dict[str, str]:
+    """The core document properties of a workbook (``creator``, ``title``, ``subject``,
+    ``description``, ``keywords``, ``category``; only those present).
+
+    The file passes :func:`check_archive` first (size limit, no document type declaration), and
+    the properties part (found through the package relationships, ECMA-376 Part 2, with
+    ``docProps/core.xml`` as the usual name) is parsed with defusedxml. Raises
+    :class:`InputError` when the file is not a readable workbook; a workbook without a
+    properties part gives an empty dict.
+    """
+    from defusedxml import ElementTree as SafeET
+    from defusedxml import DefusedXmlException
+
+    p = Path(path)
+    if p.is_dir():
+        raise InputError(f"{p} is a folder, not a workbook")
+    check_archive(p, size_limit)
+    try:
+        with zipfile.ZipFile(p) as zf:
+            names = set(zf.namelist())
+            part = "docProps/core.xml"
+            if "_rels/.rels" in names and zf.getinfo("_rels/.rels").file_size <= _CORE_MAX:
+                rels = SafeET.fromstring(zf.read("_rels/.rels"))
+                for rel in rels:
+                    if rel.get("Type") == _CORE_REL and rel.get("Target"):
+                        part = rel.get("Target", "").lstrip("/")
+                        break
+            if part not in names or zf.getinfo(part).file_size > _CORE_MAX:
+                return {}
+            root = SafeET.fromstring(zf.read(part))
+    except (DefusedXmlException, SafeET.ParseError, zipfile.BadZipFile, KeyError, OSError,
+            zlib.error, EOFError) as e:
+        if isinstance(e, PermissionError):
+            raise InputError(
+                f"no permission to read {p}; check the file's access rights"
+            ) from None
+        raise damaged_error(p.name, e) from None
+    out: dict[str, str] = {}
+    for child in root:
+        key = _CORE_FIELDS.get(child.tag)
+        if key is not None:
+            out[key] = (child.text or "").strip()
+    return out
