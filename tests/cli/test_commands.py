@@ -569,10 +569,12 @@ def test_usage_problems_give_usage_and_one_line(tmp_path, capsys, monkeypatch, a
 def test_report_inputs_may_follow_the_options(tmp_path, capsys, monkeypatch):
     monkeypatch.chdir(tmp_path)
     a, b = small_csv(tmp_path, "a.csv"), small_csv(tmp_path, "b.csv", shift=0.5)
-    code, out, err = run(["report", "a.csv", "--out-dir", "made/here", "b.csv"], capsys)
+    code, out, err = run(["report", a.name, "--out-dir", "made/here", b.name], capsys)
     assert code == 0, err
     assert sorted(p.name for p in (tmp_path / "made" / "here").iterdir()) == [
         "a-report.xlsx", "b-report.xlsx"]  # --out-dir is created when missing
+    assert out.splitlines() == [f"wrote {Path('made', 'here', f'{x.stem}-report.xlsx')}"
+                                for x in (a, b)]  # in the order given
 
 
 def test_help_reads_well(capsys):
