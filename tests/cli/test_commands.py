@@ -21,8 +21,10 @@ import pytest
 
 from tests.support import nist
 from sheetfuncs import oneway
-from sheetfuncs.cli import commands as cli
-from sheetfuncs.cli.commands import BIG_INPUT_CELLS, _Progress, csv_safe, json_ready, main
+from sheetfuncs.cli import (
+    BIG_INPUT_CELLS, DEFAULT_DEMO_OUTPUT, Progress, csv_safe, json_ready, main,
+)
+from sheetfuncs.cli.output import cell_shown
 
 ROOT = Path(__file__).resolve().parents[2]
 DEMO_BOOK = ROOT / "workbooks" / "demo.xlsx"
@@ -317,7 +319,7 @@ def test_batch_progress_on_a_terminal_and_when_asked(tmp_path, capsys, monkeypat
 
 def test_progress_turns_on_for_big_inputs_only_on_a_terminal():
     tty = _Tty()
-    p = _Progress(None, tty)
+    p = Progress(None, tty)
     p.start(1, "big.csv")
     p("reading", 0, 1000)
     assert tty.getvalue() == ""
@@ -326,18 +328,18 @@ def test_progress_turns_on_for_big_inputs_only_on_a_terminal():
     p.finish()
     assert "big.csv: reading 100%" in tty.getvalue() and tty.getvalue().endswith("\n")
     plain = io.StringIO()
-    q = _Progress(None, plain)
+    q = Progress(None, plain)
     q.start(1, "big.csv")
     q("reading", 0, 10 * BIG_INPUT_CELLS)
     q.finish()
     assert plain.getvalue() == ""
     forced = io.StringIO()
-    r = _Progress(True, forced)
+    r = Progress(True, forced)
     r.start(1, "x.csv")
     r("writing", 3, 8)
     assert "sheetfuncs: x.csv: writing 37%" in forced.getvalue()
     off = _Tty()
-    s = _Progress(False, off, batch=3)
+    s = Progress(False, off, batch=3)
     s.start(1, "x.csv")
     s("reading", 0, 10 * BIG_INPUT_CELLS)
     assert off.getvalue() == ""
@@ -345,7 +347,7 @@ def test_progress_turns_on_for_big_inputs_only_on_a_terminal():
 
 def test_demo_default_output_replaced_on_rerun(tmp_path, capsys, monkeypatch):
     monkeypatch.chdir(tmp_path)
-    target = tmp_path / cli.DEFAULT_DEMO_OUTPUT
+    target = tmp_path / DEFAULT_DEMO_OUTPUT
     target.write_bytes(b"stale")
     code, out, err = run(["demo"], capsys)
     assert code == 0, err
@@ -431,15 +433,15 @@ def test_demo_keeps_text_and_other_reports_but_replaces_its_own(tmp_path, capsys
     code, _, err = run(["demo", "-o", "mine.xlsx"], capsys)
     assert code == 0 and err == ""
     # the default name is the demo's own, whatever it holds
-    (tmp_path / cli.DEFAULT_DEMO_OUTPUT).write_bytes(b"stale")
-    assert main(["demo"]) == 0 and zipfile.is_zipfile(tmp_path / cli.DEFAULT_DEMO_OUTPUT)
+    (tmp_path / DEFAULT_DEMO_OUTPUT).write_bytes(b"stale")
+    assert main(["demo"]) == 0 and zipfile.is_zipfile(tmp_path / DEFAULT_DEMO_OUTPUT)
 
 
 def test_demo_help_says_what_it_replaces(capsys):
     assert main(["demo", "--help"]) == 0
     text = " ".join(capsys.readouterr().out.split())
     assert "--force" in text and "not a sheetfuncs demo report" in text
-    assert cli.DEFAULT_DEMO_OUTPUT in text and "earlier demo report" in text
+    assert DEFAULT_DEMO_OUTPUT in text and "earlier demo report" in text
 
 
 # --------------------------------------------------------------------------------------------
@@ -474,10 +476,10 @@ def test_dash_value_with_equals_sign_is_taken(tmp_path, capsys):
 
 
 def test_cell_shown_like_a_spreadsheet():
-    assert cli._cell_shown("text", "retest") == 'text "retest"'
-    assert cli._cell_shown("text", 'say "hi"') == 'text "say ""hi"""'  # quotes doubled
-    assert cli._cell_shown("logical", True) == "logical value TRUE"
-    assert cli._cell_shown("text", "x" * 60).endswith('…"')
+    assert cell_shown("text", "retest") == 'text "retest"'
+    assert cell_shown("text", 'say "hi"') == 'text "say ""hi"""'  # quotes doubled
+    assert cell_shown("logical", True) == "logical value TRUE"
+    assert cell_shown("text", "x" * 60).endswith('…"')
 
 
 def test_table_text_names_ignored_cells_with_quotes(tmp_path, capsys):
