@@ -13,7 +13,7 @@ from pathlib import Path
 
 from ..errors import InputError
 from ..input import InputSource, workbook_properties
-from .files import check_report_name, write_report_file
+from .files import check_output_folder, check_report_name, write_report_file
 from .parser import DEFAULT_DEMO_OUTPUT
 from .progress import Progress
 
@@ -30,11 +30,7 @@ def run_demo(args: argparse.Namespace) -> int:
     check_report_name(out)
     if out.is_dir():
         raise InputError(f"{out} is a folder; give a file name such as demo.xlsx")
-    if not out.parent.exists():
-        raise InputError(
-            f"the folder {out.parent} does not exist; create it or choose another "
-            "output"
-        )
+    check_output_folder(out)
     if (out.exists() or out.is_symlink()) and not args.force and not replaceable_demo(out):
         raise InputError(
             f"{out} already exists and is not a sheetfuncs demo report, so it is "

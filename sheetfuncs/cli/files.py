@@ -11,10 +11,13 @@ import os
 from pathlib import Path
 from typing import Any
 
+from ..errors import InputError
 from ..input import InputSource
 from .parser import UsageError
 
-__all__ = ["check_report_name", "os_reason", "same_file", "write_report_file"]
+__all__ = [
+    "check_output_folder", "check_report_name", "os_reason", "same_file", "write_report_file",
+]
 
 
 def os_reason(e: OSError, what: str | os.PathLike[str] | None = None) -> str:
@@ -39,6 +42,15 @@ def check_report_name(path: Path) -> None:
     if path.suffix.lower() != ".xlsx":
         raise UsageError(
             f'the report must be an .xlsx file, not "{path.name}" (reports never carry macros)'
+        )
+
+
+def check_output_folder(out: Path) -> None:
+    """The folder a report goes into must exist (``--out-dir`` folders are made before)."""
+    if not out.parent.exists():
+        raise InputError(
+            f"the folder {out.parent} does not exist; create it or choose another "
+            "output"
         )
 
 

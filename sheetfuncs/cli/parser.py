@@ -93,10 +93,16 @@ def add_help(group: Any) -> None:
     group.add_argument("-h", "--help", action="help", help="show this help and exit")
 
 
-def add_progress(p: Any) -> None:
-    p.add_argument("--progress", action=argparse.BooleanOptionalAction, default=None,
-                   help="show progress on stderr, or never (default: only on a terminal, and "
-                        "only for inputs above about a million cells or several files)")
+def add_other(parser: argparse.ArgumentParser, *, progress: bool) -> None:
+    """The last group of every command: ``--progress`` (where the command reads or writes
+    files) and ``--help``."""
+    group = parser.add_argument_group("other")
+    if progress:
+        group.add_argument(
+            "--progress", action=argparse.BooleanOptionalAction, default=None,
+            help="show progress on stderr, or never (default: only on a terminal, and only for "
+                 "inputs above about a million cells or several files)")
+    add_help(group)
 
 
 def add_read_options(p: argparse.ArgumentParser) -> None:
@@ -135,6 +141,11 @@ def read_options(args: argparse.Namespace) -> dict[str, Any]:
     )
 
 
+def add_alpha(group: Any) -> None:
+    group.add_argument("--alpha", type=real, default=0.05, metavar="A",
+                       help="significance level, between 0 and 1 (default 0.05)")
+
+
 def add_names(a: Any, *, response: bool) -> None:
     a.add_argument("--factor", default="Factor", metavar="NAME",
                    help="what the groups are, e.g. \"Oven zone\" (default Factor)"
@@ -156,15 +167,25 @@ def add_names(a: Any, *, response: bool) -> None:
 # one builder per command
 
 
+def add_command(sub: Any, name: str, *, summary: str, usage: str,
+                description: str) -> argparse.ArgumentParser:
+    """A command's parser, named ``sheetfuncs NAME`` in its usage and messages, and kept in the
+    parsed arguments (``args.parser``) for usage errors found later; its help option is added
+    last, by :func:`add_other`."""
+    command = sub.add_parser(name, prog=f"sheetfuncs {name}", help=summary, usage=usage,
+                             description=description, add_help=False)
+    command.set_defaults(parser=command)
+    return command
+
+
 def add_report_command(sub: Any) -> None:
-    rep = sub.add_parser(
-        "report", prog="sheetfuncs report", help="write a formatted result workbook (.xlsx) for each input file",
+    rep = add_command(
+        sub, "report", summary="write a formatted result workbook (.xlsx) for each input file",
         usage="sheetfuncs report INPUT... (-o OUT.xlsx | --out-dir DIR) [options]",
         description="Write a formatted result workbook for each input file: .xlsx/.xlsm "
                     "workbooks (the saved values only; macros are never run) or .csv files. "
                     "An existing report is kept unless --force; an input is never "
                     "overwritten.",
-        add_help=False,
     )
     io_ = rep.add_argument_group("input and output")
     io_.add_argument("inputs", nargs="+", metavar="INPUT",
@@ -179,8 +200,7 @@ def add_report_command(sub: Any) -> None:
                      help="replace a report that already exists (default: keep it and stop)")
     add_read_options(rep)
     a = rep.add_argument_group("analysis")
-    a.add_argument("--alpha", type=real, default=0.05, metavar="A",
-                   help="significance level, between 0 and 1 (default 0.05)")
+    add_alpha(a)
     a.add_argument("--method", default="tukey", metavar="NAME",
                    help="pairwise comparison method: " + ", ".join(method_names())
                         + " (default tukey)")
@@ -188,21 +208,17 @@ def add_report_command(sub: Any) -> None:
                    help="label of a control group: adds Dunnett's comparisons with it "
                         "(default: none)")
     add_names(a, response=True)
-    other = rep.add_argument_group("other")
-    add_progress(other)
-    add_help(other)
-    rep.set_defaults(parser=rep)
+    add_other(rep, progress=True)
 
 
 def add_demo_command(sub: Any) -> None:
-    demo = sub.add_parser(
-        "demo", prog="sheetfuncs demo", help="write the report of the built-in demo data (invented numbers)",
+    demo = add_command(
+        sub, "demo", summary="write the report of the built-in demo data (invented numbers)",
         usage="sheetfuncs demo [-o OUT.xlsx] [--force]",
         description="Write the report of the built-in demo: gasket hardness by cure-oven "
                     "zone, invented data. A rerun replaces the default file "
                     f"{DEFAULT_DEMO_OUTPUT} and any earlier demo report; any other existing "
                     "file is kept unless --force.",
-        add_help=False,
     )
     dg = demo.add_argument_group("output")
     dg.add_argument("-o", "--output", metavar="OUT.xlsx", default=DEFAULT_DEMO_OUTPUT,
@@ -210,19 +226,15 @@ def add_demo_command(sub: Any) -> None:
                          "folder)")
     dg.add_argument("--force", action="store_true",
                     help="replace OUT.xlsx even when it is not a sheetfuncs demo report")
-    dother = demo.add_argument_group("other")
-    add_progress(dother)
-    add_help(dother)
-    demo.set_defaults(parser=demo)
+    add_other(demo, progress=True)
 
 
 def add_table_command(sub: Any) -> None:
-    tab = sub.add_parser(
-        "table", prog="sheetfuncs table", help="print the one-way table, the checks and the group summary",
+    tab = add_command(
+        sub, "table", summary="print the one-way table, the checks and the group summary",
         usage="sheetfuncs table INPUT [--json | --csv] [options]",
         description="Print the one-way table, the assumption checks and the group summary of "
                     "one input file, as aligned text (default), JSON or CSV.",
-        add_help=False,
     )
     tio = tab.add_argument_group("input and output")
     tio.add_argument("input", metavar="INPUT", help="an .xlsx, .xlsm or .csv file")
@@ -234,22 +246,18 @@ def add_table_command(sub: Any) -> None:
                           "could be taken for a formula gets a leading ')")
     add_read_options(tab)
     ta = tab.add_argument_group("analysis")
-    ta.add_argument("--alpha", type=real, default=0.05, metavar="A",
-                    help="significance level, between 0 and 1 (default 0.05)")
+    add_alpha(ta)
     add_names(ta, response=False)
-    tother = tab.add_argument_group("other")
-    add_progress(tother)
-    add_help(tother)
-    tab.set_defaults(fmt="text", parser=tab)
+    add_other(tab, progress=True)
+    tab.set_defaults(fmt="text")
 
 
 def add_plan_command(sub: Any) -> None:
-    plan = sub.add_parser(
-        "plan", prog="sheetfuncs plan", help="values per group that a planned study needs",
+    plan = add_command(
+        sub, "plan", summary="values per group that a planned study needs",
         usage="sheetfuncs plan --groups K --effect F [--power P] [--alpha A]",
         description="Values per group that a balanced one-way study needs to detect an "
                     "effect of Cohen's size f with the given power (noncentral F).",
-        add_help=False,
     )
     pg = plan.add_argument_group("study")
     pg.add_argument("--groups", type=whole, required=True, metavar="K",
@@ -259,10 +267,8 @@ def add_plan_command(sub: Any) -> None:
                          "0.40 large)")
     pg.add_argument("--power", type=real, default=0.8, metavar="P",
                     help="chance of detecting the effect, between 0 and 1 (default 0.8)")
-    pg.add_argument("--alpha", type=real, default=0.05, metavar="A",
-                    help="significance level, between 0 and 1 (default 0.05)")
-    add_help(plan.add_argument_group("other"))
-    plan.set_defaults(parser=plan)
+    add_alpha(pg)
+    add_other(plan, progress=False)
 
 
 def build_parser() -> argparse.ArgumentParser:

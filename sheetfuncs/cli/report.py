@@ -16,7 +16,9 @@ from pathlib import Path
 
 from ..errors import InputError, message
 from ..input import read_groups
-from .files import check_report_name, os_reason, same_file, write_report_file
+from .files import (
+    check_output_folder, check_report_name, os_reason, same_file, write_report_file,
+)
 from .parser import UsageError, read_options
 from .progress import Progress
 
@@ -98,11 +100,7 @@ def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[
                 f"the report {out} would overwrite the input {other}; choose "
                 "another output name"
             )
-    if not out.parent.exists():
-        raise InputError(
-            f"the folder {out.parent} does not exist; create it or choose another "
-            "output"
-        )
+    check_output_folder(out)
     if out.is_dir():
         raise InputError(f"{out} is a folder; give the report a file name (.xlsx)")
     if out.exists() and not args.force:
