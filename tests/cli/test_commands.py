@@ -6,10 +6,15 @@ from __future__ import annotations
 import os
 import subprocess
 import sys
+import tomllib
+from importlib import import_module
 from pathlib import Path
 
 import pytest
 
+from sheetfuncs.cli import build_parser, main
+from sheetfuncs.cli import commands
+from sheetfuncs.cli.commands import COMMANDS
 from tests.support.cli import DEMO_BOOK, ROOT, problem_files, run, small_csv, strict_json, write_csv
 
 
@@ -70,8 +75,32 @@ def test_each_input_problem_gives_one_line(tmp_path, capsys, monkeypatch, argv, 
     assert not (tmp_path / "r.xlsx").exists()
 
 
+def test_every_command_of_the_parser_has_a_runner():
+    help_text = build_parser().format_help()
+    section = help_text.split("commands:\n")[1].splitlines()[1:]  # after the COMMAND line
+    listed = [line.split()[0] for line in section
+              if line.startswith("    ") and not line.startswith("     ")]  # not wrapped help
+    assert listed == list(COMMANDS) == ["report", "demo", "table", "plan"]
+
+
+def test_a_file_system_error_is_one_line(tmp_path, capsys, monkeypatch):
+    def refuse(args):
+        raise PermissionError(13, "Permission denied", str(tmp_path / "locked.xlsx"))
+
+    monkeypatch.setattr(commands, "COMMANDS", {**COMMANDS, "plan": refuse})
+    code, out, err = run(["plan", "--groups", "3", "--effect", "0.25"], capsys)
+    assert code == 1 and out == ""
+    assert err == f"sheetfuncs: {tmp_path / 'locked.xlsx'}: Permission denied\n"
+
+
 # --------------------------------------------------------------------------------------------
 # the console script and python -m sheetfuncs
+
+
+def test_console_script_is_main():
+    meta = tomllib.loads((ROOT / "pyproject.toml").read_text(encoding="utf-8"))
+    module, name = meta["project"]["scripts"]["sheetfuncs"].split(":")
+    assert getattr(import_module(module), name) is main
 
 
 def _py(*args: str, cwd: Path) -> subprocess.CompletedProcess:

@@ -11,6 +11,7 @@ import openpyxl
 
 from sheetfuncs import oneway
 from sheetfuncs.cli import DEFAULT_DEMO_OUTPUT, main
+from sheetfuncs.cli.demo import replaceable_demo
 from tests.support.cli import defined_value, run, small_csv
 
 
@@ -80,6 +81,18 @@ def test_demo_keeps_text_and_other_reports_but_replaces_its_own(tmp_path, capsys
     # the default name is the demo's own, whatever it holds
     (tmp_path / DEFAULT_DEMO_OUTPUT).write_bytes(b"stale")
     assert main(["demo"]) == 0 and zipfile.is_zipfile(tmp_path / DEFAULT_DEMO_OUTPUT)
+
+
+def test_replaceable_demo_refuses_folders_and_links(tmp_path, capsys):
+    (tmp_path / "folder.xlsx").mkdir()
+    assert replaceable_demo(tmp_path / "folder.xlsx") is False
+    assert main(["demo", "-o", str(tmp_path / "mine.xlsx")]) == 0
+    capsys.readouterr()
+    assert replaceable_demo(tmp_path / "mine.xlsx") is True
+    link = tmp_path / "link.xlsx"
+    link.symlink_to(tmp_path / "mine.xlsx")
+    assert replaceable_demo(link) is False  # a link is never followed to replace its target
+    assert replaceable_demo(tmp_path / "folder" / DEFAULT_DEMO_OUTPUT) is True  # by its name
 
 
 def test_demo_help_says_what_it_replaces(capsys):

@@ -6,7 +6,8 @@ from __future__ import annotations
 import math
 
 from sheetfuncs.cli import csv_safe, json_ready
-from sheetfuncs.cli.output import cell_shown
+from sheetfuncs.cli.output import aligned, cell_shown, records, text_cell
+from tests.support.cli import run, write_csv
 
 
 def test_csv_safe_and_json_ready():
@@ -24,3 +25,21 @@ def test_cell_shown_like_a_spreadsheet():
     assert cell_shown("text", "x" * 60).endswith('…"')
 
 
+def test_aligned_text_table():
+    table = [["Source", "df", "F", "p"], ["Factor", 3, math.inf, 0.0], ["Residual", 26, None, None]]
+    assert aligned(table) == [
+        "Source    df         F  p",
+        "Factor     3  infinite  0",
+        "Residual  26",
+    ]  # first and last columns left-aligned, the others right-aligned
+    assert text_cell(math.nan) == "undefined" and text_cell(2 / 3) == "0.666667"
+    assert records(table)[0] == {"Source": "Factor", "df": 3, "F": math.inf, "p": 0.0}
+
+
+def test_text_output_counts_ignored_cells_beyond_five(tmp_path, capsys):
+    rows = [["A", "B"]] + [[i, f"note {i}"] for i in range(1, 8)] + [[i, i + 1] for i in range(3)]
+    code, out, err = run(["table", str(write_csv(tmp_path / "notes.csv", rows))], capsys)
+    assert code == 0, err
+    (line,) = [x for x in out.splitlines() if x.startswith("Ignored cells:")]
+    assert line == ('Ignored cells: B2 (text "note 1"), B3 (text "note 2"), B4 (text "note 3"), '
+                    'B5 (text "note 4"), B6 (text "note 5") and 2 more')

@@ -7,7 +7,8 @@ from pathlib import Path
 
 import pytest
 
-from sheetfuncs.cli import main
+from sheetfuncs.cli import build_parser, main
+from sheetfuncs.cli.parser import positive_mb, real, whole
 from sheetfuncs.input import workbook_properties
 from tests.support.cli import problem_files, run, small_csv
 
@@ -99,6 +100,39 @@ def test_report_inputs_may_follow_the_options(tmp_path, capsys, monkeypatch):
 
 # --------------------------------------------------------------------------------------------
 # option types, help and version
+
+
+def test_option_types_name_the_bad_value():
+    assert positive_mb("0.5") == 0.5 and real("-1e-3") == -0.001 and whole("12") == 12
+    for check, text, words in [
+        (positive_mb, "abc", 'must be a number of megabytes, not "abc"'),
+        (positive_mb, "0", 'must be a positive number of megabytes, not "0"'),
+        (positive_mb, "nan", 'must be a positive number of megabytes, not "nan"'),
+        (real, "1,5", 'must be a number, not "1,5"'),
+        (whole, "2.5", 'must be a whole number, not "2.5"'),
+    ]:
+        with pytest.raises(Exception, match=words) as caught:
+            check(text)
+        assert type(caught.value).__name__ == "ArgumentTypeError"
+
+
+def test_each_command_ends_its_help_with_progress_and_help(capsys):
+    for cmd in ("report", "demo", "table", "plan"):
+        assert main([cmd, "--help"]) == 0
+        text = capsys.readouterr().out
+        head, other = text.split("\nother:\n")
+        assert other.count("\n\n") == 0  # the last group
+        assert "-h, --help" in other and "--help" not in head
+        assert ("--progress, --no-progress" in other) == (cmd != "plan")  # plan reads no file
+
+
+def test_build_parser_names_each_command_in_its_messages():
+    parser = build_parser()
+    args = parser.parse_args(["plan", "--groups", "3", "--effect", "0.25"])
+    assert args.command == "plan" and args.alpha == 0.05 and args.power == 0.8
+    assert args.parser.prog == "sheetfuncs plan"
+    args = parser.parse_args(["table", "x.csv"])
+    assert args.fmt == "text" and args.size_limit == 512 and args.parser.prog == "sheetfuncs table"
 
 
 def test_version(capsys):
