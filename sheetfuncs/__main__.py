@@ -1,5 +1,5 @@
 """``python -m sheetfuncs``: the command line (see :mod:`sheetfuncs.cli`)."""
 
-from .cli.commands import main
+from .cli import main
 
 raise SystemExit(main())

@@ -21,7 +21,7 @@ from openpyxl.styles import Font  # noqa: E402
 from sheetfuncs.input.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_rows  # noqa: E402
 
 #: Name of the data sheet in the demo workbook (the first sheet, so it is read by default).
-from sheetfuncs.cli.commands import DEMO_SHEET as DATA_SHEET  # noqa: E402
+from sheetfuncs.cli import DEMO_SHEET as DATA_SHEET  # noqa: E402
 
 NOTES = (
     DEMO_TITLE,

@@ -1,0 +1,313 @@
+"""The command line's parser: the commands, their options and the usage errors.
+
+One builder per command (``report``, ``demo``, ``table``, ``plan``) on shared option groups: the
+reading options, the names of the factor and the response, the significance level, progress and
+help. A usage error is two short lines on stderr: the command's usage, then one line that says
+what is wrong (exit code 2). The commands themselves live in their own modules and are run by
+:func:`sheetfuncs.cli.commands.main`.
+"""
+
+from __future__ import annotations
+
+import argparse
+import math
+import re
+import sys
+from typing import Any
+
+from ..errors import message
+from ..input import DEFAULT_SIZE_LIMIT
+
+__all__ = [
+    "UsageError", "CommandParser", "DEFAULT_DEMO_OUTPUT", "build_parser", "parse_args",
+    "read_options", "positive_mb", "real", "whole",
+]
+
+DEFAULT_DEMO_OUTPUT = "sheetfuncs-demo.xlsx"
+DASH_HINT = '; for a value that starts with "-", write {opt}=-2+3'
+
+
+class UsageError(Exception):
+    """A usage problem found after parsing (exit code 2)."""
+
+
+class CommandParser(argparse.ArgumentParser):
+    """argparse with usage errors as two short lines: the command's usage, then one line that
+    says what is wrong (with a hint for values that start with a minus sign)."""
+
+    def error(self, problem: str) -> None:  # type: ignore[override]
+        text = " ".join(str(problem).split())
+        opt = re.match(r"argument (-\w|--[\w-]+)(?:/(--[\w-]+))?: expected one argument", text)
+        if opt:
+            name = opt.group(2) or opt.group(1)
+            text += f'; for a value that starts with "-", write {name}=VALUE (e.g. {name}=-2+3)'
+        cmd = self.prog[len("sheetfuncs"):].strip()
+        where = f"{cmd}: " if cmd else ""
+        self.print_usage(sys.stderr)
+        self.exit(2, message(f"{where}{text} (see: {self.prog} --help)") + "\n")
+
+
+# --------------------------------------------------------------------------------------------
+# option types
+
+
+def positive_mb(text: str) -> float:
+    """A size limit in megabytes: a finite number above zero."""
+    try:
+        v = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f'must be a number of megabytes, not "{text}"') from None
+    if not math.isfinite(v) or v <= 0:
+        raise argparse.ArgumentTypeError(f'must be a positive number of megabytes, not "{text}"')
+    return v
+
+
+def real(text: str) -> float:
+    """A number (its range is checked by the command, with the core's message)."""
+    try:
+        return float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f'must be a number, not "{text}"') from None
+
+
+def whole(text: str) -> int:
+    """A whole number (its range is checked by the command, with the core's message)."""
+    try:
+        return int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f'must be a whole number, not "{text}"') from None
+
+
+def method_names() -> tuple[str, ...]:
+    """The names of the pairwise comparison methods, for the help text."""
+    from ..stats import METHODS
+
+    return tuple(METHODS)
+
+
+# --------------------------------------------------------------------------------------------
+# shared option groups
+
+
+def add_help(group: Any) -> None:
+    group.add_argument("-h", "--help", action="help", help="show this help and exit")
+
+
+def add_other(parser: argparse.ArgumentParser, *, progress: bool) -> None:
+    """The last group of every command: ``--progress`` (where the command reads or writes
+    files) and ``--help``."""
+    group = parser.add_argument_group("other")
+    if progress:
+        group.add_argument(
+            "--progress", action=argparse.BooleanOptionalAction, default=None,
+            help="show progress on stderr, or never (default: only on a terminal, and only for "
+                 "inputs above about a million cells or several files)")
+    add_help(group)
+
+
+def add_read_options(p: argparse.ArgumentParser) -> None:
+    g = p.add_argument_group("reading the input")
+    g.add_argument("--sheet", metavar="NAME",
+                   help="worksheet to read (default: the first worksheet)")
+    g.add_argument("--range", dest="cell_range", metavar="A1:F40",
+                   help="cells to read: A1:F40, B:E, 'Lot data'!B2:F40 or a defined name "
+                        "(default: all the used cells of the sheet or CSV file)")
+    g.add_argument("--layout", choices=("wide", "long", "rowwise"), default="wide",
+                   help="wide: one group per column (default); long: a label column and a "
+                        "value column; rowwise: one group per row")
+    g.add_argument("--labels", choices=("auto", "yes", "no"), default="auto",
+                   help="does the first row (first column for rowwise) hold the group labels? "
+                        "auto (default): yes when all of it is text")
+    g.add_argument("--decimal-comma", action="store_true",
+                   help="CSV files only: numbers are written with a decimal comma (1,5) "
+                        "(default: decimal point)")
+    g.add_argument("--size-limit", type=positive_mb, default=DEFAULT_SIZE_LIMIT / 2**20,
+                   metavar="MB",
+                   help="refuse files that unpack to more than this many megabytes "
+                        f"(default {DEFAULT_SIZE_LIMIT // 2**20}); raise it only for a file you "
+                        "trust")
+
+
+def read_options(args: argparse.Namespace) -> dict[str, Any]:
+    """The reading options of :func:`add_read_options` as keyword arguments of
+    :func:`sheetfuncs.input.read_groups`."""
+    return dict(
+        layout=args.layout,
+        labels=args.labels,
+        sheet=args.sheet,
+        cell_range=args.cell_range,
+        decimal_comma=args.decimal_comma,
+        size_limit=int(args.size_limit * 2**20),
+    )
+
+
+def add_alpha(group: Any) -> None:
+    group.add_argument("--alpha", type=real, default=0.05, metavar="A",
+                       help="significance level, between 0 and 1 (default 0.05)")
+
+
+def add_names(a: Any, *, response: bool) -> None:
+    a.add_argument("--factor", default="Factor", metavar="NAME",
+                   help="what the groups are, e.g. \"Oven zone\" (default Factor)"
+                        + DASH_HINT.format(opt="--factor"))
+    if not response:
+        return
+    a.add_argument("--response", default="Response", metavar="NAME",
+                   help="the measured quantity, e.g. Hardness (default Response)"
+                        + DASH_HINT.format(opt="--response"))
+    a.add_argument("--unit", metavar="UNIT",
+                   help="unit of the measurements, e.g. \"Shore A\" (default: none)"
+                        + DASH_HINT.format(opt="--unit"))
+    a.add_argument("--title", metavar="TEXT",
+                   help="report title (default: \"RESPONSE by FACTOR\")"
+                        + DASH_HINT.format(opt="--title"))
+
+
+# --------------------------------------------------------------------------------------------
+# one builder per command
+
+
+def add_command(sub: Any, name: str, *, summary: str, usage: str,
+                description: str) -> argparse.ArgumentParser:
+    """A command's parser, named ``sheetfuncs NAME`` in its usage and messages, and kept in the
+    parsed arguments (``args.parser``) for usage errors found later; its help option is added
+    last, by :func:`add_other`."""
+    command = sub.add_parser(name, prog=f"sheetfuncs {name}", help=summary, usage=usage,
+                             description=description, add_help=False)
+    command.set_defaults(parser=command)
+    return command
+
+
+def add_report_command(sub: Any) -> None:
+    rep = add_command(
+        sub, "report", summary="write a formatted result workbook (.xlsx) for each input file",
+        usage="sheetfuncs report INPUT... (-o OUT.xlsx | --out-dir DIR) [options]",
+        description="Write a formatted result workbook for each input file: .xlsx/.xlsm "
+                    "workbooks (the saved values only; macros are never run) or .csv files. "
+                    "An existing report is kept unless --force; an input is never "
+                    "overwritten.",
+    )
+    io_ = rep.add_argument_group("input and output")
+    io_.add_argument("inputs", nargs="+", metavar="INPUT",
+                     help="one or more .xlsx, .xlsm or .csv files")
+    out = io_.add_mutually_exclusive_group(required=True)
+    out.add_argument("-o", "--output", metavar="OUT.xlsx",
+                     help="the report to write (for one input)")
+    out.add_argument("--out-dir", metavar="DIR",
+                     help="folder for the reports, one INPUT-report.xlsx per input (the folder "
+                          "is created if it does not exist)")
+    io_.add_argument("--force", action="store_true",
+                     help="replace a report that already exists (default: keep it and stop)")
+    add_read_options(rep)
+    a = rep.add_argument_group("analysis")
+    add_alpha(a)
+    a.add_argument("--method", default="tukey", metavar="NAME",
+                   help="pairwise comparison method: " + ", ".join(method_names())
+                        + " (default tukey)")
+    a.add_argument("--control", metavar="LABEL",
+                   help="label of a control group: adds Dunnett's comparisons with it "
+                        "(default: none)")
+    add_names(a, response=True)
+    add_other(rep, progress=True)
+
+
+def add_demo_command(sub: Any) -> None:
+    demo = add_command(
+        sub, "demo", summary="write the report of the built-in demo data (invented numbers)",
+        usage="sheetfuncs demo [-o OUT.xlsx] [--force]",
+        description="Write the report of the built-in demo: gasket hardness by cure-oven "
+                    "zone, invented data. A rerun replaces the default file "
+                    f"{DEFAULT_DEMO_OUTPUT} and any earlier demo report; any other existing "
+                    "file is kept unless --force.",
+    )
+    dg = demo.add_argument_group("output")
+    dg.add_argument("-o", "--output", metavar="OUT.xlsx", default=DEFAULT_DEMO_OUTPUT,
+                    help=f"where to write it (default {DEFAULT_DEMO_OUTPUT} in the current "
+                         "folder)")
+    dg.add_argument("--force", action="store_true",
+                    help="replace OUT.xlsx even when it is not a sheetfuncs demo report")
+    add_other(demo, progress=True)
+
+
+def add_table_command(sub: Any) -> None:
+    tab = add_command(
+        sub, "table", summary="print the one-way table, the checks and the group summary",
+        usage="sheetfuncs table INPUT [--json | --csv] [options]",
+        description="Print the one-way table, the assumption checks and the group summary of "
+                    "one input file, as aligned text (default), JSON or CSV.",
+    )
+    tio = tab.add_argument_group("input and output")
+    tio.add_argument("input", metavar="INPUT", help="an .xlsx, .xlsm or .csv file")
+    fmt = tio.add_mutually_exclusive_group()
+    fmt.add_argument("--json", dest="fmt", action="store_const", const="json",
+                     help="print JSON (infinite values as \"inf\", undefined ones as null)")
+    fmt.add_argument("--csv", dest="fmt", action="store_const", const="csv",
+                     help="print the three tables as CSV, separated by a blank line (text that "
+                          "could be taken for a formula gets a leading ')")
+    add_read_options(tab)
+    ta = tab.add_argument_group("analysis")
+    add_alpha(ta)
+    add_names(ta, response=False)
+    add_other(tab, progress=True)
+    tab.set_defaults(fmt="text")
+
+
+def add_plan_command(sub: Any) -> None:
+    plan = add_command(
+        sub, "plan", summary="values per group that a planned study needs",
+        usage="sheetfuncs plan --groups K --effect F [--power P] [--alpha A]",
+        description="Values per group that a balanced one-way study needs to detect an "
+                    "effect of Cohen's size f with the given power (noncentral F).",
+    )
+    pg = plan.add_argument_group("study")
+    pg.add_argument("--groups", type=whole, required=True, metavar="K",
+                    help="number of groups, 2 or more (required)")
+    pg.add_argument("--effect", type=real, required=True, metavar="F",
+                    help="Cohen's effect size f (required; 0.10 small, 0.25 medium, "
+                         "0.40 large)")
+    pg.add_argument("--power", type=real, default=0.8, metavar="P",
+                    help="chance of detecting the effect, between 0 and 1 (default 0.8)")
+    add_alpha(pg)
+    add_other(plan, progress=False)
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser (exposed for documentation and tests)."""
+    from .. import __version__
+
+    parser = CommandParser(
+        prog="sheetfuncs",
+        usage="sheetfuncs COMMAND [options]",
+        description="Exact one-way analysis of variance: does a factor (a filling head, a lot, "
+                    "an oven zone) change the mean of a measurement? Writes formatted report "
+                    "workbooks, prints tables for pipelines, and plans sample sizes.",
+        epilog="Start with: sheetfuncs demo. Run sheetfuncs COMMAND --help for a command's "
+               "options. Exit codes: 0 done, 1 an input problem (one line on stderr), "
+               "2 a usage error.",
+        add_help=False,
+    )
+    top = parser.add_argument_group("options")
+    add_help(top)
+    top.add_argument("--version", action="version", version=f"sheetfuncs {__version__}",
+                     help="show the version and exit")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", title="commands")
+    sub.required = True
+    for add in (add_report_command, add_demo_command, add_table_command, add_plan_command):
+        add(sub)
+    return parser
+
+
+def parse_args(parser: argparse.ArgumentParser, argv: list[str] | None) -> argparse.Namespace:
+    """Parse, letting ``report`` take input files after its options too
+    (``report a.csv --out-dir r b.csv``); anything else left over is a usage error."""
+    args, extra = parser.parse_known_args(argv)
+    if extra:
+        sub = getattr(args, "parser", parser)
+        if args.command == "report" and not any(x.startswith("-") for x in extra):
+            args.inputs = list(args.inputs) + extra
+        elif args.command == "table" and not any(x.startswith("-") for x in extra):
+            sub.error(f"table reads one input, but more were given: {' '.join(extra)}; run it "
+                      "once per file")
+        else:
+            sub.error(f"unrecognized arguments: {' '.join(extra)}")
+    return args

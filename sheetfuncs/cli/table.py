@@ -1,0 +1,150 @@
+"""``sheetfuncs table``: the one-way table, the checks and the group summary of one input.
+
+The results come from :func:`sheetfuncs.stats.analyse`, the same call the report makes, and are
+printed as aligned text (default), JSON (``--json``, for pipelines) or CSV (``--csv``).
+"""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import json
+import sys
+from pathlib import Path
+from typing import Any
+
+from ..input import LoadedGroups, read_groups
+from .output import aligned, cell_log, csv_safe, ignored_summary, json_ready, records
+from .parser import read_options
+from .progress import Progress
+
+__all__ = ["CAUTION", "run_table"]
+
+CAUTION = (
+    "Statistics support but do not replace engineering judgement: check the assumptions "
+    "listed, follow your organisation's quality procedures and applicable standards, and "
+    "validate this tool under your software-validation procedure before regulated use."
+)
+
+
+def analysis(loaded: LoadedGroups, alpha: float, factor: str) -> tuple[Any, Any, list[list[Any]]]:
+    """The checks, the group summary and the one-way table (rows named by ``factor``)."""
+    from ..stats import analyse
+
+    an = analyse(loaded.groups, alpha=alpha)
+    return an.checks, an.describe, an.oneway.table(factor)
+
+
+def run_table(args: argparse.Namespace) -> int:
+    prog = Progress(args.progress, sys.stderr)
+    prog.start(1, Path(args.input).name)
+    try:
+        loaded = read_groups(args.input, progress=prog, **read_options(args))
+    finally:
+        prog.finish()
+    ck, desc, one = analysis(loaded, args.alpha, args.factor)
+    if args.fmt == "json":
+        table_json(args, loaded, ck, desc, one)
+    elif args.fmt == "csv":
+        table_csv(ck, desc, one)
+    else:
+        table_text(args, loaded, ck, desc, one)
+    return 0
+
+
+def input_record(args: argparse.Namespace, loaded: LoadedGroups) -> dict[str, Any]:
+    """What was read, for the JSON output: the file, sheet and range, the groups and every
+    cell left out."""
+    g = loaded.groups
+    return {
+        "path": str(args.input),
+        "sheet": loaded.source.sheet,
+        "range": loaded.block.ref,
+        "layout": g.layout,
+        "labels": list(g.labels),
+        "n_total": g.n_total,
+        "ignored_cells": cell_log(loaded),
+        "notes": list(g.notes),
+    }
+
+
+def oneway_record(factor: str, ow: Any, one: list[list[Any]]) -> dict[str, Any]:
+    """The one-way results and table, for the JSON output."""
+    return {
+        "factor": factor,
+        "k": ow.k, "n_total": ow.n_total,
+        "df_between": ow.df_between, "df_within": ow.df_within, "df_total": ow.df_total,
+        "ss_between": ow.ss_between, "ss_within": ow.ss_within, "ss_total": ow.ss_total,
+        "ms_between": ow.ms_between, "ms_within": ow.ms_within,
+        "f": ow.f, "p": ow.p, "r_squared": ow.r_squared, "residual_sd": ow.residual_sd,
+        "exact": ow.exact,
+        "table": records(one),
+    }
+
+
+def checks_record(ck: Any) -> dict[str, Any]:
+    """The assumption checks and the reading they lead to, for the JSON output."""
+    return {
+        "alpha": ck.alpha,
+        "read": ck.read,
+        "read_name": ck.read_name,
+        "reasons": list(ck.reasons),
+        "variances_unequal": ck.variances_unequal,
+        "residuals_nonnormal": ck.residuals_nonnormal,
+        "sd_ratio": ck.sd_ratio,
+        "smallest_n": ck.smallest_n,
+        "not_available": [{"test": t, "reason": r} for t, r in ck.not_available],
+        "table": records(ck.table()),
+    }
+
+
+def table_json(args: argparse.Namespace, loaded: LoadedGroups, ck: Any, desc: Any,
+               one: list[list[Any]]) -> None:
+    doc = {
+        "input": input_record(args, loaded),
+        "oneway": oneway_record(args.factor, ck.oneway, one),
+        "checks": checks_record(ck),
+        "groups": records(desc.table()),
+        "caution": CAUTION,
+    }
+    sys.stdout.write(json.dumps(json_ready(doc), allow_nan=False, indent=2) + "\n")
+
+
+def table_csv(ck: Any, desc: Any, one: list[list[Any]]) -> None:
+    w = csv.writer(sys.stdout, lineterminator="\n")
+    for i, table in enumerate((one, ck.table(), desc.table())):
+        if i:
+            w.writerow([])
+        for row in table:
+            w.writerow([csv_safe(v) for v in row])
+
+
+def table_text(args: argparse.Namespace, loaded: LoadedGroups, ck: Any, desc: Any,
+               one: list[list[Any]]) -> None:
+    g = loaded.groups
+    ow = ck.oneway
+    where = f"{Path(args.input).name}, {loaded.block.ref}"
+    if loaded.source.sheet:
+        where += f' of sheet "{loaded.source.sheet}"'
+    path = "decimal-exact" if ow.exact else "floating-point"
+    out = [
+        f"One-way analysis of variance ({where}): {g.n_total} values in {g.k} groups, "
+        f"{path} arithmetic",
+        "",
+        *aligned(one),
+        "",
+        f"Checks (alpha = {ck.alpha:g}); read: {ck.read_name}",
+        *aligned(ck.table()),
+        "",
+        *("  - " + r for r in ck.reasons),
+        "",
+        "Groups",
+        *aligned(desc.table()),
+    ]
+    ignored = ignored_summary(loaded)
+    if ignored:
+        out += ["", ignored]
+    for note in g.notes:
+        out += [f"Note: {note}"]
+    out += ["", CAUTION]
+    sys.stdout.write("\n".join(out) + "\n")
