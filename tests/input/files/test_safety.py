@@ -16,7 +16,7 @@ import openpyxl
 import pytest
 
 from sheetfuncs.input.files import safety, xlsx
-from sheetfuncs.cli.commands import main
+from sheetfuncs.cli import main
 from sheetfuncs.errors import InputError
 from sheetfuncs.input.files.reader import read_cells, read_groups
 from sheetfuncs.input.files.safety import check_archive, openpyxl_uses_defusedxml
