@@ -23,7 +23,7 @@ from tests.support import nist
 from tests.support.mpmath_refs import many_to_one_normal
 from sheetfuncs.errors import InputError
 from sheetfuncs.input.groups import groups_from_range
-from sheetfuncs.distributions.mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
+from sheetfuncs.distributions.scale_mixture import many_to_one_critical, many_to_one_tail, range_critical, range_tail
 from sheetfuncs.stats.comparisons import METHODS, PairwiseResult, dunnett, pairwise
 
 # Invented data: fill weight (g) from four filling heads; head 3 runs heavy.

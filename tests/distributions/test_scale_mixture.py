@@ -15,10 +15,10 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from sheetfuncs.distributions import mvt
+from sheetfuncs.distributions import scale_mixture as mvt
 from sheetfuncs.stats.comparisons import dunnett, pairwise
 from sheetfuncs.errors import InputError
-from sheetfuncs.distributions.mvt import (
+from sheetfuncs.distributions.scale_mixture import (
     many_to_one_critical, many_to_one_tail, many_to_one_tails, range_critical, range_criticals,
     range_tail, range_tails,
 )
