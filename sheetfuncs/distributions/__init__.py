@@ -4,11 +4,12 @@ Other layers import from this package, not its modules.
 """
 
 from .f import check_df, f_critical, f_tail
+from .noncentral_f import ncf_cdf, ncf_sf
 from .many_to_one import many_to_one_critical, many_to_one_tail, many_to_one_tails
 from .studentized_range import range_critical, range_criticals, range_tail, range_tails
 
 __all__ = [
-    "check_df", "f_critical", "f_tail",
+    "check_df", "f_critical", "f_tail", "ncf_cdf", "ncf_sf",
     "many_to_one_critical", "many_to_one_tail", "many_to_one_tails", "range_critical",
     "range_criticals", "range_tail", "range_tails",
 ]

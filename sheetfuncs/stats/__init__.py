@@ -29,7 +29,7 @@ from .linear import ContrastResult, LinearTestResult, contrast, linear_test
 from .moments import ExactMoments, FloatMoments, compute_moments
 from .oneway import OneWayResult, oneway, oneway_from_moments, oneway_from_summary, require_two_groups
 from .outcome import Unavailable, attempt
-from .planning import PowerPlan, detectable_effect, ncf_cdf, ncf_sf, plan, power, sample_size
+from .planning import PowerPlan, detectable_effect, plan, power, sample_size
 from .varcomp import VarianceComponents, variance_components
 from .wording import df_text, sentence
 
@@ -49,7 +49,7 @@ __all__ = [
     "ExactMoments", "FloatMoments", "compute_moments",
     "OneWayResult", "oneway", "oneway_from_moments", "oneway_from_summary", "require_two_groups",
     "Unavailable", "attempt",
-    "PowerPlan", "detectable_effect", "ncf_cdf", "ncf_sf", "plan", "power", "sample_size",
+    "PowerPlan", "detectable_effect", "plan", "power", "sample_size",
     "VarianceComponents", "variance_components",
     "df_text", "sentence",
 ]

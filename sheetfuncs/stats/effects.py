@@ -20,7 +20,8 @@ df (k - 1, N - k); the equal-tailed interval for the noncentrality lambda has li
 each set to 0 when even lambda = 0 cannot reach it. Since lambda = N f^2 for the fixed-effects
 model, the limits map to eta^2 = lambda / (lambda + N) and f = sqrt(lambda / N). The limits are
 found by a bracketing root finder (Brent's method, after expanding the bracket until it holds a
-sign change) on the noncentral F distribution function of :mod:`sheetfuncs.planning`.
+sign change) on the noncentral F distribution function of
+:mod:`sheetfuncs.distributions.noncentral_f`.
 
 The sums of squares are the decimal-exact ones of :func:`sheetfuncs.oneway.oneway` whenever that
 path applies, and the point estimates are formed from them exactly and rounded once.
@@ -36,11 +37,10 @@ from typing import Any, ClassVar
 from scipy import optimize, stats
 
 from ..errors import InputError
-from ..distributions import check_df
+from ..distributions import check_df, ncf_cdf
 from ..input import as_groups
 from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
-from .planning import ncf_cdf
 from ..input import check_conf, shown
 from .interval import Interval
 
@@ -183,7 +183,7 @@ def _overflow_f_limits(
     The noncentrality is then beyond the double range too, where the noncentral F
     ``(chi'^2(d1, lambda) / d1) / (chi^2(d2) / d2)`` has ``chi'^2 / lambda -> 1`` (relative
     spread about ``1/sqrt(lambda)``), so ``P(F' <= F_obs; lambda) = P(chi^2(d2) >= d2 lambda /
-    (d1 F_obs))``: the same limit that :func:`sheetfuncs.planning.ncf_cdf` uses for large
+    (d1 F_obs))``: the same limit that :func:`sheetfuncs.distributions.ncf_cdf` uses for large
     noncentrality (Patnaik 1949). Solving for each target gives ``lambda = d1 F_obs q / d2`` with
     ``q`` the chi-square(d2) point, and since ``d1 F_obs = SSB d2 / SSW``,
     ``f = sqrt(lambda / N) = sqrt(SSB q / (SSW N))``, formed without overflow.
