@@ -44,7 +44,7 @@ from fractions import Fraction
 from typing import Any, ClassVar
 
 import numpy as np
-from scipy import special, stats
+from scipy import stats
 
 from .alternatives import (
     KruskalResult,
@@ -55,6 +55,7 @@ from .alternatives import (
     welch,
 )
 from ..errors import InputError
+from ..distributions import SHAPIRO_WILK_MAX_N, dagostino_pearson, shapiro_wilk
 from ..input import Groups, as_groups
 from .moments import ExactMoments, FloatMoments, compute_moments
 from .oneway import OneWayResult, oneway, oneway_from_moments, require_two_groups
@@ -77,8 +78,6 @@ __all__ = [
     "SMALL_GROUP_N",
 ]
 
-#: Largest number of residuals for the Shapiro–Wilk approximation (Royston 1995).
-SHAPIRO_WILK_MAX_N = 5000
 #: Rule of thumb (common practice): variances look unequal when the largest SD is more than this
 #: many times the smallest.
 SD_RATIO_LIMIT = 2.0
@@ -360,123 +359,6 @@ def bartlett(groups: Any, *, exact: bool | None = None) -> BartlettResult:
 # --------------------------------------------------------------------------------------------
 # normality of residuals
 
-# Royston (1992): polynomials in u = 1/sqrt(n) for the last two Shapiro–Wilk coefficients
-_SW_AN = (0.0, 0.221157, -0.147981, -2.071190, 4.434685, -2.706056)
-_SW_AN1 = (0.0, 0.042981, -0.293762, -1.752461, 5.682633, -3.582633)
-# Royston (1992): normalising transformation of W; n from 4 to 11 (polynomials in n) ...
-_SW_SMALL_GAMMA = (-2.273, 0.459)
-_SW_SMALL_MU = (0.5440, -0.39978, 0.025054, -6.714e-4)
-_SW_SMALL_SIGMA = (1.3822, -0.77857, 0.062767, -0.0020322)
-# ... and from 12 on (polynomials in ln n)
-_SW_LARGE_MU = (-1.5861, -0.31082, -0.083751, 0.0038915)
-_SW_LARGE_SIGMA = (-0.4803, -0.082676, 0.0030302)
-
-
-def _poly(coef: tuple[float, ...], x: float) -> float:
-    total = 0.0
-    for c in reversed(coef):
-        total = total * x + c
-    return total
-
-
-def _sw_coefficients(n: int) -> np.ndarray:
-    """Royston's (1992) approximation to the Shapiro–Wilk coefficients a_1..a_n (n >= 3)."""
-    if n == 3:
-        r = math.sqrt(0.5)
-        return np.array([-r, 0.0, r])
-    half = n // 2
-    i = np.arange(1, half + 1)
-    upper = -special.ndtri((i - 0.375) / (n + 0.25))  # m_n, m_(n-1), ... (positive)
-    mm = 2.0 * float(np.dot(upper, upper))
-    u = 1.0 / math.sqrt(n)
-    root = math.sqrt(mm)
-    a_up = np.empty(half)
-    a_up[0] = upper[0] / root + _poly(_SW_AN, u)
-    if n > 5:
-        a_up[1] = upper[1] / root + _poly(_SW_AN1, u)
-        phi = (mm - 2 * upper[0] ** 2 - 2 * upper[1] ** 2) / (1 - 2 * a_up[0] ** 2 - 2 * a_up[1] ** 2)
-        a_up[2:] = upper[2:] / math.sqrt(phi)
-    else:
-        phi = (mm - 2 * upper[0] ** 2) / (1 - 2 * a_up[0] ** 2)
-        a_up[1:] = upper[1:] / math.sqrt(phi)
-    middle = [0.0] if n % 2 else []
-    return np.concatenate([-a_up, middle, a_up[::-1]])
-
-
-def _shapiro_wilk(x: np.ndarray) -> tuple[float, float]:
-    """``(W, p)`` for 3 <= n <= 5000 values (Royston 1992, 1995)."""
-    n = x.size
-    xs = np.sort(x - float(np.median(x)))
-    a = _sw_coefficients(n)
-    d = xs - float(xs.mean())
-    ssq = float(np.dot(d, d))
-    w = min(float(np.dot(a, d)) ** 2 / ssq, 1.0)
-    if n == 3:
-        # exact distribution for n = 3 (Shapiro & Wilk 1965)
-        p = 6.0 / math.pi * (math.asin(math.sqrt(w)) - math.asin(math.sqrt(0.75)))
-        return w, min(max(p, 0.0), 1.0)
-    if w >= 1.0:
-        return 1.0, 1.0
-    lw = math.log1p(-w)
-    if n <= 11:
-        gamma = _poly(_SW_SMALL_GAMMA, n)
-        if gamma - lw <= 0.0:
-            return w, 0.0
-        y = -math.log(gamma - lw)
-        mu = _poly(_SW_SMALL_MU, n)
-        sigma = math.exp(_poly(_SW_SMALL_SIGMA, n))
-    else:
-        ln = math.log(n)
-        y = lw
-        mu = _poly(_SW_LARGE_MU, ln)
-        sigma = math.exp(_poly(_SW_LARGE_SIGMA, ln))
-    p = float(stats.norm.sf((y - mu) / sigma))
-    return w, p
-
-
-def _skew_z(b1: float, n: int) -> float:
-    """D'Agostino's (1970) normal score for the sample skewness ``b1 = m3 / m2^1.5``."""
-    y = b1 * math.sqrt((n + 1.0) * (n + 3.0) / (6.0 * (n - 2.0)))
-    beta2 = (
-        3.0 * (n * n + 27.0 * n - 70.0) * (n + 1.0) * (n + 3.0)
-        / ((n - 2.0) * (n + 5.0) * (n + 7.0) * (n + 9.0))
-    )
-    w2 = -1.0 + math.sqrt(2.0 * (beta2 - 1.0))
-    delta = 1.0 / math.sqrt(0.5 * math.log(w2))
-    alpha = math.sqrt(2.0 / (w2 - 1.0))
-    return delta * math.asinh(y / alpha)
-
-
-def _kurt_z(b2: float, n: int) -> float:
-    """Anscombe & Glynn's (1983) normal score for the sample kurtosis ``b2 = m4 / m2^2``."""
-    mean = 3.0 * (n - 1.0) / (n + 1.0)
-    var = 24.0 * n * (n - 2.0) * (n - 3.0) / ((n + 1.0) ** 2 * (n + 3.0) * (n + 5.0))
-    x = (b2 - mean) / math.sqrt(var)
-    sqrt_beta1 = (
-        6.0 * (n * n - 5.0 * n + 2.0) / ((n + 7.0) * (n + 9.0))
-        * math.sqrt(6.0 * (n + 3.0) * (n + 5.0) / (n * (n - 2.0) * (n - 3.0)))
-    )
-    a = 6.0 + 8.0 / sqrt_beta1 * (2.0 / sqrt_beta1 + math.sqrt(1.0 + 4.0 / sqrt_beta1**2))
-    term1 = 1.0 - 2.0 / (9.0 * a)
-    denom = 1.0 + x * math.sqrt(2.0 / (a - 4.0))
-    if denom == 0.0:
-        return math.copysign(math.inf, -1.0)
-    term2 = math.copysign(abs((1.0 - 2.0 / a) / denom) ** (1.0 / 3.0), denom)
-    return (term1 - term2) / math.sqrt(2.0 / (9.0 * a))
-
-
-def _dagostino_pearson(x: np.ndarray) -> tuple[float, float]:
-    """``(K2, p)``: the omnibus statistic ``Z_skew^2 + Z_kurt^2`` and its chi-square(2) tail."""
-    n = x.size
-    d = x - float(x.mean())
-    d2 = d * d
-    m2 = float(d2.mean())
-    m3 = float((d2 * d).mean())
-    m4 = float((d2 * d2).mean())
-    k2 = _skew_z(m3 / m2**1.5, n) ** 2 + _kurt_z(m4 / (m2 * m2), n) ** 2
-    return k2, float(stats.chi2.sf(k2, 2))
-
-
 @dataclass(frozen=True)
 class NormalityResult:
     """A test that the one-way residuals come from a normal distribution.
@@ -533,10 +415,10 @@ def shapiro_residuals(groups: Any, *, exact: bool | None = None) -> NormalityRes
         )
     res = res / float(np.max(np.abs(res)))  # both statistics are free of the unit
     if n <= SHAPIRO_WILK_MAX_N:
-        stat, p = _shapiro_wilk(res)
+        stat, p = shapiro_wilk(res)
         method = SHAPIRO_WILK
     else:
-        stat, p = _dagostino_pearson(res)
+        stat, p = dagostino_pearson(res)
         method = DAGOSTINO_PEARSON
     return NormalityResult(statistic=stat, p=p, n=n, method=method, left_out=left_out)
 
