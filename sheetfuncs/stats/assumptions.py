@@ -46,14 +46,8 @@ from typing import Any, ClassVar
 import numpy as np
 from scipy import stats
 
-from .alternatives import (
-    KruskalResult,
-    WelchResult,
-    kruskal,
-    prepare_with_variances,
-    unit_free_moments,
-    welch,
-)
+from .alternatives import KruskalResult, WelchResult, kruskal, welch
+from .group_variances import prepare_with_variances, unit_free_moments
 from ..errors import InputError
 from ..distributions import SHAPIRO_WILK_MAX_N, dagostino_pearson, shapiro_wilk
 from ..input import Groups, as_groups
