@@ -13,7 +13,7 @@ from .alternatives import (
     BrownForsytheResult, KruskalResult, WelchResult, brown_forsythe, kruskal, welch,
 )
 from .analysis import Analysis, analyse
-from .assumptions import (
+from .checks import (
     SD_RATIO_LIMIT, SHAPIRO_WILK_MAX_N, SMALL_GROUP_N, BartlettResult, ChecksResult,
     LeveneResult, NormalityResult, bartlett, checks, levene, residuals, shapiro_residuals,
 )

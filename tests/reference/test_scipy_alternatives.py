@@ -13,7 +13,7 @@ import pytest
 from scipy import stats
 
 from sheetfuncs.stats.alternatives import kruskal, welch
-from sheetfuncs.stats.assumptions import bartlett, levene, residuals, shapiro_residuals
+from sheetfuncs.stats.checks import bartlett, levene, residuals, shapiro_residuals
 
 SEEDS = range(12)
 

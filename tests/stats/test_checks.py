@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import importlib
 import math
 from fractions import Fraction
 from statistics import median, stdev
@@ -15,7 +16,7 @@ from scipy import stats
 
 from tests.support import nist
 from sheetfuncs import InputError, groups_from_range
-from sheetfuncs.stats.assumptions import (
+from sheetfuncs.stats.checks import (
     CAUTION,
     BartlettResult,
     ChecksResult,
@@ -371,7 +372,8 @@ def test_checks_answer_when_variances_differ_by_more_than_the_double_precision()
 def test_checks_record_an_unexpected_numerical_failure(monkeypatch):
     # a secondary test that fails on a numerical problem it did not foresee is recorded as not
     # available, with the reason, and the other checks still answer
-    import sheetfuncs.stats.assumptions as mod
+    # the module (its name is also the name of the function the package exports)
+    mod = importlib.import_module("sheetfuncs.stats.checks")
 
     def failing(*args, **kwargs):
         raise ValueError("math domain error")
