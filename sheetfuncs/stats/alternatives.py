@@ -160,7 +160,7 @@ class BrownForsytheResult(_HeteroscedasticF):
 
 def brown_forsythe(groups: Any, *, exact: bool | None = None) -> BrownForsytheResult:
     """Brown–Forsythe F* for equal means (not the Brown–Forsythe test for variances, which is
-    :func:`sheetfuncs.assumptions.levene` with ``center="median"``).
+    :func:`sheetfuncs.stats.variances.levene` with ``center="median"``).
 
     Every group needs two or more values; single groups may have zero variance, but not all.
     """
