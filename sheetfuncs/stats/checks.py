@@ -11,6 +11,7 @@ The reading rule of :func:`checks` is documented there and in ``docs/checks.md``
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any, ClassVar
 
@@ -199,10 +200,43 @@ def checks(
     require_two_groups(g)
     mom = moments if moments is not None else compute_moments(g, exact)
     ow = oneway if oneway is not None else oneway_from_moments(g, mom)
+    sec = _secondary_tests(g, exact)
+    ratio = _sd_ratio(g, mom)
+    smallest = min(g.counts)
+    spread, unequal = _spread_reasons(sec, ratio, a)
+    normal, nonnormal = _normality_reasons(sec, a)
+    read, why = _reading(sec, unequal, nonnormal, smallest, ow)
+    return ChecksResult(
+        read=read, reasons=tuple(spread + normal + [why]), variances_unequal=unequal,
+        residuals_nonnormal=nonnormal, sd_ratio=ratio, smallest_n=smallest, alpha=a,
+        levene=sec.levene, bartlett=sec.bartlett, normality=sec.normality, welch=sec.welch,
+        kruskal=sec.kruskal, oneway=ow, not_available=sec.missing,
+    )
+
+
+@dataclass(frozen=True)
+class _Secondary:
+    """The secondary tests of :func:`checks`: each result, or ``None`` when the test could not
+    run, with ``(test, reason)`` in ``missing``."""
+
+    levene: LeveneResult | None
+    bartlett: BartlettResult | None
+    normality: NormalityResult | None
+    welch: WelchResult | None
+    kruskal: KruskalResult | None
+    missing: tuple[tuple[str, str], ...]
+
+    def reason(self, test: str) -> str:
+        """Why ``test`` could not run."""
+        return dict(self.missing)[test]
+
+
+def _secondary_tests(g: Groups, exact: bool | None) -> _Secondary:
+    """Run the secondary tests, each on its own: an unforeseen numerical failure of one must
+    not hide the others."""
     missing: list[tuple[str, str]] = []
 
-    def secondary(name: str, call):
-        # an unforeseen numerical failure of one secondary test must not hide the others
+    def secondary(name: str, call: Callable[[], Any]) -> Any:
         got = attempt(name, call, numerical=True)
         if isinstance(got, Unavailable):
             missing.append((name, got.reason))
@@ -214,17 +248,20 @@ def checks(
     norm = secondary("Normal residuals", lambda: shapiro_residuals(g, exact=exact))
     wel = secondary("Welch", lambda: welch(g, exact=exact))
     kw = secondary("Kruskal-Wallis", lambda: kruskal(g))
+    return _Secondary(lev, bart, norm, wel, kw, tuple(missing))
 
-    ratio = _sd_ratio(g, mom)
-    smallest = min(g.counts)
+
+def _spread_reasons(sec: _Secondary, ratio: float, a: float) -> tuple[list[str], bool]:
+    """The sentences on the spreads (Levene's test, the SD ratio), and whether the group
+    variances look unequal."""
+    lev = sec.levene
     reasons: list[str] = []
-
     lev_flag = lev is not None and lev.p < a
     ratio_flag = not math.isnan(ratio) and ratio > SD_RATIO_LIMIT
     if lev is None:
         reasons.append(
             "Levene's test (median-centred) could not run: "
-            + sentence(dict(missing)["Levene (median)"], capital=False)
+            + sentence(sec.reason("Levene (median)"), capital=False)
         )
     elif lev_flag:
         reasons.append(
@@ -252,13 +289,19 @@ def checks(
             f"The largest group SD is {ratio:.3g} times the smallest, within the rule of thumb "
             f"of {SD_RATIO_LIMIT:g}."
         )
-    unequal = lev_flag or ratio_flag
+    return reasons, lev_flag or ratio_flag
 
+
+def _normality_reasons(sec: _Secondary, a: float) -> tuple[list[str], bool]:
+    """The sentences on the residuals' normality (and on Bartlett's test, shown for reference
+    only), and whether the residuals look non-normal."""
+    norm, bart = sec.normality, sec.bartlett
+    reasons: list[str] = []
     nonnormal = norm is not None and norm.p < a
     if norm is None:
         reasons.append(
             "The normality of the residuals could not be tested: "
-            + sentence(dict(missing)["Normal residuals"], capital=False)
+            + sentence(sec.reason("Normal residuals"), capital=False)
         )
     else:
         reasons.append(
@@ -270,48 +313,41 @@ def checks(
             f"Bartlett's test ({_p_text(bart.p)}) is shown for reference only: it is sensitive "
             "to non-normal data, so the reading uses the median-centred Levene test."
         )
+    return reasons, nonnormal
 
+
+def _reading(
+    sec: _Secondary, unequal: bool, nonnormal: bool, smallest: int, ow: OneWayResult
+) -> tuple[str, str]:
+    """Which test to read (``"oneway"``, ``"welch"`` or ``"kruskal"``), and the sentence that
+    says why."""
+    wel, kw = sec.welch, sec.kruskal
     if unequal and wel is not None:
-        read = "welch"
-        reasons.append(
+        return "welch", (
             f"Read Welch's test ({_p_text(wel.p)}), which does not assume equal variances."
         )
-    elif unequal:
-        read = "oneway"
-        reasons.append(
+    if unequal:
+        return "oneway", (
             "The variances look unequal, but Welch's test could not run: "
-            + sentence(dict(missing)["Welch"], capital=False)
+            + sentence(sec.reason("Welch"), capital=False)
             + " The one-way F is shown instead, and with unequal variances its p-value may "
             "mislead: look at the data of that group before relying on any result."
         )
-    elif nonnormal and smallest < SMALL_GROUP_N and kw is not None:
-        read = "kruskal"
-        reasons.append(
+    if nonnormal and smallest < SMALL_GROUP_N and kw is not None:
+        return "kruskal", (
             f"The residuals look non-normal and the smallest group has {smallest} values "
             f"(fewer than {SMALL_GROUP_N}): read the Kruskal-Wallis test ({_p_text(kw.p)}) "
             f"alongside the one-way F ({_p_text(ow.p)})."
         )
-    elif nonnormal:
-        read = "oneway"
-        reasons.append(
+    if nonnormal:
+        return "oneway", (
             f"The residuals look non-normal, but every group has {SMALL_GROUP_N} or more values, "
             f"where the one-way F is robust to moderate non-normality (common practice): read the "
             f"one-way F ({_p_text(ow.p)})."
         )
-    else:
-        read = "oneway"
-        if lev is None or norm is None:
-            reasons.append(
-                f"No check that could run suggests a problem: read the one-way F "
-                f"({_p_text(ow.p)}), keeping in mind the checks that could not run."
-            )
-        else:
-            reasons.append(
-                f"No check suggests a problem: read the one-way F ({_p_text(ow.p)})."
-            )
-    return ChecksResult(
-        read=read, reasons=tuple(reasons), variances_unequal=unequal,
-        residuals_nonnormal=nonnormal, sd_ratio=ratio, smallest_n=smallest, alpha=a,
-        levene=lev, bartlett=bart, normality=norm, welch=wel, kruskal=kw, oneway=ow,
-        not_available=tuple(missing),
-    )
+    if sec.levene is None or sec.normality is None:
+        return "oneway", (
+            f"No check that could run suggests a problem: read the one-way F "
+            f"({_p_text(ow.p)}), keeping in mind the checks that could not run."
+        )
+    return "oneway", f"No check suggests a problem: read the one-way F ({_p_text(ow.p)})."
