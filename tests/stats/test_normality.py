@@ -15,7 +15,9 @@ from hypothesis import strategies as st
 from scipy import stats
 
 from tests.support import nist
-from tests.support.assumption_cases import HEADS_WELL_BEHAVED
+from tests.support.assumption_cases import (
+    HEADS_WELL_BEHAVED, INTEGER_GROUPS, SMALL_GROUPS, assert_shift_invariant,
+)
 from sheetfuncs import InputError
 from sheetfuncs.stats.normality import NormalityResult, shapiro_residuals
 
@@ -59,27 +61,16 @@ def test_table_is_ready_to_spill():
 @pytest.mark.parametrize("scale", [1e-200, 1e200])
 def test_extreme_magnitudes(scale):
     # common practice: the test does not depend on the unit of measurement
-    base = [[1.0, 2.0, 4.0, 3.5], [1.0, 3.0, 2.5], [6.0, 4.0, 5.0, 5.5]]
-    moved = [[v * scale for v in g] for g in base]
-    assert shapiro_residuals(moved).statistic == pytest.approx(shapiro_residuals(base).statistic, rel=1e-12)
+    moved = [[v * scale for v in g] for g in SMALL_GROUPS]
+    assert shapiro_residuals(moved).statistic == pytest.approx(shapiro_residuals(SMALL_GROUPS).statistic, rel=1e-12)
 
 
 # --------------------------------------------------------------------------------------------
 # properties (hypothesis, derandomised in conftest.py)
 
-_groups = st.lists(st.lists(st.integers(-60, 60), min_size=2, max_size=9), min_size=2, max_size=5)
-
 
 @settings(max_examples=50)
-@given(_groups, st.integers(-10**6, 10**6))
+@given(INTEGER_GROUPS, st.integers(-10**6, 10**6))
 def test_shift_invariance(gs, shift):
     # common practice: adding a constant to every value changes nothing in the test
-    moved = [[v + shift for v in g] for g in gs]
-    try:
-        a = shapiro_residuals(gs)
-    except InputError:
-        with pytest.raises(InputError):
-            shapiro_residuals(moved)
-        return
-    b = shapiro_residuals(moved)
-    assert b.statistic == pytest.approx(a.statistic, rel=1e-9, abs=1e-12)
+    assert_shift_invariant(shapiro_residuals, gs, shift)

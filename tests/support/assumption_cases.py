@@ -1,7 +1,15 @@
-"""Invented data sets (numbers made up for the tests) shared by the tests of the assumption
-checks: equal variances, normal residuals and the checks' reading rule."""
+"""Invented data sets (numbers made up for the tests) and checks shared by the tests of the
+assumption checks: equal variances, normal residuals and the checks' reading rule."""
 
 from __future__ import annotations
+
+from collections.abc import Callable
+from typing import Any
+
+import pytest
+from hypothesis import strategies as st
+
+from sheetfuncs import InputError
 
 #: Invented: fill weights (g) of four filling heads, ten fills each; head 4's SD is four times
 #: the others' (0.4 g against 1.6 g).
@@ -35,3 +43,23 @@ _SKEW15 = [0, 0.1, 0.1, 0.2, 0.2, 0.2, 0.3, 0.3, 0.3, 0.4, 0.4, 0.5, 0.5, 0.6, 3
 ZONES_SKEWED_15 = {
     f"Zone {j + 1}": [round(m + v, 2) for v in _SKEW15] for j, m in enumerate([61.0, 61.4, 62.9, 61.2])
 }
+
+#: Invented: three small groups for the checks that the tests do not depend on the unit.
+SMALL_GROUPS = [[1.0, 2.0, 4.0, 3.5], [1.0, 3.0, 2.5], [6.0, 4.0, 5.0, 5.5]]
+
+#: Groups of whole numbers for the property tests (hypothesis, derandomised in conftest.py).
+INTEGER_GROUPS = st.lists(st.lists(st.integers(-60, 60), min_size=2, max_size=9), min_size=2, max_size=5)
+
+
+def assert_shift_invariant(fn: Callable[[Any], Any], gs: list[list[int]], shift: int) -> None:
+    """Common practice: adding a constant to every value changes nothing in a test of spread or
+    shape; ``fn`` gives the same statistic on the moved groups, or refuses both."""
+    moved = [[v + shift for v in g] for g in gs]
+    try:
+        a = fn(gs)
+    except InputError:
+        with pytest.raises(InputError):
+            fn(moved)
+        return
+    b = fn(moved)
+    assert b.statistic == pytest.approx(a.statistic, rel=1e-9, abs=1e-12)
