@@ -427,7 +427,10 @@ def _row(g: Groups, i: int, j: int, d: float, se: float, mult: float, stat: floa
     )
 
 
-def _result(g, mom, meth, a, rows, ms_within, df_within, row_df, mults, notes, control=None) -> PairwiseResult:
+def _result(g: Groups, mom: ExactMoments | FloatMoments, meth: str, a: float, rows: list[PairRow],
+            ms_within: float | None, df_within: float | None, row_df: list[float],
+            mults: list[float], notes: list[str], control: str | None = None) -> PairwiseResult:
+    """The result of a family of comparisons, with the groups' labels, sizes and means."""
     return PairwiseResult(
         method=meth, alpha=a, rows=tuple(rows), interval=_interval_label(meth, a),
         statistic_name=_STATISTIC[meth], method_name=METHOD_NAMES[meth], labels=g.labels,

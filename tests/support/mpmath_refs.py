@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from collections.abc import Iterable
+
 import mpmath as mp
 
 __all__ = ["many_to_one_normal", "bartlett_statistic"]
@@ -23,7 +25,7 @@ def many_to_one_normal(h: float, lam: list[float]) -> float:
         return float(mp.quad(f, [-mp.inf, -h, -h / 2, 0, h / 2, h, mp.inf]))
 
 
-def bartlett_statistic(groups, dps: int = 50) -> float:
+def bartlett_statistic(groups: Iterable[Iterable[float]], dps: int = 50) -> float:
     """Bartlett's (1937) textbook formula evaluated with mpmath on the exact decimal values."""
     with mp.workdps(dps):
         groups = [[mp.mpf(repr(float(x))) for x in g] for g in groups]
