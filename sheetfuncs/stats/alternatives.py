@@ -27,7 +27,7 @@ chi-square with k - 1 df. The rank-based effect size (Tomczak & Tomczak 2014, *T
 Sciences* 21, 19–25) is ``epsilon^2 = H (N + 1) / (N^2 - 1)``.
 
 Means and variances come from the decimal-exact moments when that path applies
-(:mod:`sheetfuncs.moments`): Brown–Forsythe's F* and its df and Kruskal–Wallis' H are computed as
+(:mod:`sheetfuncs.stats.moments`): Brown–Forsythe's F* and its df and Kruskal–Wallis' H are computed as
 exact rationals and rounded once; Welch's statistic is formed in floating point from means
 centred exactly on a common value and variances rounded once, so data with many constant leading
 digits lose nothing.

@@ -57,7 +57,7 @@ class ChecksResult:
     * ``smallest_n`` — the size of the smallest group; ``alpha``;
     * ``levene`` (median-centred), ``bartlett``, ``normality``, ``welch``, ``kruskal`` — each
       test's result, or ``None`` when the test could not run (see ``not_available``);
-    * ``oneway`` — the :class:`~sheetfuncs.oneway.OneWayResult`;
+    * ``oneway`` — the :class:`~sheetfuncs.stats.oneway.OneWayResult`;
     * ``not_available`` — ``(test, reason)`` pairs for the tests that could not run;
     * ``caution`` — the caution that pre-testing assumptions is itself a judgement.
 

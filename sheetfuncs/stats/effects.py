@@ -23,7 +23,7 @@ found by a bracketing root finder (Brent's method, after expanding the bracket u
 sign change) on the noncentral F distribution function of
 :mod:`sheetfuncs.distributions.noncentral_f`.
 
-The sums of squares are the decimal-exact ones of :func:`sheetfuncs.oneway.oneway` whenever that
+The sums of squares are the decimal-exact ones of :func:`sheetfuncs.stats.oneway.oneway` whenever that
 path applies, and the point estimates are formed from them exactly and rounded once.
 """
 
