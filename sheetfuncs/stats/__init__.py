@@ -1,22 +1,21 @@
 """The pure core: functions on cleaned groups that return frozen result objects.
 
-One module per topic: ``moments`` (exact and floating-point sums of squares), ``oneway``,
-``linear`` (general linear test, contrasts), ``describe``, ``alternatives`` (Welch,
-Brown–Forsythe, Kruskal–Wallis), ``assumptions`` (variances, normality, the checks' reading
-rule), ``comparisons`` and ``lettering``, ``effects``, ``planning``, ``varcomp``; ``interval``
-and ``outcome`` are the shared result pieces; ``analysis`` computes every result once for the
-fronts that show several, and ``centring`` gives the values a spreadsheet can recompute from.
-No I/O, no global state. Other layers import from this package, not its modules.
+One module per topic: ``moments`` (exact and floating-point sums of squares) and
+``group_variances`` (the per-group variances some tests need), ``oneway``, ``linear`` (general
+linear test, contrasts), ``describe``, ``alternatives`` (Welch, Brown–Forsythe,
+Kruskal–Wallis), ``residuals``, ``variances`` (Levene, Bartlett), ``normality`` (of the
+residuals), ``checks`` (all checks and their reading rule), ``comparisons`` and ``lettering``,
+``effects``, ``planning``, ``varcomp``; ``interval`` and ``outcome`` are the shared result
+pieces; ``analysis`` computes every result once for the fronts that show several, and
+``centring`` gives the values a spreadsheet can recompute from. No I/O, no global state. Other
+layers import from this package, not its modules.
 """
 
 from .alternatives import (
     BrownForsytheResult, KruskalResult, WelchResult, brown_forsythe, kruskal, welch,
 )
 from .analysis import Analysis, analyse
-from .assumptions import (
-    SD_RATIO_LIMIT, SHAPIRO_WILK_MAX_N, SMALL_GROUP_N, BartlettResult, ChecksResult,
-    LeveneResult, NormalityResult, bartlett, checks, levene, residuals, shapiro_residuals,
-)
+from .checks import SD_RATIO_LIMIT, SMALL_GROUP_N, ChecksResult, checks
 from .centring import centred_values, centring_constant
 from .comparisons import (
     METHOD_NAMES, METHODS, PairRow, PairwiseResult, dunnett, pairwise, parse_method,
@@ -27,9 +26,12 @@ from .interval import Interval
 from .lettering import LettersResult, letter_sets, letters
 from .linear import ContrastResult, LinearTestResult, contrast, linear_test
 from .moments import ExactMoments, FloatMoments, compute_moments
+from .normality import SHAPIRO_WILK_MAX_N, NormalityResult, shapiro_residuals
 from .oneway import OneWayResult, oneway, oneway_from_moments, oneway_from_summary, require_two_groups
 from .outcome import Unavailable, attempt
-from .planning import PowerPlan, detectable_effect, ncf_cdf, ncf_sf, plan, power, sample_size
+from .planning import PowerPlan, detectable_effect, plan, power, sample_size
+from .residuals import residuals
+from .variances import BartlettResult, LeveneResult, bartlett, levene
 from .varcomp import VarianceComponents, variance_components
 from .wording import df_text, sentence
 
@@ -49,7 +51,7 @@ __all__ = [
     "ExactMoments", "FloatMoments", "compute_moments",
     "OneWayResult", "oneway", "oneway_from_moments", "oneway_from_summary", "require_two_groups",
     "Unavailable", "attempt",
-    "PowerPlan", "detectable_effect", "ncf_cdf", "ncf_sf", "plan", "power", "sample_size",
+    "PowerPlan", "detectable_effect", "plan", "power", "sample_size",
     "VarianceComponents", "variance_components",
     "df_text", "sentence",
 ]

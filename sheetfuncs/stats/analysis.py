@@ -20,7 +20,7 @@ from ..errors import InputError
 from ..input import Groups, as_groups, format_label
 from ..input import check_alpha
 from .alternatives import KruskalResult, WelchResult
-from .assumptions import ChecksResult, checks
+from .checks import ChecksResult, checks
 from .comparisons import METHOD_NAMES, PairwiseResult, dunnett, pairwise, parse_method
 from .describe import DescribeResult, describe
 from .effects import EffectSizes, effect_sizes

@@ -30,7 +30,7 @@ Methods and their published sources:
     Dunnett (1955, *JASA* 50, 1096-1121): each treatment against one control, ``t = d/SE`` and
     the two-sided maximum of the ``m`` statistics, a multivariate t with correlations
     ``l_i l_j``, ``l_i = sqrt(n_i / (n_i + n_0))``, integrated by our own deterministic
-    quadrature (:mod:`sheetfuncs.mvt`).
+    quadrature (:mod:`sheetfuncs.distributions.many_to_one`).
 
 Adjusted p-values never exceed 1 and ``differs`` is ``p < alpha``. When the groups have no
 within-group variation at all (``MSE = 0``) a pair with different means has an infinite
@@ -330,33 +330,46 @@ def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> Pairwis
     meth = parse_method(method)
     g, a, mom = _prepare(groups, alpha)
     k = g.k
-    counts = g.counts
     pairs = [(i, j) for i in range(k) for j in range(i + 1, k)]
-    m = len(pairs)
     diffs = [_difference(mom, i, j) for i, j in pairs]
-    notes: list[str] = []
-
     if meth == "games-howell":
-        var = _check_variances(g, mom, "Games–Howell")
-        ses, row_df, stat = [], [], []
-        for (i, j), d in zip(pairs, diffs):
-            va, vb = var[i] / counts[i], var[j] / counts[j]
-            ses.append(math.sqrt(va + vb))
-            row_df.append(
-                (va + vb) ** 2 / (va * va / (counts[i] - 1) + vb * vb / (counts[j] - 1))
-            )
-            stat.append(abs(_ratio(d, ses[-1])) * _SQRT2)
-        # one call each: the tails of all pairs, and one critical value per distinct Welch df
-        ps = range_tails(stat, k, row_df).tolist()
-        distinct = sorted(set(row_df))
-        crit = dict(zip(distinct, (range_criticals(a, k, distinct) / _SQRT2).tolist()))
-        mults = [crit[v] for v in row_df]
-        rows = [
-            _row(g, i, j, d, se, mult, q, p, a)
-            for (i, j), d, se, mult, q, p in zip(pairs, diffs, ses, mults, stat, ps)
-        ]
-        return _result(g, mom, meth, a, rows, None, None, row_df, mults, notes)
+        return _games_howell(g, mom, a, pairs, diffs)
+    return _pooled_pairs(g, mom, meth, a, pairs, diffs)
 
+
+def _games_howell(g: Groups, mom: ExactMoments | FloatMoments, a: float,
+                  pairs: list[tuple[int, int]], diffs: list[float]) -> PairwiseResult:
+    """Every pair by Games & Howell's method: each pair's own variances and Welch df."""
+    k = g.k
+    counts = g.counts
+    var = _check_variances(g, mom, "Games–Howell")
+    ses, row_df, stat = [], [], []
+    for (i, j), d in zip(pairs, diffs):
+        va, vb = var[i] / counts[i], var[j] / counts[j]
+        ses.append(math.sqrt(va + vb))
+        row_df.append(
+            (va + vb) ** 2 / (va * va / (counts[i] - 1) + vb * vb / (counts[j] - 1))
+        )
+        stat.append(abs(_ratio(d, ses[-1])) * _SQRT2)
+    # one call each: the tails of all pairs, and one critical value per distinct Welch df
+    ps = range_tails(stat, k, row_df).tolist()
+    distinct = sorted(set(row_df))
+    crit = dict(zip(distinct, (range_criticals(a, k, distinct) / _SQRT2).tolist()))
+    mults = [crit[v] for v in row_df]
+    rows = [
+        _row(g, i, j, d, se, mult, q, p, a)
+        for (i, j), d, se, mult, q, p in zip(pairs, diffs, ses, mults, stat, ps)
+    ]
+    return _result(g, mom, "games-howell", a, rows, None, None, row_df, mults, [])
+
+
+def _pooled_pairs(g: Groups, mom: ExactMoments | FloatMoments, meth: str, a: float,
+                  pairs: list[tuple[int, int]], diffs: list[float]) -> PairwiseResult:
+    """Every pair by a method that pools the groups' variances (all but Games–Howell)."""
+    k = g.k
+    counts = g.counts
+    m = len(pairs)
+    notes: list[str] = []
     msw, df, msw_x = _pooled(g, mom)
     if msw == 0.0:
         notes.append(_NO_VARIATION)
@@ -379,23 +392,29 @@ def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> Pairwis
         mult = math.sqrt((k - 1) * f_critical(a, k - 1, df))
     else:
         stat = ts
-        raw = [_t_two_sided(t, df) for t in ts]
-        if meth == "bonferroni":
-            ps = [min(1.0, m * p) for p in raw]
-        elif meth == "holm":
-            ps = _holm(raw)
-        else:  # sidak
-            ps = [min(1.0, -math.expm1(m * math.log1p(-p))) if p < 1.0 else 1.0 for p in raw]
-        if meth == "sidak":
-            per = -math.expm1(math.log1p(-a) / m)
-        else:
-            per = a / m
-        mult = float(stats.t.isf(per / 2.0, df))
+        ps, mult = _adjusted_t(meth, ts, df, a, m)
     rows = [
         _row(g, i, j, d, se, mult, s, p, a)
         for (i, j), d, se, s, p in zip(pairs, diffs, ses, stat, ps)
     ]
     return _result(g, mom, meth, a, rows, msw, float(df), [float(df)] * m, [mult] * m, notes)
+
+
+def _adjusted_t(meth: str, ts: list[float], df: int, a: float, m: int) -> tuple[list[float], float]:
+    """Two-sided t tests adjusted for ``m`` pairs by Bonferroni, Holm or Šidák: the adjusted
+    p-values and the interval multiplier."""
+    raw = [_t_two_sided(t, df) for t in ts]
+    if meth == "bonferroni":
+        ps = [min(1.0, m * p) for p in raw]
+    elif meth == "holm":
+        ps = _holm(raw)
+    else:  # sidak
+        ps = [min(1.0, -math.expm1(m * math.log1p(-p))) if p < 1.0 else 1.0 for p in raw]
+    if meth == "sidak":
+        per = -math.expm1(math.log1p(-a) / m)
+    else:
+        per = a / m
+    return ps, float(stats.t.isf(per / 2.0, df))
 
 
 def _row(g: Groups, i: int, j: int, d: float, se: float, mult: float, stat: float, p: float,
@@ -408,7 +427,10 @@ def _row(g: Groups, i: int, j: int, d: float, se: float, mult: float, stat: floa
     )
 
 
-def _result(g, mom, meth, a, rows, ms_within, df_within, row_df, mults, notes, control=None) -> PairwiseResult:
+def _result(g: Groups, mom: ExactMoments | FloatMoments, meth: str, a: float, rows: list[PairRow],
+            ms_within: float | None, df_within: float | None, row_df: list[float],
+            mults: list[float], notes: list[str], control: str | None = None) -> PairwiseResult:
+    """The result of a family of comparisons, with the groups' labels, sizes and means."""
     return PairwiseResult(
         method=meth, alpha=a, rows=tuple(rows), interval=_interval_label(meth, a),
         statistic_name=_STATISTIC[meth], method_name=METHOD_NAMES[meth], labels=g.labels,
@@ -430,7 +452,8 @@ def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
     ``group_a`` is the treatment, ``group_b`` the control, ``difference`` = treatment mean minus
     control mean. p-values and the simultaneous critical value come from the many-to-one
     multivariate t distribution, computed by deterministic quadrature of Dunnett's
-    one-dimensional reduction (see :mod:`sheetfuncs.mvt`), not by random sampling.
+    one-dimensional reduction (see :mod:`sheetfuncs.distributions.many_to_one`), not by
+    random sampling.
     """
     g = as_groups(groups)
     require_two_groups(g)

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import decimal
 import math
+from collections.abc import Iterator
 from fractions import Fraction
 from dataclasses import dataclass
 from typing import Any, ClassVar
@@ -62,7 +63,7 @@ class DescribeResult:
                 return s
         raise KeyError(label)
 
-    def __iter__(self):
+    def __iter__(self) -> Iterator[GroupSummary]:
         return iter(self.groups)
 
     def __len__(self) -> int:

@@ -20,9 +20,10 @@ df (k - 1, N - k); the equal-tailed interval for the noncentrality lambda has li
 each set to 0 when even lambda = 0 cannot reach it. Since lambda = N f^2 for the fixed-effects
 model, the limits map to eta^2 = lambda / (lambda + N) and f = sqrt(lambda / N). The limits are
 found by a bracketing root finder (Brent's method, after expanding the bracket until it holds a
-sign change) on the noncentral F distribution function of :mod:`sheetfuncs.planning`.
+sign change) on the noncentral F distribution function of
+:mod:`sheetfuncs.distributions.noncentral_f`.
 
-The sums of squares are the decimal-exact ones of :func:`sheetfuncs.oneway.oneway` whenever that
+The sums of squares are the decimal-exact ones of :func:`sheetfuncs.stats.oneway.oneway` whenever that
 path applies, and the point estimates are formed from them exactly and rounded once.
 """
 
@@ -36,11 +37,10 @@ from typing import Any, ClassVar
 from scipy import optimize, stats
 
 from ..errors import InputError
-from ..distributions import check_df
+from ..distributions import check_df, ncf_cdf
 from ..input import as_groups
 from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
-from .planning import ncf_cdf
 from ..input import check_conf, shown
 from .interval import Interval
 
@@ -183,7 +183,7 @@ def _overflow_f_limits(
     The noncentrality is then beyond the double range too, where the noncentral F
     ``(chi'^2(d1, lambda) / d1) / (chi^2(d2) / d2)`` has ``chi'^2 / lambda -> 1`` (relative
     spread about ``1/sqrt(lambda)``), so ``P(F' <= F_obs; lambda) = P(chi^2(d2) >= d2 lambda /
-    (d1 F_obs))``: the same limit that :func:`sheetfuncs.planning.ncf_cdf` uses for large
+    (d1 F_obs))``: the same limit that :func:`sheetfuncs.distributions.ncf_cdf` uses for large
     noncentrality (Patnaik 1949). Solving for each target gives ``lambda = d1 F_obs q / d2`` with
     ``q`` the chi-square(d2) point, and since ``d1 F_obs = SSB d2 / SSW``,
     ``f = sqrt(lambda / N) = sqrt(SSB q / (SSW N))``, formed without overflow.
@@ -215,7 +215,36 @@ def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) ->
     omega_raw = float(corrected / (sst + msw))
     eps_raw = float(corrected / sst)
     f_eff = math.inf if ssw == 0 else _sqrt_ratio(ssb, ssw)
+    notes = _negative_notes(omega_raw, eps_raw)
+    lam_lo, lam_hi = noncentrality_interval(res.f, dfb, dfw, cf)
+    interval_note = _interval_note(res.f, ssw == 0, lam_lo, lam_hi, dfb, dfw, cf)
+    if interval_note:
+        notes.append(interval_note)
+    if math.isinf(res.f) and ssw != 0:
+        f_ci = _overflow_f_limits(ssb, ssw, dfw, n, cf)
+    else:
+        f_ci = Interval(_lambda_to_f(lam_lo, n), _lambda_to_f(lam_hi, n))
+    return EffectSizes(
+        eta_squared=eta, omega_squared=max(omega_raw, 0.0), epsilon_squared=max(eps_raw, 0.0),
+        cohens_f=f_eff, eta_squared_ci=Interval(_lambda_to_eta(lam_lo, n), _lambda_to_eta(lam_hi, n)),
+        cohens_f_ci=f_ci, conf=cf, lambda_ci=Interval(lam_lo, lam_hi), notes=tuple(notes),
+        omega_squared_raw=omega_raw, epsilon_squared_raw=eps_raw, f=res.f, df_between=dfb,
+        df_within=dfw, n_total=n, exact=res.exact, interval_note=interval_note,
+    )
 
+
+def _lambda_to_eta(lam: float, n: int) -> float:
+    """Eta squared of a noncentrality: ``lambda / (lambda + N)`` (1 at infinity)."""
+    return 1.0 if math.isinf(lam) else lam / (lam + n)
+
+
+def _lambda_to_f(lam: float, n: int) -> float:
+    """Cohen's f of a noncentrality: ``sqrt(lambda / N)``."""
+    return math.inf if math.isinf(lam) else math.sqrt(lam / n)
+
+
+def _negative_notes(omega_raw: float, eps_raw: float) -> list[str]:
+    """The note that omega squared or epsilon squared came out negative, if either did."""
     notes: list[str] = []
     negative = [nm for nm, v in (("omega squared", omega_raw), ("epsilon squared", eps_raw)) if v < 0]
     if negative:
@@ -223,62 +252,33 @@ def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) ->
             f"{' and '.join(negative)} came out negative and {'are' if len(negative) > 1 else 'is'} "
             "shown as 0: the group means differ less than chance alone would make them (F < 1)"
         )
+    return notes
 
-    lam_lo, lam_hi = noncentrality_interval(res.f, dfb, dfw, cf)
-    interval_note = ""
-    if math.isinf(res.f) and ssw == 0:
-        interval_note = (
+
+def _interval_note(f: float, no_within: bool, lam_lo: float, lam_hi: float, dfb: int, dfw: int,
+                   cf: float) -> str:
+    """The note about the intervals (an infinite F, limits at 0), or ``""``."""
+    if math.isinf(f) and no_within:
+        return (
             "there is no variation within groups, so F is infinite: eta squared is 1, Cohen's f "
             "is infinite and the intervals collapse onto those values"
         )
-    elif math.isinf(res.f):
-        interval_note = (
+    if math.isinf(f):
+        return (
             "F lies beyond the largest double (about 1.8e308) and is shown as infinite: the "
             "variation within groups is tiny next to that between them; eta squared and its "
             "limits round to 1, and the limits for Cohen's f come from the large-noncentrality "
             "limit of the noncentral F"
         )
-    elif lam_hi == 0.0:
-        interval_note = (
-            f"both interval limits are 0: the observed F ({res.f:.4g}) is below the lower "
+    if lam_hi == 0.0:
+        return (
+            f"both interval limits are 0: the observed F ({f:.4g}) is below the lower "
             f"{(1 - cf) / 2:g} point of F({dfb}, {dfw}); group means this close together are "
             "unusual, so check the data"
         )
-    elif lam_lo == 0.0:
-        interval_note = (
+    if lam_lo == 0.0:
+        return (
             f"the lower interval limits are 0: at {_pct(cf)} confidence the data are consistent "
             "with no difference between the group means"
         )
-    if interval_note:
-        notes.append(interval_note)
-
-    def to_eta(lam: float) -> float:
-        return 1.0 if math.isinf(lam) else lam / (lam + n)
-
-    def to_f(lam: float) -> float:
-        return math.inf if math.isinf(lam) else math.sqrt(lam / n)
-
-    if math.isinf(res.f) and ssw != 0:
-        f_ci = _overflow_f_limits(ssb, ssw, dfw, n, cf)
-    else:
-        f_ci = Interval(to_f(lam_lo), to_f(lam_hi))
-
-    return EffectSizes(
-        eta_squared=eta,
-        omega_squared=max(omega_raw, 0.0),
-        epsilon_squared=max(eps_raw, 0.0),
-        cohens_f=f_eff,
-        eta_squared_ci=Interval(to_eta(lam_lo), to_eta(lam_hi)),
-        cohens_f_ci=f_ci,
-        conf=cf,
-        lambda_ci=Interval(lam_lo, lam_hi),
-        notes=tuple(notes),
-        omega_squared_raw=omega_raw,
-        epsilon_squared_raw=eps_raw,
-        f=res.f,
-        df_between=dfb,
-        df_within=dfw,
-        n_total=n,
-        exact=res.exact,
-        interval_note=interval_note,
-    )
+    return ""

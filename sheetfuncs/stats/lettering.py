@@ -111,7 +111,7 @@ class LettersResult(Mapping):
 
     ``labels`` the groups; ``letters`` each group's letters (same order); ``means`` the group
     means; ``method`` and ``alpha`` of the pairwise comparisons behind the letters;
-    ``comparisons`` those comparisons (:class:`sheetfuncs.comparisons.PairwiseResult`).
+    ``comparisons`` those comparisons (:class:`sheetfuncs.stats.comparisons.PairwiseResult`).
     """
 
     labels: tuple[str, ...]
@@ -150,7 +150,7 @@ class LettersResult(Mapping):
 def letters(groups: Any, method: str = "tukey", alpha: float = 0.05) -> LettersResult:
     """Compact letter display of the pairwise comparisons (insert-and-absorb, Piepho 2004).
 
-    ``method`` is any pairwise method of :func:`sheetfuncs.comparisons.pairwise`; Dunnett's
+    ``method`` is any pairwise method of :func:`sheetfuncs.stats.comparisons.pairwise`; Dunnett's
     many-to-one comparisons do not compare every pair and cannot be shown as letters.
     """
     if isinstance(method, str) and method.strip().lower() == "dunnett":

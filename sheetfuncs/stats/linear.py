@@ -24,7 +24,9 @@ from scipy import stats
 from ..errors import InputError
 from ..distributions import f_tail
 from ..input import Groups, as_groups, format_label
-from .moments import check_float_zero_spread, check_ss_range, compute_moments, rounded
+from .moments import (
+    ExactMoments, FloatMoments, check_float_zero_spread, check_ss_range, compute_moments, rounded,
+)
 from .oneway import require_two_groups
 from ..input import as_real, check_conf, one_line, shown
 from .interval import Interval
@@ -180,30 +182,10 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     g = as_groups(groups)
     require_two_groups(g)
     c = check_conf(conf)
-    raw = per_group_argument(weights, g, "weights")
-    w: list[float] = []
-    for i, v in enumerate(raw):
-        fv = as_real(v)
-        if fv is None:
-            raise InputError(f'the weight for group "{g.labels[i]}" is {shown(v)}, not a number')
-        if not math.isfinite(fv):
-            raise InputError(f'the weight for group "{g.labels[i]}" is not finite')
-        w.append(fv)
-    if all(x == 0 for x in w):
-        raise InputError("all contrast weights are zero; give weights such as 1, -1, 0")
+    w = _contrast_weights(weights, g)
     # Work with the weights scaled by a power of two (exact) so that their largest is near 1:
     # t, p and the verdict do not depend on the scale; estimate, SE and interval scale back.
-    e = math.frexp(max(abs(x) for x in w))[1]
-    ws = [math.ldexp(x, -e) for x in w]
-    abs_sum = math.fsum(abs(x) for x in ws)
-    total = math.fsum(ws)
-    if abs_sum == 0:
-        raise InputError("all contrast weights are zero; give weights such as 1, -1, 0")
-    if abs(total) > 1e-12 * abs_sum:
-        raise InputError(
-            f"contrast weights must sum to zero, but they sum to {math.fsum(w):.6g}; "
-            "adjust them (e.g. 1, -0.5, -0.5)"
-        )
+    ws, e = _scaled_weights(w)
     mom = compute_moments(g, exact)
     n = g.n_total
     df = n - g.k
@@ -216,18 +198,7 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
     check_ss_range(ssw)
     if not mom.exact:
         check_float_zero_spread(g, ssw, within=True)
-    if mom.exact:
-        # once the weights pass the tolerance they are a contrast: their rounding residue
-        # (e.g. 1, -1/3, -1/3, -1/3 sum to 5.6e-17) must not multiply a mean near 1e12
-        diffs_x = mom.mean_differences(0)
-        est_x = sum(Fraction(wi) * diffs_x[i] for i, wi in enumerate(ws))
-        var_x = ssw / df * sum(Fraction(wi) ** 2 / g.counts[i] for i, wi in enumerate(ws))
-        est = rounded(est_x)
-        se = math.sqrt(rounded(var_x))
-    else:
-        diffs = mom.mean_differences(0)  # sum(w) is ~0, so the common part cancels exactly
-        est = math.fsum(wi * diffs[i] for i, wi in enumerate(ws))
-        se = math.sqrt(float(ssw) / df * math.fsum(wi * wi / g.counts[i] for i, wi in enumerate(ws)))
+    est, se = _estimate_and_se(mom, ssw, ws, g.counts, df)
     if se == 0:
         if est == 0:
             raise InputError(
@@ -246,3 +217,52 @@ def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: 
         weights=tuple(w), estimate=est, se=se, t=t, df=df, p=min(p, 1.0),
         ci=Interval(lo, hi), conf=c, exact=mom.exact,
     )
+
+
+def _contrast_weights(weights: Sequence[Any], g: Groups) -> list[float]:
+    """One finite number per group, not all zero (else InputError)."""
+    raw = per_group_argument(weights, g, "weights")
+    w: list[float] = []
+    for i, v in enumerate(raw):
+        fv = as_real(v)
+        if fv is None:
+            raise InputError(f'the weight for group "{g.labels[i]}" is {shown(v)}, not a number')
+        if not math.isfinite(fv):
+            raise InputError(f'the weight for group "{g.labels[i]}" is not finite')
+        w.append(fv)
+    if all(x == 0 for x in w):
+        raise InputError("all contrast weights are zero; give weights such as 1, -1, 0")
+    return w
+
+
+def _scaled_weights(w: list[float]) -> tuple[list[float], int]:
+    """The weights times ``2**-e`` (exact) so that the largest is near 1, and ``e``; InputError
+    unless they sum to zero (to a relative 1e-12)."""
+    e = math.frexp(max(abs(x) for x in w))[1]
+    ws = [math.ldexp(x, -e) for x in w]
+    abs_sum = math.fsum(abs(x) for x in ws)
+    total = math.fsum(ws)
+    if abs_sum == 0:
+        raise InputError("all contrast weights are zero; give weights such as 1, -1, 0")
+    if abs(total) > 1e-12 * abs_sum:
+        raise InputError(
+            f"contrast weights must sum to zero, but they sum to {math.fsum(w):.6g}; "
+            "adjust them (e.g. 1, -0.5, -0.5)"
+        )
+    return ws, e
+
+
+def _estimate_and_se(mom: ExactMoments | FloatMoments, ssw: Fraction | float, ws: list[float],
+                     counts: Sequence[int], df: int) -> tuple[float, float]:
+    """The contrast's estimate and standard error in the scaled weights."""
+    if mom.exact:
+        # once the weights pass the tolerance they are a contrast: their rounding residue
+        # (e.g. 1, -1/3, -1/3, -1/3 sum to 5.6e-17) must not multiply a mean near 1e12
+        diffs_x = mom.mean_differences(0)
+        est_x = sum(Fraction(wi) * diffs_x[i] for i, wi in enumerate(ws))
+        var_x = ssw / df * sum(Fraction(wi) ** 2 / counts[i] for i, wi in enumerate(ws))
+        return rounded(est_x), math.sqrt(rounded(var_x))
+    diffs = mom.mean_differences(0)  # sum(w) is ~0, so the common part cancels exactly
+    est = math.fsum(wi * diffs[i] for i, wi in enumerate(ws))
+    se = math.sqrt(float(ssw) / df * math.fsum(wi * wi / counts[i] for i, wi in enumerate(ws)))
+    return est, se

@@ -366,37 +366,59 @@ def _sample_scale(values: np.ndarray) -> tuple[int, np.ndarray] | None:
 
 
 def _exact_moments(arrays: Sequence[np.ndarray]) -> ExactMoments:
-    sample = _sample(arrays)
+    """Decimal-exact moments of every group (see the module docstring), or :class:`_NotExact`.
+
+    A sample of the values fixes the scale and the centring offset; every value is then scaled
+    and summed in vectorised chunks, and the few values the vectorised check cannot settle are
+    read one by one at the end (the scale grows if they need more decimals).
+    """
+    scale, offset = _scale_and_offset(_sample(arrays))
+    ns, ss, qs, fallbacks = _vector_sums(arrays, scale, offset)
+    if any(fallbacks):  # values the vectorised check could not settle: read them one by one
+        scale, offset, ss, qs = _add_fallbacks(fallbacks, scale, offset, ss, qs)
+    return ExactMoments(scale, offset, tuple(ns), tuple(ss), tuple(qs))
+
+
+def _scale_and_offset(sample: list[tuple[int, float]]) -> tuple[int, int]:
+    """The scale ``D`` and the integer centring offset, from a sample of ``(group, value)``."""
     found = _sample_scale(np.array([v for _, v in sample], dtype=np.float64))
     if found is not None:
         scale, scaled = found
         ints = sorted(map(int, scaled.tolist()))
-        offset = ints[len(ints) // 2] if ints else 0
-    else:  # one value at a time, through its shortest round-trip decimal
-        parts = []
-        for g, v in sample:
-            mant, exp, nd = decimal_parts(v)
-            if nd > MAX_DIGITS:
-                raise _NotExact(v, g, nd)
-            parts.append((mant, exp))
-        scale = max(0, max(-e for _, e in parts))
-        if scale > _MAX_VECTOR_SCALE:
-            # values with more than 22 decimals cannot be scaled in floats; scale the others
-            # (if any) to theirs, and the main loop reads these few one by one as leftovers
-            scale = max((-e for _, e in parts if -e <= _MAX_VECTOR_SCALE), default=scale)
-        offset = 0
-        if scale <= _MAX_VECTOR_SCALE:
-            ints = sorted(m * 10 ** (e + scale) for m, e in parts if -e <= scale)
-            offset = ints[len(ints) // 2]
-            if abs(offset) >= 2**53:
-                offset = 0
+        return scale, ints[len(ints) // 2] if ints else 0
+    # one value at a time, through its shortest round-trip decimal
+    parts = []
+    for g, v in sample:
+        mant, exp, nd = decimal_parts(v)
+        if nd > MAX_DIGITS:
+            raise _NotExact(v, g, nd)
+        parts.append((mant, exp))
+    scale = max(0, max(-e for _, e in parts))
+    if scale > _MAX_VECTOR_SCALE:
+        # values with more than 22 decimals cannot be scaled in floats; scale the others
+        # (if any) to theirs, and the main loop reads these few one by one as leftovers
+        scale = max((-e for _, e in parts if -e <= _MAX_VECTOR_SCALE), default=scale)
+    offset = 0
+    if scale <= _MAX_VECTOR_SCALE:
+        ints = sorted(m * 10 ** (e + scale) for m, e in parts if -e <= scale)
+        offset = ints[len(ints) // 2]
+        if abs(offset) >= 2**53:
+            offset = 0
+    return scale, offset
+
+
+def _vector_sums(
+    arrays: Sequence[np.ndarray], scale: int, offset: int
+) -> tuple[list[int], list[int], list[int], list[list[float]]]:
+    """Counts, exact centred sums and sums of squares per group, and the values left for
+    :func:`_add_fallbacks` (all of them when the scale is too large to vectorise)."""
     vector = scale <= _MAX_VECTOR_SCALE
     ns: list[int] = []
     ss: list[int] = []
     qs: list[int] = []
     fallbacks: list[list[float]] = []
     p10 = 10.0**scale if vector else 1.0
-    for g, a in enumerate(arrays):
+    for a in arrays:
         s_tot = 0
         q_tot = 0
         fb: list[float] = []
@@ -426,32 +448,38 @@ def _exact_moments(arrays: Sequence[np.ndarray]) -> ExactMoments:
         ss.append(s_tot)
         qs.append(q_tot)
         fallbacks.append(fb)
+    return ns, ss, qs, fallbacks
 
-    # values the vectorised check could not settle: read them one by one
-    if any(fallbacks):
-        decoded: list[list[tuple[int, int]]] = []
-        new_scale = scale if vector else 0
-        for g, fb in enumerate(fallbacks):
-            row = []
-            for v in fb:
-                mant, exp, nd = decimal_parts(v)
-                if nd > MAX_DIGITS:
-                    raise _NotExact(v, g, nd)
-                row.append((mant, exp))
-                new_scale = max(new_scale, -exp)
-            decoded.append(row)
-        grow = 10 ** (new_scale - scale) if vector else 1
-        offset *= grow
-        for g, row in enumerate(decoded):
-            s_tot = ss[g] * grow
-            q_tot = qs[g] * grow * grow
-            for mant, exp in row:
-                v = mant * 10 ** (exp + new_scale) - offset
-                s_tot += v
-                q_tot += v * v
-            ss[g], qs[g] = s_tot, q_tot
-        scale = new_scale
-    return ExactMoments(scale, offset, tuple(ns), tuple(ss), tuple(qs))
+
+def _add_fallbacks(
+    fallbacks: list[list[float]], scale: int, offset: int, ss: list[int], qs: list[int]
+) -> tuple[int, int, list[int], list[int]]:
+    """The scale, offset, sums and sums of squares once the values in ``fallbacks`` are read
+    one by one through their shortest round-trip decimals (the scale grows to theirs)."""
+    vector = scale <= _MAX_VECTOR_SCALE
+    decoded: list[list[tuple[int, int]]] = []
+    new_scale = scale if vector else 0
+    for g, fb in enumerate(fallbacks):
+        row = []
+        for v in fb:
+            mant, exp, nd = decimal_parts(v)
+            if nd > MAX_DIGITS:
+                raise _NotExact(v, g, nd)
+            row.append((mant, exp))
+            new_scale = max(new_scale, -exp)
+        decoded.append(row)
+    grow = 10 ** (new_scale - scale) if vector else 1
+    offset *= grow
+    ss, qs = list(ss), list(qs)
+    for g, row in enumerate(decoded):
+        s_tot = ss[g] * grow
+        q_tot = qs[g] * grow * grow
+        for mant, exp in row:
+            v = mant * 10 ** (exp + new_scale) - offset
+            s_tot += v
+            q_tot += v * v
+        ss[g], qs[g] = s_tot, q_tot
+    return new_scale, offset, ss, qs
 
 
 def compute_moments(groups: Groups, exact: bool | None = None) -> ExactMoments | FloatMoments:

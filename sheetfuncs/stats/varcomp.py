@@ -243,17 +243,25 @@ def variance_components(
     s1, s2 = float(msb_x), float(msw_x)
     a = (1.0 - cf) / 2.0
     balanced = len(set(counts)) == 1
+    return VarianceComponents(
+        within=s2, between=float(between_x), total=float(total_x), icc=icc, n0=n0,
+        within_ci=Interval(n2 * s2 / float(stats.chi2.isf(a, n2)), n2 * s2 / float(stats.chi2.ppf(a, n2))),
+        between_ci=_between_mls(s1, s2, n1, n2, n0, a), total_ci=_total_mls(s1, s2, n1, n2, n0, a),
+        icc_ci=_icc_interval(res.f, n1, n2, n0, a), conf=cf, method=METHOD,
+        notes=tuple(_notes(float(between_raw_x), balanced, n0, s2, n1, k)),
+        between_raw=float(between_raw_x), ms_between=s1, ms_within=s2, df_between=n1,
+        df_within=n2, k=k, n_total=n, balanced=balanced, exact=res.exact,
+    )
 
-    within_ci = Interval(n2 * s2 / float(stats.chi2.isf(a, n2)), n2 * s2 / float(stats.chi2.ppf(a, n2)))
-    between_ci = _between_mls(s1, s2, n1, n2, n0, a)
-    total_ci = _total_mls(s1, s2, n1, n2, n0, a)
-    icc_ci = _icc_interval(res.f, n1, n2, n0, a)
 
+def _notes(between_raw: float, balanced: bool, n0: float, ms_within: float, df_between: int,
+           k: int) -> list[str]:
+    """The plain-language notes of a result, each once (see :func:`_row_notes` for the table)."""
     notes: list[str] = []
-    if between_raw_x < 0:
+    if between_raw < 0:
         notes.append(
             f"the between-group estimate (MSB - MSW)/n0 came out negative "
-            f"({float(between_raw_x):.4g}) and is shown as 0: the groups vary no more than "
+            f"({between_raw:.4g}) and is shown as 0: the groups vary no more than "
             "the values within them"
         )
     if not balanced:
@@ -261,33 +269,11 @@ def variance_components(
             f"group sizes differ: n0 = {n0:.6g} stands in for the common group size, so the "
             "between-group, total and ICC intervals are approximate"
         )
-    if s2 == 0.0:
+    if ms_within == 0.0:
         notes.append("there is no variation within groups: the within component and its interval are 0")
-    if n1 < 4:
+    if df_between < 4:
         notes.append(
-            f"only {k} groups: the between-group component rests on {n1} degrees of freedom, "
+            f"only {k} groups: the between-group component rests on {df_between} degrees of freedom, "
             "so its interval is wide; more groups narrow it more than more values per group"
         )
-    return VarianceComponents(
-        within=s2,
-        between=float(between_x),
-        total=float(total_x),
-        icc=icc,
-        n0=n0,
-        within_ci=within_ci,
-        between_ci=between_ci,
-        total_ci=total_ci,
-        icc_ci=icc_ci,
-        conf=cf,
-        method=METHOD,
-        notes=tuple(notes),
-        between_raw=float(between_raw_x),
-        ms_between=s1,
-        ms_within=s2,
-        df_between=n1,
-        df_within=n2,
-        k=k,
-        n_total=n,
-        balanced=balanced,
-        exact=res.exact,
-    )
+    return notes

@@ -13,7 +13,9 @@ import pytest
 from scipy import stats
 
 from sheetfuncs.stats.alternatives import kruskal, welch
-from sheetfuncs.stats.assumptions import bartlett, levene, residuals, shapiro_residuals
+from sheetfuncs.stats.normality import shapiro_residuals
+from sheetfuncs.stats.residuals import residuals
+from sheetfuncs.stats.variances import bartlett, levene
 
 SEEDS = range(12)
 

@@ -23,7 +23,7 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from sheetfuncs.distributions.mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
+from sheetfuncs.distributions import many_to_one_critical, many_to_one_tail, range_critical, range_tail
 from sheetfuncs.stats.comparisons import dunnett, pairwise
 
 

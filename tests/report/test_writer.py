@@ -21,7 +21,7 @@ from scipy import stats
 
 import sheetfuncs.report.writer as writer_mod
 from sheetfuncs import InputError, as_groups, describe, groups_from_range, oneway
-from sheetfuncs.stats.assumptions import checks
+from sheetfuncs.stats import checks
 from sheetfuncs.input.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
 from sheetfuncs.stats.effects import effect_sizes
 from sheetfuncs.stats.lettering import letters

@@ -1,9 +1,10 @@
-"""Pairwise comparisons, Dunnett, and the maximum-type distributions behind them.
+"""Pairwise comparisons and Dunnett's many-to-one comparisons (sheetfuncs.stats.comparisons).
 
-Sources are named beside each numeric check: NIST StRD datasets (certified MSE), mpmath
-(high-precision quadrature of the published integrals), textbook formulas computed
-independently in the test (Scheffé 1953), scipy.stats.t (bounds), and studentized-range and
-Dunnett tables recalled from memory (marked so). Library-against-library checks on random data
+Sources are named beside each numeric check: NIST StRD datasets (certified MSE), textbook
+formulas computed independently in the test (Scheffé 1953), scipy.stats.t (bounds),
+scipy.stats.tukey_hsd and scipy.stats.dunnett on seeded data with many groups (invented numbers,
+rounded to two decimals), and scipy.stats.studentized_range. The distributions behind the
+comparisons are tested in tests/distributions/. Library-against-library checks on random data
 live in tests/reference/test_scipy_pairwise.py and test_statsmodels_multipletests.py.
 """
 
@@ -14,17 +15,16 @@ import functools
 import math
 from fractions import Fraction
 
-import mpmath as mp
 import numpy as np
 import pytest
 from scipy import stats
 
 from tests.support import nist
-from tests.support.mpmath_refs import many_to_one_normal
 from sheetfuncs.errors import InputError
 from sheetfuncs.input import groups_from_range
-from sheetfuncs.distributions.mvt import many_to_one_critical, many_to_one_tail, range_critical, range_tail
 from sheetfuncs.stats.comparisons import METHODS, PairwiseResult, dunnett, pairwise
+
+SQRT2 = math.sqrt(2.0)
 
 # Invented data: fill weight (g) from four filling heads; head 3 runs heavy.
 HEADS = {
@@ -280,83 +280,6 @@ def test_tukey_kramer_unequal_sizes_note():
     assert not pairwise(equal).notes
 
 
-# ------------------------------------------------------------------------------------------
-# the distributions
-
-
-def _mp_range_tail_normal(r: float, k: int) -> float:
-    """P(range of k standard normals > r) by mpmath at 60 digits (published integral)."""
-    with mp.workdps(60):
-        r = mp.mpf(r)
-
-        def f(z):
-            a = mp.ncdf(z)
-            return k * mp.npdf(z) * (a ** (k - 1) - (a - mp.ncdf(z - r)) ** (k - 1))
-
-        return float(mp.quad(f, [-mp.inf, -5, 0, r / 2, r / 2 + 5, mp.inf]))
-
-
-@pytest.mark.parametrize("r,k", [(1.0, 3), (3.3, 5), (12.0, 3), (20.0, 6)])
-def test_range_tail_known_variance_matches_mpmath(r, k):
-    # source: mpmath quadrature of P(R > r) = k int phi(z)[Phi(z)^(k-1) - (Phi(z)-Phi(z-r))^(k-1)]
-    assert range_tail(r, k, math.inf) == pytest.approx(_mp_range_tail_normal(r, k), rel=1e-11)
-
-
-@pytest.mark.parametrize(
-    "h,lam",
-    [(2.2, [0.5 ** 0.5] * 3), (7.0, [0.5 ** 0.5] * 2), (5.5, [0.95, 0.2, 0.6])],
-)
-def test_many_to_one_known_variance_matches_mpmath(h, lam):
-    # source: mpmath quadrature of Dunnett's (1955) one-dimensional form
-    assert many_to_one_tail(h, lam, math.inf) == pytest.approx(many_to_one_normal(h, lam), rel=1e-10)
-
-
-@pytest.mark.parametrize("q,k,df", [(15.0, 4, 30), (40.0, 5, 12), (80.0, 3, 60), (25.0, 8, 200)])
-def test_range_tail_far_in_the_tail_lies_within_bonferroni_bounds(q, k, df):
-    # source: scipy.stats.t.sf; each pair's |t| > q/sqrt(2) gives
-    # max_pair <= P(Q > q) <= (k choose 2) * pair (Bonferroni inequality)
-    pair = 2 * stats.t.sf(q / math.sqrt(2), df)
-    p = range_tail(q, k, df)
-    assert pair < p <= k * (k - 1) / 2 * pair * (1 + 1e-12)
-    assert p < 1e-9  # far below where one-minus-cdf methods stop being accurate
-
-
-@pytest.mark.parametrize(
-    "alpha,k,df,table",
-    [(0.05, 3, 10, 3.877), (0.05, 4, 20, 3.958), (0.01, 3, 10, 5.270), (0.05, 10, 60, 4.646),
-     (0.05, 2, math.inf, 2.772), (0.05, 5, 1, 37.08)],
-)
-def test_range_critical_values_agree_with_published_tables(alpha, k, df, table):
-    # source: studentized range tables (e.g. Harter 1960 as reprinted in textbooks), from memory
-    assert range_critical(alpha, k, df) == pytest.approx(table, abs=6e-3)
-
-
-@pytest.mark.parametrize("m,table", [(1, 1.96), (2, 2.21), (3, 2.35), (4, 2.44), (5, 2.51)])
-def test_dunnett_critical_values_agree_with_published_table(m, table):
-    # source: Dunnett's two-sided 5% table, equal group sizes, infinite df, from memory
-    assert many_to_one_critical(0.05, [0.5 ** 0.5] * m, math.inf) == pytest.approx(table, abs=6e-3)
-
-
-def test_critical_values_invert_the_tails():
-    c = range_critical(0.05, 5, 17)
-    assert range_tail(c, 5, 17) == pytest.approx(0.05, rel=1e-9)
-    lam = [0.6, 0.7, 0.8]
-    c = many_to_one_critical(0.01, lam, 23)
-    assert many_to_one_tail(c, lam, 23) == pytest.approx(0.01, rel=1e-9)
-
-
-def test_distribution_arguments_are_checked():
-    with pytest.raises(InputError, match="k >= 2"):
-        range_tail(3.0, 1, 10)
-    with pytest.raises(InputError, match="degrees of freedom"):
-        range_tail(3.0, 3, 0)
-    with pytest.raises(InputError, match="alpha"):
-        range_critical(1.0, 3, 10)
-    with pytest.raises(InputError, match=r"\[0, 1\)"):
-        many_to_one_tail(2.0, [1.0], 10)
-    assert range_tail(0.0, 3, 10) == 1.0 and range_tail(math.inf, 3, 10) == 0.0
-
-
 def test_dunnett_rows_and_intervals():
     res = dunnett(HEADS, "Head 1")
     assert [(r.group_a, r.group_b) for r in res.rows] == [
@@ -381,3 +304,58 @@ def test_the_documented_examples_match():
     d = dunnett(HEADS, "Head 1")
     assert round(d.multipliers[0], 2) == 2.54
     assert [f"{r.p:.2g}" for r in d.rows] == ["0.61", "1.7e-07", "0.59"]
+
+
+# ------------------------------------------------------------------------------------------
+# many groups: the distributions on many arguments at once
+
+
+def many_groups(k: int, seed: int, n_max: int = 11) -> list[np.ndarray]:
+    """Seeded invented data: k groups of 2 to n_max values, unequal means and spreads."""
+    rng = np.random.default_rng(52000 + seed)
+    out = []
+    for _ in range(k):
+        n = int(rng.integers(2, n_max + 1))
+        out.append(np.round(rng.normal(rng.uniform(48, 52), rng.uniform(0.5, 3.0), size=n), 2))
+    return out
+
+
+def test_tukey_and_games_howell_with_many_groups_match_scipy():
+    # source: scipy.stats.tukey_hsd, and with equal_var=False (Games & Howell 1976)
+    gs = many_groups(7, 1)
+    for method, ref in (("tukey", stats.tukey_hsd(*gs)),
+                        ("games-howell", stats.tukey_hsd(*gs, equal_var=False))):
+        ci = ref.confidence_interval(0.95)
+        res = pairwise(gs, method)
+        assert len(res.rows) == 21
+        pairs = [(i, j) for i in range(7) for j in range(i + 1, 7)]
+        for row, (i, j) in zip(res.rows, pairs):
+            assert row.p == pytest.approx(ref.pvalue[i, j], rel=1e-8, abs=1e-11), method
+            assert row.ci.low == pytest.approx(ci.low[i, j], rel=1e-9, abs=1e-9), method
+            assert row.ci.high == pytest.approx(ci.high[i, j], rel=1e-9, abs=1e-9), method
+
+
+def test_dunnett_with_many_groups_matches_scipy():
+    # source: scipy.stats.dunnett (randomised QMC with a fixed random_state; 1e-3 tolerance)
+    gs = many_groups(12, 2)
+    ref = stats.dunnett(*gs[1:], control=gs[0], random_state=np.random.default_rng(11))
+    ci = ref.confidence_interval(0.95)
+    res = dunnett(gs, "Group 1")
+    for r, row in enumerate(res.rows):
+        assert row.statistic == pytest.approx(ref.statistic[r], rel=1e-10)
+        assert row.p == pytest.approx(ref.pvalue[r], abs=1e-3)
+        width = row.ci.high - row.ci.low
+        assert row.ci.low == pytest.approx(ci.low[r], abs=1e-3 * width)
+        assert row.ci.high == pytest.approx(ci.high[r], abs=1e-3 * width)
+
+
+def test_games_howell_shares_critical_values_between_equal_welch_df():
+    # common practice: pairs with the same Welch df have the same critical value; two pairs of
+    # groups with identical sizes and spreads (shifted copies) share it
+    base = [10.1, 10.4, 9.8, 10.2]
+    data = {"A": base, "B": [x + 1 for x in base], "C": [x + 2 for x in base]}
+    res = pairwise(data, "games-howell")
+    assert len(set(res.row_df)) == 1 and len(set(res.multipliers)) == 1
+    assert res.multipliers[0] == pytest.approx(
+        stats.studentized_range.ppf(0.95, 3, res.row_df[0]) / SQRT2, rel=1e-9
+    )  # source: scipy.stats.studentized_range.ppf

@@ -1,4 +1,4 @@
-"""sheetfuncs.describe: per-group summaries against numpy and scipy (reference libraries)."""
+"""sheetfuncs.stats.describe: per-group summaries against numpy and scipy (reference libraries)."""
 
 from __future__ import annotations
 

@@ -1,4 +1,4 @@
-"""Effect sizes: formulas, intervals, degenerate cases, bad input (sheetfuncs.effects)."""
+"""Effect sizes: formulas, intervals, degenerate cases, bad input (sheetfuncs.stats.effects)."""
 
 from __future__ import annotations
 
@@ -194,7 +194,7 @@ def test_cohens_f_beyond_the_double_range_of_its_square():
 
 
 def test_overflow_limits_continue_the_noncentral_f_interval():
-    # where F is large but finite, the intervals from the noncentral F (sheetfuncs.planning's
+    # where F is large but finite, the intervals from the noncentral F (sheetfuncs.distributions.noncentral_f's
     # distribution function, checked against scipy.stats.ncf elsewhere) and from its
     # large-noncentrality limit must agree: the relative spread of the noncentral chi-square is
     # about 1/sqrt(lambda), here below 1e-6 (common practice)

@@ -1,4 +1,4 @@
-"""Coverage of the effect-size intervals by a seeded simulation (sheetfuncs.effects).
+"""Coverage of the effect-size intervals by a seeded simulation (sheetfuncs.stats.effects).
 
 For normal data with a true noncentrality lambda > 0 the equal-tailed noncentral-F inversion
 (Steiger 2004) misses on each side with probability (1 - conf)/2 exactly, so over 2,000

@@ -1,4 +1,4 @@
-"""sheetfuncs.linear: the general linear test (pooling) and single-df contrasts."""
+"""sheetfuncs.stats.linear: the general linear test (pooling) and single-df contrasts."""
 
 from __future__ import annotations
 

@@ -1,4 +1,4 @@
-"""sheetfuncs.moments: the decimal-exact path and the floating-point path, edge cases.
+"""sheetfuncs.stats.moments: the decimal-exact path and the floating-point path, edge cases.
 
 Reference for exactness: exact rational arithmetic (Python fractions) on the shortest
 round-trip decimals of the values (``Fraction(repr(x))``), which is the exact path's definition

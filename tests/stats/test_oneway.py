@@ -1,4 +1,4 @@
-"""sheetfuncs.oneway: result fields, the spill table, summaries, degenerate cases."""
+"""sheetfuncs.stats.oneway: result fields, the spill table, summaries, degenerate cases."""
 
 from __future__ import annotations
 

@@ -1,4 +1,4 @@
-"""Variance components of the one-way random-effects model (sheetfuncs.varcomp)."""
+"""Variance components of the one-way random-effects model (sheetfuncs.stats.varcomp)."""
 
 from __future__ import annotations
 

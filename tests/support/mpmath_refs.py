@@ -1,10 +1,12 @@
-"""Reference values computed with mpmath at 30 digits (test-only reference library)."""
+"""Reference values computed with mpmath at high precision (test-only reference library)."""
 
 from __future__ import annotations
 
+from collections.abc import Iterable
+
 import mpmath as mp
 
-__all__ = ["many_to_one_normal"]
+__all__ = ["many_to_one_normal", "bartlett_statistic"]
 
 
 def many_to_one_normal(h: float, lam: list[float]) -> float:
@@ -21,3 +23,21 @@ def many_to_one_normal(h: float, lam: list[float]) -> float:
             return mp.npdf(u) * (1 - inside)
 
         return float(mp.quad(f, [-mp.inf, -h, -h / 2, 0, h / 2, h, mp.inf]))
+
+
+def bartlett_statistic(groups: Iterable[Iterable[float]], dps: int = 50) -> float:
+    """Bartlett's (1937) textbook formula evaluated with mpmath on the exact decimal values."""
+    with mp.workdps(dps):
+        groups = [[mp.mpf(repr(float(x))) for x in g] for g in groups]
+
+        def var(g):
+            m = sum(g) / len(g)
+            return sum((x - m) ** 2 for x in g) / (len(g) - 1)
+
+        v = [var(g) for g in groups]
+        ns = [len(g) for g in groups]
+        n, k = sum(ns), len(ns)
+        sp = sum((ni - 1) * vi for ni, vi in zip(ns, v)) / (n - k)
+        num = (n - k) * mp.log(sp) - sum((ni - 1) * mp.log(vi) for ni, vi in zip(ns, v))
+        corr = 1 + (sum(mp.mpf(1) / (ni - 1) for ni in ns) - mp.mpf(1) / (n - k)) / (3 * (k - 1))
+        return float(num / corr)

@@ -28,7 +28,7 @@ from scipy import stats
 
 from tests.support import ranges
 from sheetfuncs.stats.alternatives import brown_forsythe, kruskal, welch
-from sheetfuncs.stats.assumptions import bartlett, checks, levene, shapiro_residuals
+from sheetfuncs.stats import bartlett, checks, levene, shapiro_residuals
 from sheetfuncs.stats.effects import effect_sizes
 from sheetfuncs.worksheet.harness import BLANK, CALC, DIV0, MISSING, NA, REF, SPILL, call, column, is_message
 from sheetfuncs.stats.lettering import letters

@@ -1,4 +1,4 @@
-"""Maximum-type distributions for multiple comparisons: studentized range and many-to-one t.
+"""The shared quadrature of maximum-type scale mixtures: the studentized range and many-to-one t.
 
 Both distributions are scale mixtures. With ``S = sqrt(chi2_df / df)`` (the ratio of an
 estimated to the true standard deviation, density ``f_df``), a statistic ``T = Z / S`` built
@@ -8,25 +8,9 @@ from normal variables ``Z`` has upper tail
 
     f_df(s) = 2 (df/2)^(df/2) s^(df - 1) exp(-df s^2 / 2) / Gamma(df/2).
 
-Studentized range (Tukey 1953; the double-integral form used, e.g., by Copenhaver & Holland
-1988, *J. Statist. Comput. Simul.* 30, 1-15). For ``k`` independent standard normals with range
-``R``,
-
-    P(R > r) = k integral phi(z) [Phi(z)^(k-1) - (Phi(z) - Phi(z - r))^(k-1)] dz,
-
-written as ``Phi(z)^(k-1) * (1 - (1 - Phi(z - r)/Phi(z))^(k-1))`` and evaluated with ``expm1``
-and ``log1p`` so that the tail keeps its relative accuracy far below 1e-15 (never as one minus
-the distribution function).
-
-Many-to-one multivariate t (Dunnett 1955, *JASA* 50, 1096-1121). When the correlations have the
-product form ``rho_ij = l_i l_j`` the normals can be written ``Z_j = l_j U + sqrt(1 - l_j^2) E_j``
-with ``U, E_1, ..., E_m`` independent standard normals, so the two-sided probability reduces to
-one integral over ``U``:
-
-    P(max_j |Z_j| > h) = integral phi(u) [1 - prod_j (1 - q_j(u))] du,
-    q_j(u) = Phi((l_j u - h)/s_j) + Phi((-h - l_j u)/s_j),   s_j = sqrt(1 - l_j^2),
-
-again evaluated as ``-expm1(sum log1p(-q_j))`` for relative accuracy in the tail.
+The known-variance tail of each distribution, the inner integral, lives in its own module:
+:mod:`.studentized_range` (Tukey 1953) and :mod:`.many_to_one` (Dunnett 1955). This module
+integrates such a tail over the distribution of ``S`` and inverts the result.
 
 Numerical method (deterministic, no random numbers). The inner integrals use composite
 10-point Gauss-Legendre panels (0.5 wide, finer across the steps of ``q_j``), over a range
@@ -71,12 +55,14 @@ from scipy import integrate, optimize, special, stats
 from ..errors import InputError
 
 __all__ = [
-    "range_tail", "range_tails", "range_critical", "range_criticals",
-    "many_to_one_tail", "many_to_one_tails", "many_to_one_critical",
+    "Family", "mixture_tails", "mixture_criticals", "gauss_legendre_panels", "panel_breaks",
+    "check_scale_df", "check_scale_dfs", "check_statistics", "check_tail_alpha",
+    "GL_X", "GL_W", "LOG_SQRT_2PI",
 ]
 
-_GL_X, _GL_W = np.polynomial.legendre.leggauss(10)
-_LOG_SQRT_2PI = 0.5 * math.log(2.0 * math.pi)
+#: Nodes and weights of the 10-point Gauss-Legendre rule on [-1, 1].
+GL_X, GL_W = np.polynomial.legendre.leggauss(10)
+LOG_SQRT_2PI = 0.5 * math.log(2.0 * math.pi)
 _EPSREL = 1e-10
 
 
@@ -84,17 +70,17 @@ _EPSREL = 1e-10
 # helpers
 
 
-def _panels(breaks: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+def gauss_legendre_panels(breaks: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Nodes and weights of 10-point Gauss-Legendre panels between consecutive break points."""
     a, b = breaks[:-1], breaks[1:]
     half = 0.5 * (b - a)
     mid = 0.5 * (b + a)
-    x = (mid[:, None] + half[:, None] * _GL_X[None, :]).ravel()
-    w = (half[:, None] * _GL_W[None, :]).ravel()
+    x = (mid[:, None] + half[:, None] * GL_X[None, :]).ravel()
+    w = (half[:, None] * GL_W[None, :]).ravel()
     return x, w
 
 
-def _breaks(lo: float, hi: float, features: Sequence[tuple[float, float]] = ()) -> np.ndarray:
+def panel_breaks(lo: float, hi: float, features: Sequence[tuple[float, float]] = ()) -> np.ndarray:
     """Break points 0.5 apart on [lo, hi], closer (one feature width) around each feature."""
     parts = [np.linspace(lo, hi, max(2, int(math.ceil((hi - lo) / 0.5)) + 1))]
     for centre, width in features:
@@ -114,7 +100,7 @@ def _breaks(lo: float, hi: float, features: Sequence[tuple[float, float]] = ()) 
 def _stirling_tail(h: float) -> float:
     """``lgamma(h) - ((h - 1/2) log h - h + log sqrt(2 pi))``, accurate for every h > 0."""
     if h < 20.0:
-        return math.lgamma(h) - ((h - 0.5) * math.log(h) - h + _LOG_SQRT_2PI)
+        return math.lgamma(h) - ((h - 0.5) * math.log(h) - h + LOG_SQRT_2PI)
     r = 1.0 / (h * h)
     return (1.0 / h) * (1.0 / 12 - r * (1.0 / 360 - r * (1.0 / 1260 - r / 1680)))
 
@@ -126,12 +112,13 @@ def _scale_logpdf(s: float, df: float) -> float:
     log_s2 = math.log1p(e) if abs(e) < 0.5 else 2.0 * math.log(s)
     # log 2 + h log h - lgamma(h) + (df - 1) log s - h s^2, rearranged
     return (
-        math.log(2.0) + 0.5 * math.log(h) - _LOG_SQRT_2PI - _stirling_tail(h)
+        math.log(2.0) + 0.5 * math.log(h) - LOG_SQRT_2PI - _stirling_tail(h)
         + h * (log_s2 - e) - 0.5 * log_s2
     )
 
 
-def _check_df(df: float) -> float:
+def check_scale_df(df: float) -> float:
+    """One positive number of degrees of freedom (``inf`` = known variance), else InputError."""
     try:
         v = float(df)
     except (TypeError, ValueError):
@@ -141,7 +128,7 @@ def _check_df(df: float) -> float:
     return v
 
 
-def _scale_mixture(tail: Callable[[float], float], c: float, df: float) -> float:
+def _adaptive_mixture(tail: Callable[[float], float], c: float, df: float) -> float:
     """``E[tail(c S)]`` with ``S = sqrt(chi2_df / df)``; ``df = inf`` means ``S = 1``."""
     if c <= 0.0:
         return 1.0
@@ -200,21 +187,15 @@ def _solve(tail: Callable[[float], float], alpha: float, lo: float, hi: float) -
     return float(optimize.brentq(f, lo, hi, xtol=1e-13, rtol=1e-12, maxiter=200))
 
 
-def _check_alpha(alpha: float) -> float:
+def check_tail_alpha(alpha: float) -> float:
+    """An upper-tail probability strictly between 0 and 1, else InputError."""
     a = float(alpha)
     if not (0.0 < a < 1.0):
         raise InputError(f"alpha must lie strictly between 0 and 1, not {alpha!r}")
     return a
 
 
-def _check_k(k: int) -> int:
-    kk = int(k)
-    if kk != k or kk < 2:
-        raise InputError(f"the studentized range needs k >= 2 means, not {k!r}")
-    return kk
-
-
-def _check_values(values: Any, what: str) -> np.ndarray:
+def check_statistics(values: Any, what: str) -> np.ndarray:
     """A 1-D float array of statistics; NaN is refused."""
     out = np.array([float(v) for v in np.ravel(np.asarray(values, dtype=object))], dtype=float)
     if np.isnan(out).any():
@@ -222,9 +203,9 @@ def _check_values(values: Any, what: str) -> np.ndarray:
     return out
 
 
-def _check_dfs(df: Any, size: int) -> np.ndarray:
+def check_scale_dfs(df: Any, size: int) -> np.ndarray:
     """Degrees of freedom, one per statistic (a single value serves all)."""
-    vals = [_check_df(v) for v in np.ravel(np.asarray(df, dtype=object))]
+    vals = [check_scale_df(v) for v in np.ravel(np.asarray(df, dtype=object))]
     if len(vals) == 1:
         return np.full(size, vals[0])
     if len(vals) != size:
@@ -233,7 +214,6 @@ def _check_dfs(df: Any, size: int) -> np.ndarray:
             "one value, or one per statistic"
         )
     return np.array(vals, dtype=float)
-
 
 # --------------------------------------------------------------------------------------------
 # the outer integral: trapezoid rule in log s on one grid shared by every argument of a call
@@ -268,15 +248,15 @@ def _log_w_const(df: np.ndarray) -> np.ndarray:
     st = np.empty_like(h)
     small = h < 20.0
     hs = h[small]
-    st[small] = special.gammaln(hs) - ((hs - 0.5) * np.log(hs) - hs + _LOG_SQRT_2PI)
+    st[small] = special.gammaln(hs) - ((hs - 0.5) * np.log(hs) - hs + LOG_SQRT_2PI)
     hb = h[~small]
     r = 1.0 / (hb * hb)
     st[~small] = (1.0 / hb) * (1.0 / 12 - r * (1.0 / 360 - r * (1.0 / 1260 - r / 1680)))
-    return math.log(2.0) + 0.5 * np.log(h) - _LOG_SQRT_2PI - st
+    return math.log(2.0) + 0.5 * np.log(h) - LOG_SQRT_2PI - st
 
 
 @dataclass(frozen=True)
-class _Family:
+class Family:
     """One maximum-type distribution: its inner tail and the bounds that place the nodes.
 
     ``inner(r)`` is the known-variance tail at an array of ``r > 0``; every marginal
@@ -323,7 +303,7 @@ class _Table:
         return self._vals[pos][inv]
 
 
-def _regions(c: np.ndarray, df: np.ndarray, const: np.ndarray, fam: _Family
+def _regions(c: np.ndarray, df: np.ndarray, const: np.ndarray, fam: Family
              ) -> tuple[np.ndarray, np.ndarray]:
     """``[t_a, t_b]`` outside which ``w_df(t) tail(c e^t)`` is below exp(-45) of its peak.
 
@@ -346,7 +326,7 @@ def _regions(c: np.ndarray, df: np.ndarray, const: np.ndarray, fam: _Family
 
     def slope(t: np.ndarray) -> np.ndarray:
         x = c * np.exp(t) / fam.rho
-        mills = np.exp(-0.5 * x * x - _LOG_SQRT_2PI - special.log_ndtr(-x))
+        mills = np.exp(-0.5 * x * x - LOG_SQRT_2PI - special.log_ndtr(-x))
         return -df * np.expm1(2.0 * t) - x * mills
 
     lo = np.minimum(-1.0, -np.log(c) - 8.0)
@@ -395,7 +375,7 @@ def _evaluate(c: np.ndarray, df: np.ndarray, const: np.ndarray, t_a: np.ndarray,
     return fine, coarse, deriv
 
 
-def _mixture(c: np.ndarray, df: np.ndarray, fam: _Family, table: _Table
+def _mixture(c: np.ndarray, df: np.ndarray, fam: Family, table: _Table
              ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """``(P, dP/dlog c, accepted)`` for ``0 < c < inf`` and finite df, on the shared grid."""
     m = c.size
@@ -438,7 +418,7 @@ def _mixture(c: np.ndarray, df: np.ndarray, fam: _Family, table: _Table
     return p, dp, ok
 
 
-def _tails(c: np.ndarray, df: np.ndarray, fam: _Family) -> np.ndarray:
+def mixture_tails(c: np.ndarray, df: np.ndarray, fam: Family) -> np.ndarray:
     """Upper tails at ``c`` (c >= 0 or inf) with degrees of freedom ``df`` (may be inf)."""
     out = np.empty(c.size)
     out[c <= 0.0] = 1.0
@@ -452,11 +432,11 @@ def _tails(c: np.ndarray, df: np.ndarray, fam: _Family) -> np.ndarray:
         p, _, ok = _mixture(c[idx], df[idx], fam, _Table(fam.inner))
         out[idx[ok]] = np.clip(p[ok], 0.0, 1.0)
         for j in idx[~ok]:
-            out[j] = _scale_mixture(fam.scalar, float(c[j]), float(df[j]))
+            out[j] = _adaptive_mixture(fam.scalar, float(c[j]), float(df[j]))
     return out
 
 
-def _criticals(alpha: float, df: np.ndarray, lo: np.ndarray, hi: np.ndarray, fam: _Family
+def mixture_criticals(alpha: float, df: np.ndarray, lo: np.ndarray, hi: np.ndarray, fam: Family
                ) -> np.ndarray:
     """The c with tail(c) = alpha for each df, bracketed by [lo, hi] (hi at most 1.001 x
     Bonferroni's value, from which Newton starts)."""
@@ -489,219 +469,6 @@ def _criticals(alpha: float, df: np.ndarray, lo: np.ndarray, hi: np.ndarray, fam
                 return min(1.0, fam.scalar(x))
         else:
             def tail(x: float, d: float = d) -> float:
-                return _scale_mixture(fam.scalar, x, d)
+                return _adaptive_mixture(fam.scalar, x, d)
         out[j] = _solve(tail, alpha, float(lo[j]), float(hi[j]))
     return out
-
-
-# --------------------------------------------------------------------------------------------
-# studentized range
-
-
-def _fixed_panels(lo: float, hi: float) -> tuple[np.ndarray, np.ndarray]:
-    return _panels(_breaks(lo, hi))
-
-
-# the range integrand lives within 8.5 of z = r/2 (see _range_tail_normal): one fixed grid
-_RANGE_Y, _RANGE_W = _fixed_panels(-8.5, 8.5)
-
-
-def _range_tail_normal(r: float, k: int) -> float:
-    """P(R > r) for the range R of k independent standard normal variables.
-
-    The integrand is below ``k^2 phi(z) Phi(z - r) <= k^2 exp(-(z - r/2)^2 - r^2/4) / (2 pi)``,
-    while the result is at least ``2 Phi(-r / sqrt 2)``, and below ``phi(z)`` everywhere; so
-    ``z`` in ``r/2 +/- 8.5`` loses less than 1e-17 of the result for every ``r >= 0``.
-    """
-    if r <= 0.0:
-        return 1.0
-    return float(_range_tail_normal_many(np.array([r]), k)[0])
-
-
-def _range_tail_normal_many(r: np.ndarray, k: int) -> np.ndarray:
-    """:func:`_range_tail_normal` at an array of ``r > 0``, in blocks of rows."""
-    out = np.empty(r.size)
-    step = 1024
-    for s in range(0, r.size, step):
-        rr = r[s:s + step, None]
-        z = _RANGE_Y[None, :] + 0.5 * rr
-        la = special.log_ndtr(z)
-        lb = special.log_ndtr(z - rr)
-        ratio = np.exp(np.minimum(lb - la, 0.0))
-        with np.errstate(divide="ignore"):
-            term = -np.expm1((k - 1) * np.log1p(-ratio))
-        logf = math.log(k) - 0.5 * z * z - _LOG_SQRT_2PI + (k - 1) * la
-        out[s:s + step] = (np.exp(logf) * term) @ _RANGE_W
-    return out
-
-
-def _range_family(k: int) -> _Family:
-    return _Family(
-        inner=lambda r: _range_tail_normal_many(r, k),
-        scalar=lambda r: _range_tail_normal(r, k),
-        rho=math.sqrt(2.0), count=k * (k - 1) // 2, kappa=2.0 + 0.25 * k,
-    )
-
-
-def range_tails(q: Any, k: int, df: Any) -> np.ndarray:
-    """P(Q > q) at many values ``q`` (array-like) for the studentized range of k means.
-
-    ``df`` is one value for all, or one per ``q`` (``inf`` = known variance). One call shares
-    the inner integrals between all arguments, so a whole family of comparisons costs little
-    more than one.
-    """
-    kk = _check_k(k)
-    qv = _check_values(q, "studentized range value")
-    return _tails(qv, _check_dfs(df, qv.size), _range_family(kk))
-
-
-def range_tail(q: float, k: int, df: float) -> float:
-    """P(Q > q) for the studentized range Q of k means with df degrees of freedom.
-
-    ``df`` may be ``inf`` (known variance). Accurate in relative terms far into the tail.
-    """
-    kk = _check_k(k)
-    d = _check_df(df)
-    qv = float(q)
-    if math.isnan(qv):
-        raise InputError("the studentized range value is not a number (NaN)")
-    return float(_tails(np.array([qv]), np.array([d]), _range_family(kk))[0])
-
-
-def range_criticals(alpha: float, k: int, df: Any) -> np.ndarray:
-    """The q with P(Q > q) = alpha for each of many degrees of freedom (array-like)."""
-    a = _check_alpha(alpha)
-    kk = _check_k(k)
-    dfs = np.array([_check_df(v) for v in np.ravel(np.asarray(df, dtype=object))], dtype=float)
-    tq = np.where(np.isinf(dfs), 1.0, dfs)
-    lo = np.where(np.isinf(dfs), stats.norm.isf(a / 2.0), stats.t.isf(a / 2.0, tq))
-    hi = np.where(np.isinf(dfs), stats.norm.isf(a / (kk * (kk - 1))),
-                  stats.t.isf(a / (kk * (kk - 1)), tq))
-    s2 = math.sqrt(2.0)
-    return _criticals(a, dfs, 0.999 * s2 * lo, 1.001 * s2 * hi, _range_family(kk))
-
-
-def range_critical(alpha: float, k: int, df: float) -> float:
-    """The q with P(Q > q) = alpha for the studentized range of k means with df df."""
-    a = _check_alpha(alpha)
-    kk = _check_k(k)
-    d = _check_df(df)
-    return float(range_criticals(a, kk, [d])[0])
-
-
-# --------------------------------------------------------------------------------------------
-# many-to-one (Dunnett)
-
-
-def _check_lambdas(lambdas: Sequence[float]) -> tuple[np.ndarray, np.ndarray]:
-    lam = np.asarray([float(v) for v in lambdas], dtype=np.float64)
-    if lam.size < 1:
-        raise InputError("the many-to-one distribution needs at least one comparison")
-    if not np.all((lam >= 0.0) & (lam < 1.0)):
-        raise InputError("correlation factors must lie in [0, 1)")
-    return lam, np.sqrt((1.0 - lam) * (1.0 + lam))
-
-
-def _many_to_one_nodes(h: float, lam: np.ndarray, sig: np.ndarray
-                       ) -> tuple[np.ndarray, np.ndarray]:
-    hi = math.sqrt(h * h + 80.0)
-    feats = [(h / l, s / l) for l, s in zip(lam.tolist(), sig.tolist()) if l > 0.0]
-    return _panels(_breaks(0.0, hi, feats))
-
-
-def _many_to_one_tail_normal(h: float, lam: np.ndarray, sig: np.ndarray) -> float:
-    """P(max_j |Z_j| > h) for standard normals with correlations lam_i lam_j."""
-    if h <= 0.0:
-        return 1.0
-    u, w = _many_to_one_nodes(h, lam, sig)
-    lu = u[:, None] * lam[None, :]
-    q = special.ndtr((lu - h) / sig) + special.ndtr((-h - lu) / sig)
-    with np.errstate(divide="ignore"):
-        login = np.log1p(-np.minimum(q, 1.0)).sum(axis=1)
-    outside = -np.expm1(login)
-    dens = np.exp(-0.5 * u * u - _LOG_SQRT_2PI)
-    return float(2.0 * np.dot(w, dens * outside))
-
-
-def _many_to_one_tail_normal_many(h: np.ndarray, lam: np.ndarray, sig: np.ndarray,
-                                  mult: np.ndarray) -> np.ndarray:
-    """:func:`_many_to_one_tail_normal` at an array of ``h > 0``; ``lam`` distinct, each
-    standing for ``mult`` equal comparisons. Each h keeps its own panels (zero-padded)."""
-    if np.all((lam <= 0.0) | (sig / np.where(lam > 0.0, lam, 1.0) >= 0.5)):
-        # no step of q_j narrower than a panel: the panels of _breaks(0, hi), for all h at once
-        hi = np.sqrt(h * h + 80.0)
-        count = np.maximum(1, np.ceil(hi / 0.5)).astype(np.int64)
-        half = 0.5 * hi / count
-        j = np.arange(int(count.max()))
-        used = j[None, :] < count[:, None]
-        mid = (2.0 * j[None, :] + 1.0) * half[:, None]
-        uu = (mid[:, :, None] + half[:, None, None] * _GL_X).reshape(h.size, -1)
-        ww = (np.where(used, half[:, None], 0.0)[:, :, None] * _GL_W).reshape(h.size, -1)
-    else:
-        nodes = [_many_to_one_nodes(float(x), lam, sig) for x in h]
-        width = max(len(u) for u, _ in nodes)
-        uu = np.zeros((h.size, width))
-        ww = np.zeros((h.size, width))
-        for row, (u, w) in enumerate(nodes):
-            uu[row, :u.size] = u
-            ww[row, :w.size] = w
-    width = uu.shape[1]
-    out = np.empty(h.size)
-    step = max(1, int(2e6 // (width * lam.size)))
-    for s in range(0, h.size, step):
-        u = uu[s:s + step]
-        hh = h[s:s + step, None, None]
-        lu = u[:, :, None] * lam
-        q = special.ndtr((lu - hh) / sig) + special.ndtr((-hh - lu) / sig)
-        with np.errstate(divide="ignore"):
-            login = np.log1p(-np.minimum(q, 1.0)) @ mult
-        outside = -np.expm1(login)
-        dens = np.exp(-0.5 * u * u - _LOG_SQRT_2PI)
-        out[s:s + step] = 2.0 * (ww[s:s + step] * dens * outside).sum(axis=1)
-    return out
-
-
-def _many_to_one_family(lambdas: Sequence[float]) -> _Family:
-    lam, sig = _check_lambdas(lambdas)
-    dist, mult = np.unique(lam, return_counts=True)
-    dsig = np.sqrt((1.0 - dist) * (1.0 + dist))
-    mult = mult.astype(float)
-    return _Family(
-        inner=lambda h: _many_to_one_tail_normal_many(h, dist, dsig, mult),
-        scalar=lambda h: _many_to_one_tail_normal(h, lam, sig),
-        rho=1.0, count=lam.size, kappa=2.0 + 0.25 * (lam.size + 1),
-    )
-
-
-def many_to_one_tails(c: Any, lambdas: Sequence[float], df: float) -> np.ndarray:
-    """:func:`many_to_one_tail` at many values ``c`` (array-like) sharing lambdas and df."""
-    fam = _many_to_one_family(lambdas)
-    d = _check_df(df)
-    cv = np.abs(_check_values(c, "many-to-one statistic"))
-    return _tails(cv, np.full(cv.size, d), fam)
-
-
-def many_to_one_tail(c: float, lambdas: Sequence[float], df: float) -> float:
-    """P(max_j |T_j| > c), T multivariate t with df df and correlations l_i l_j (two-sided).
-
-    For Dunnett's comparisons of m treatments with a control of size n_0,
-    ``l_i = sqrt(n_i / (n_i + n_0))``.
-    """
-    fam = _many_to_one_family(lambdas)
-    d = _check_df(df)
-    cv = float(c)
-    if math.isnan(cv):
-        raise InputError("the many-to-one statistic is not a number (NaN)")
-    return float(_tails(np.array([abs(cv)]), np.array([d]), fam)[0])
-
-
-def many_to_one_critical(alpha: float, lambdas: Sequence[float], df: float) -> float:
-    """The two-sided critical value c with P(max_j |T_j| > c) = alpha."""
-    a = _check_alpha(alpha)
-    fam = _many_to_one_family(lambdas)
-    d = _check_df(df)
-    m = fam.count
-    t = stats.norm if math.isinf(d) else stats.t(d)
-    lo = 0.999 * float(t.isf(a / 2.0))
-    hi = 1.001 * float(t.isf(a / (2.0 * m)))
-    return float(_criticals(a, np.array([d]), np.array([lo]), np.array([hi]), fam)[0])
