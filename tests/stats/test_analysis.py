@@ -1,11 +1,11 @@
-"""sheetfuncs.stats.analysis and .outcome: every result computed once, for every front."""
+"""sheetfuncs.stats.analysis: every result computed once, for every front."""
 
 from __future__ import annotations
 
 import pytest
 
 import sheetfuncs as sf
-from sheetfuncs.stats import Unavailable, analyse, attempt
+from sheetfuncs.stats import Unavailable, analyse
 
 # Invented data: fill weights (g) from three filling heads; head 3 spreads much more.
 HEADS = {
@@ -56,19 +56,3 @@ def test_bad_options_and_an_impossible_oneway_are_input_errors():
         analyse(HEADS, control="Head 9")
     with pytest.raises(sf.InputError, match="at least two groups"):
         analyse({"A": [1.0, 2.0]})
-
-
-def test_attempt_keeps_bugs_visible_unless_asked():
-    def bad_input():
-        raise sf.InputError("group \"A\" has no numbers")
-
-    def overflow():
-        raise OverflowError("math range error")
-
-    got = attempt("Welch", bad_input)
-    assert got == Unavailable("Welch", 'group "A" has no numbers')
-    with pytest.raises(OverflowError):
-        attempt("Welch", overflow)
-    got = attempt("Welch", overflow, numerical=True)
-    assert isinstance(got, Unavailable) and "math range error" in got.reason
-    assert attempt("sum", lambda: 3) == 3
