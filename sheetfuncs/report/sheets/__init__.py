@@ -23,11 +23,11 @@ from openpyxl.formatting.rule import CellIsRule, FormulaRule
 from openpyxl.styles import Font, PatternFill
 from openpyxl.utils import get_column_letter
 
-from ..stats import Unavailable
-from .context import ReportContext
-from .findings import CAUTIONS, Findings
-from .formats import P_FORMAT, Precision, fixed, format_measure, sig_decimals
-from .grid import Formula, Grid, Style, quote_sheet, safe_text
+from ...stats import Unavailable
+from ..context import ReportContext
+from ..findings import CAUTIONS, Findings
+from ..formats import P_FORMAT, Precision, fixed, format_measure, sig_decimals
+from ..grid import Formula, Grid, Style, quote_sheet, safe_text
 
 __all__ = [
     "DataLayout", "Segment", "NAMES", "build_findings", "build_tables", "build_comparisons",
