@@ -444,10 +444,10 @@ def test_findings_typo_notes_appear_once(tmp_path):
 
 
 def test_findings_percent_wording():
-    from sheetfuncs.report.findings import _percent
+    from sheetfuncs.report.findings import percent_words
 
-    assert _percent(0.004) == "less than 1%"
-    assert _percent(0.25) == "about 25%"
+    assert percent_words(0.004) == "less than 1%"
+    assert percent_words(0.25) == "about 25%"
     fi = findings(prepare(NONE))
     assert "accounts for less than 1%" in fi.text()
 
