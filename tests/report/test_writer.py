@@ -124,10 +124,10 @@ def test_values_chart_stays_within_the_series_limit(tmp_path, monkeypatch):
     # the host allows 255 series per chart (Excel's specifications, from memory); the cap is
     # lowered here so that the many-groups layout is exercised on five groups (a report of 251
     # groups spends most of its time on 31,375 pairwise comparisons)
-    import sheetfuncs.report.sheets as sheets_mod
+    import sheetfuncs.report.sheets.chart as chart_mod
 
-    assert sheets_mod.MAX_GROUP_SERIES + 1 <= 255
-    monkeypatch.setattr(sheets_mod, "MAX_GROUP_SERIES", 4)
+    assert chart_mod.MAX_GROUP_SERIES + 1 <= 255
+    monkeypatch.setattr(chart_mod, "MAX_GROUP_SERIES", 4)
     g = {f"Lot {i}": [1.0 + (i % 7) * 0.1, 1.2 + (i % 5) * 0.1, 1.1] for i in range(5)}
     path = _write(tmp_path, g)
     with zipfile.ZipFile(path) as z:
