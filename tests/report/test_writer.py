@@ -203,6 +203,13 @@ def test_bad_output_paths(tmp_path, name, message):
         write_report(CLEAR, tmp_path / name)
 
 
+@pytest.mark.parametrize("source", ["zones.xlsx", {"path": "zones.xlsx"}])
+def test_a_source_that_is_not_an_input_source_is_refused(tmp_path, source):
+    with pytest.raises(InputError, match=r"^sheetfuncs: the source must be a sheetfuncs\.input\.InputSource or None, not (str|dict);"):
+        write_report(CLEAR, tmp_path / "r.xlsx", source=source)
+    assert list(tmp_path.iterdir()) == []
+
+
 def test_impossible_analysis_writes_nothing(tmp_path):
     with pytest.raises(InputError, match="all values are identical"):
         write_report({"a": [1.0, 1.0], "b": [1.0, 1.0]}, tmp_path / "r.xlsx")
