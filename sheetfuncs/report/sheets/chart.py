@@ -10,7 +10,6 @@ draws all groups as one series (spreadsheet programs allow 255 series per chart)
 from __future__ import annotations
 
 import math
-from typing import Any
 
 import numpy as np
 from openpyxl.chart import LineChart, Reference, ScatterChart, Series
@@ -194,7 +193,8 @@ class _Ref:
         self.title = title
 
 
-def _axes_visible(chart: Any) -> None:
+def _axes_visible(chart: LineChart | ScatterChart) -> None:
+    """Show both axes (some programs hide an axis whose ``delete`` flag is left unset)."""
     for ax in (chart.x_axis, chart.y_axis):
         try:
             ax.delete = False
