@@ -9,13 +9,12 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any
 
-from ..stats import Unavailable, df_text, sentence
+from ..stats import KruskalResult, PairRow, PairwiseResult, Unavailable, WelchResult, df_text, sentence
 from .context import ReportContext
 from .formats import format_measure, format_number, format_p, format_sig
 
-__all__ = ["Findings", "findings", "CAUTIONS", "effect_label"]
+__all__ = ["Findings", "KeyFigure", "findings", "CAUTIONS", "effect_label", "percent_words"]
 
 CAUTIONS = (
     "Statistics support but do not replace engineering judgement.",
@@ -25,6 +24,9 @@ CAUTIONS = (
     "Validate this tool under your organisation's software-validation procedure before using it "
     "for regulated decisions.",
 )
+
+#: One row of the key figures: (figure, value, df, p, reading); value, df and p may be missing.
+KeyFigure = tuple[str, int | float | None, str | None, float | None, str]
 
 
 @dataclass(frozen=True)
@@ -42,7 +44,7 @@ class Findings:
     read_name: str
     headline: str
     sections: tuple[tuple[str, tuple[str, ...]], ...]
-    key_figures: tuple[tuple[str, Any, str | None, Any, str], ...]
+    key_figures: tuple[KeyFigure, ...]
     typo_notes: tuple[str, ...]
 
     def text(self) -> str:
@@ -80,48 +82,27 @@ def _oneway_phrase(an: ReportContext) -> str:
     return f"one-way F test, F({ow.df_between}, {ow.df_within}) = {format_sig(ow.f)}, {format_p(ow.p)}"
 
 
-def _welch_phrase(an: ReportContext) -> str:
-    w = an.welch
+def _welch_phrase(w: WelchResult) -> str:
     return f"Welch's test, F({df_text(w.df1, w.df2)}) = {format_sig(w.statistic)}, {format_p(w.p)}"
 
 
-def _kruskal_phrase(an: ReportContext) -> str:
-    k = an.kruskal
+def _kruskal_phrase(k: KruskalResult) -> str:
     return f"Kruskal–Wallis test, H = {format_sig(k.statistic)} on {k.df} df, {format_p(k.p)}"
 
 
 def _headline(an: ReportContext) -> tuple[str, str, str]:
-    """(verdict, read, headline)."""
+    """(verdict, read, headline). A test the checks point to that could not run is replaced by
+    the one-way F test."""
     a = an.alpha
     read = an.checks.read
     fac, resp = an.factor, an.response
-    if read == "welch" and isinstance(an.welch, Unavailable):
-        read = "oneway"
-    if read == "kruskal" and isinstance(an.kruskal, Unavailable):
-        read = "oneway"
-    if read == "kruskal":
-        f_sig = an.oneway.p < a
-        k_sig = an.kruskal.p < a
-        both = f"{_kruskal_phrase(an)}; {_oneway_phrase(an)}"
-        if f_sig and k_sig:
-            return "differs", read, (
-                f"Yes: {fac} matters. The {resp} is not the same in every group ({both}; both "
-                f"below alpha = {_alpha(a)})."
-            )
-        if not f_sig and not k_sig:
-            return "no difference", read, (
-                f"No clear effect: these data do not show that {fac} changes the {resp} ({both}; "
-                f"neither below alpha = {_alpha(a)}). This does not prove the groups equal."
-            )
-        return "unsettled", read, (
-            f"Unsettled: the two tests disagree ({both}, alpha = {_alpha(a)}). With non-normal "
-            "residuals and small groups the rank test is the safer reading, but treat the "
-            f"question of whether {fac} matters as open: look at the data and, if it matters, "
-            "collect more."
-        )
-    if read == "welch":
-        p, phrase = an.welch.p, _welch_phrase(an)
+    wl, kw = an.welch, an.kruskal
+    if read == "kruskal" and not isinstance(kw, Unavailable):
+        return _rank_headline(an, kw)
+    if read == "welch" and not isinstance(wl, Unavailable):
+        p, phrase = wl.p, _welch_phrase(wl)
     else:
+        read = "oneway"
         p, phrase = an.oneway.p, _oneway_phrase(an)
     if p < a:
         return "differs", read, (
@@ -135,7 +116,32 @@ def _headline(an: ReportContext) -> tuple[str, str, str]:
     )
 
 
-def _pair_sentence(an: ReportContext, row: Any, interval: str) -> str:
+def _rank_headline(an: ReportContext, kw: KruskalResult) -> tuple[str, str, str]:
+    """(verdict, read, headline) when the rank test is read alongside the one-way F test."""
+    a = an.alpha
+    fac, resp = an.factor, an.response
+    f_sig = an.oneway.p < a
+    k_sig = kw.p < a
+    both = f"{_kruskal_phrase(kw)}; {_oneway_phrase(an)}"
+    if f_sig and k_sig:
+        return "differs", "kruskal", (
+            f"Yes: {fac} matters. The {resp} is not the same in every group ({both}; both "
+            f"below alpha = {_alpha(a)})."
+        )
+    if not f_sig and not k_sig:
+        return "no difference", "kruskal", (
+            f"No clear effect: these data do not show that {fac} changes the {resp} ({both}; "
+            f"neither below alpha = {_alpha(a)}). This does not prove the groups equal."
+        )
+    return "unsettled", "kruskal", (
+        f"Unsettled: the two tests disagree ({both}, alpha = {_alpha(a)}). With non-normal "
+        "residuals and small groups the rank test is the safer reading, but treat the "
+        f"question of whether {fac} matters as open: look at the data and, if it matters, "
+        "collect more."
+    )
+
+
+def _pair_sentence(an: ReportContext, row: PairRow) -> str:
     d, (lo, hi) = row.difference, row.ci
     a_lab, b_lab = row.group_a, row.group_b
     if d < 0:
@@ -143,7 +149,7 @@ def _pair_sentence(an: ReportContext, row: Any, interval: str) -> str:
     dec = an.precision.mean
     return (
         f"{_quote(a_lab)} is higher than {_quote(b_lab)} by "
-        f"{an.units(format_measure(d, dec))} ({interval} interval {format_measure(lo, dec)} to "
+        f"{an.units(format_measure(d, dec))} (the interval {format_measure(lo, dec)} to "
         f"{format_measure(hi, dec)}; {format_p(row.p)})."
     )
 
@@ -156,29 +162,34 @@ def _count_phrase(hits: int, pairs: int) -> str:
     return f"{hits} of the {pairs} pair{'' if pairs == 1 else 's'} of groups {verb} clearly"
 
 
-def _hits(res: Any) -> list[Any]:
+def _hits(res: PairwiseResult) -> list[PairRow]:
     return sorted((r for r in res.rows if r.differs), key=lambda r: -abs(r.difference))
 
 
-def _pair_lines(an: ReportContext, res: Any, name: str, lead: str = "") -> list[str]:
-    """A count of the pairs that differ, with one line per pair (largest difference first)."""
-    hits = _hits(res)
-    a = _alpha(an.alpha)
-    if not hits:
-        return [f"{lead}No pair of groups differs clearly ({name} comparisons at alpha = {a})."]
-    interval = getattr(res, "interval", "") or "confidence"
-    out = [f"{lead}{_count_phrase(len(hits), len(res.rows))} ({name} comparisons at alpha = {a}; "
-           f"intervals: {interval}):"]
-    out.extend("• " + _pair_sentence(an, r, "the") for r in hits[:_MAX_PAIRS])
+def _listed(an: ReportContext, hits: list[PairRow]) -> list[str]:
+    """One line per pair that differs (at most twelve), then how many more there are."""
+    out = ["• " + _pair_sentence(an, r) for r in hits[:_MAX_PAIRS]]
     if len(hits) > _MAX_PAIRS:
         out.append(f"… and {len(hits) - _MAX_PAIRS} more pairs; see the Comparisons sheet.")
     return out
 
 
+def _pair_lines(an: ReportContext, res: PairwiseResult, name: str, lead: str = "") -> list[str]:
+    """A count of the pairs that differ, with one line per pair (largest difference first)."""
+    hits = _hits(res)
+    a = _alpha(an.alpha)
+    if not hits:
+        return [f"{lead}No pair of groups differs clearly ({name} comparisons at alpha = {a})."]
+    interval = res.interval or "confidence"
+    return [f"{lead}{_count_phrase(len(hits), len(res.rows))} ({name} comparisons at alpha = {a}; "
+            f"intervals: {interval}):", *_listed(an, hits)]
+
+
 def _p_read(an: ReportContext, read: str) -> float:
-    if read == "welch":
+    """The p-value of the result read (``read`` names one that could run)."""
+    if read == "welch" and not isinstance(an.welch, Unavailable):
         return an.welch.p
-    if read == "kruskal":
+    if read == "kruskal" and not isinstance(an.kruskal, Unavailable):
         return an.kruskal.p
     return an.oneway.p
 
@@ -190,105 +201,135 @@ def _near_alpha(p: float, alpha: float) -> bool:
 
 
 def _differ_section(an: ReportContext, verdict: str, read: str = "oneway") -> tuple[str, ...]:
-    out: list[str] = []
-    pw = an.pairwise
+    """Which groups differ: the pairs read, how they square with the overall test, the compact
+    letters, the comparison with the control, and the Games–Howell reading of unequal spreads."""
     gh = an.unequal_pairs
-    a = an.alpha
     # When Welch's test is read and the chosen method pools the variances, the pairs are read
     # from Games–Howell (which does not pool them) and the pooled method comes second.
     welch_lead = read == "welch" and gh is not None
-    primary: Any = None
-    if welch_lead:
-        lead = ("The group spreads look unequal and Welch's test is the result to read, so the pairs "
-                "are read from the Games–Howell comparisons, which do not pool the variances")
-        if isinstance(gh, Unavailable):
-            out.append(f"{lead}; they could not run: {gh.reason}.")
-        else:
-            primary = gh
-            out.extend(_pair_lines(an, gh, "Games–Howell", lead + ". "))
-        if isinstance(pw, Unavailable):
-            out.append(f"The {an.method_name} comparisons could not run: {pw.reason}.")
-        else:
-            n_pooled = len(_hits(pw))
-            found = ("find no pair that differs clearly" if n_pooled == 0 else
-                     f"find that {_count_phrase(n_pooled, len(pw.rows))}")
-            out.append(
-                f"For reference, the {an.method_name} comparisons (the chosen method) {found}; they "
-                "pool the group variances, which spreads as unequal as these do not support, so "
-                "they are shown on the Comparisons sheet but not read here."
-            )
+    if welch_lead and gh is not None:
+        out, primary = _welch_led_pairs(an, gh)
     else:
-        if isinstance(pw, Unavailable):
-            out.append(f"The {an.method_name} comparisons could not run: {pw.reason}.")
-        else:
-            primary = pw
-            out.extend(_pair_lines(an, pw, an.method_name))
+        out, primary = _method_pairs(an)
     if primary is not None:
-        hits = _hits(primary)
-        if verdict == "differs" and not hits:
-            if _near_alpha(_p_read(an, read), a):
-                out.append(
-                    "The overall test and the pairwise comparisons can disagree near the threshold: "
-                    "the overall difference is not pinned on any single pair."
-                )
-            else:
-                out.append(
-                    "The overall test finds a difference that no single pair pins down: it may be "
-                    "spread over several groups; see the intervals on the Comparisons sheet."
-                )
-        if verdict == "no difference" and hits:
-            out.append(
-                "Some pairs differ although the overall test does not: treat them with care, "
-                "they may be chance findings among many comparisons."
-            )
-    let = an.letters
-    if not isinstance(let, Unavailable):
-        shown = ", ".join(f"{_quote(row[0])} ({row[2]})" for row in let.table()[1:])
-        if welch_lead:
-            out.append(f"Compact letters, from the pooled {an.method_name} comparisons (read them "
-                       f"with the same reserve): groups that share a letter are not shown to differ: {shown}.")
-        else:
-            out.append(f"Groups that share a letter are not shown to differ: {shown}.")
-    dn = an.dunnett
-    if dn is not None:
-        if isinstance(dn, Unavailable):
-            out.append(f"The comparison with the control {_quote(an.control)} could not run: {dn.reason}.")
-        else:
-            hits = [r for r in dn.rows if r.differs]
-            quiet = [r.group_a for r in dn.rows if not r.differs]
-            pooled = ", which pools the group variances" if welch_lead else ""
-            lead = f"Against the control {_quote(an.control)} (Dunnett{pooled}, alpha = {_alpha(a)}): "
-            if hits:
-                parts = []
-                for r in hits:
-                    word = "higher" if r.difference > 0 else "lower"
-                    parts.append(
-                        f"{_quote(r.group_a)} is {word} by "
-                        f"{an.units(format_measure(abs(r.difference), an.precision.mean))} ({format_p(r.p)})"
-                    )
-                text = lead + "; ".join(parts) + "."
-                if quiet:
-                    text += " " + _names(quiet) + (" is" if len(quiet) == 1 else " are") + " not shown to differ."
-            else:
-                text = lead + "no group is shown to differ from the control."
-            out.append(text)
+        out.extend(_overall_and_pairs(an, primary, verdict, read))
+    out.extend(_letters_lines(an, welch_lead))
+    out.extend(_control_lines(an, welch_lead))
     if gh is not None and not welch_lead:
-        lead = ("The group spreads look unequal, so the Games–Howell comparisons (which do not "
-                "pool the variances) are the safer reading of pairs")
-        if isinstance(gh, Unavailable):
-            out.append(f"{lead}, but they could not run: {gh.reason}.")
-        else:
-            hits = _hits(gh)
-            if hits:
-                out.append(f"{lead}: by them {_count_phrase(len(hits), len(gh.rows))} "
-                           f"(intervals: {gh.interval}):")
-                for r in hits[:_MAX_PAIRS]:
-                    out.append("• " + _pair_sentence(an, r, "the"))
-                if len(hits) > _MAX_PAIRS:
-                    out.append(f"… and {len(hits) - _MAX_PAIRS} more pairs; see the Comparisons sheet.")
-            else:
-                out.append(f"{lead}: by them no pair of groups differs clearly (alpha = {_alpha(a)}).")
+        out.extend(_unequal_lines(an, gh))
     return tuple(out)
+
+
+def _not_run(an: ReportContext, pw: Unavailable) -> str:
+    return f"The {an.method_name} comparisons could not run: {pw.reason}."
+
+
+def _method_pairs(an: ReportContext) -> tuple[list[str], PairwiseResult | None]:
+    """The chosen method's pairs, and the comparisons read (``None`` if they could not run)."""
+    pw = an.pairwise
+    if isinstance(pw, Unavailable):
+        return [_not_run(an, pw)], None
+    return _pair_lines(an, pw, an.method_name), pw
+
+
+def _welch_led_pairs(an: ReportContext, gh: PairwiseResult | Unavailable) -> tuple[list[str], PairwiseResult | None]:
+    """The Games–Howell pairs first, then the chosen pooled method for reference; and the
+    comparisons read (``None`` if Games–Howell could not run)."""
+    out: list[str] = []
+    primary: PairwiseResult | None = None
+    lead = ("The group spreads look unequal and Welch's test is the result to read, so the pairs "
+            "are read from the Games–Howell comparisons, which do not pool the variances")
+    if isinstance(gh, Unavailable):
+        out.append(f"{lead}; they could not run: {gh.reason}.")
+    else:
+        primary = gh
+        out.extend(_pair_lines(an, gh, "Games–Howell", lead + ". "))
+    pw = an.pairwise
+    if isinstance(pw, Unavailable):
+        out.append(_not_run(an, pw))
+    else:
+        n_pooled = len(_hits(pw))
+        found = ("find no pair that differs clearly" if n_pooled == 0 else
+                 f"find that {_count_phrase(n_pooled, len(pw.rows))}")
+        out.append(
+            f"For reference, the {an.method_name} comparisons (the chosen method) {found}; they "
+            "pool the group variances, which spreads as unequal as these do not support, so "
+            "they are shown on the Comparisons sheet but not read here."
+        )
+    return out, primary
+
+
+def _overall_and_pairs(an: ReportContext, primary: PairwiseResult, verdict: str, read: str) -> list[str]:
+    """A sentence when the overall test and the pairs read do not tell the same story."""
+    hits = _hits(primary)
+    if verdict == "differs" and not hits:
+        if _near_alpha(_p_read(an, read), an.alpha):
+            return [
+                "The overall test and the pairwise comparisons can disagree near the threshold: "
+                "the overall difference is not pinned on any single pair."
+            ]
+        return [
+            "The overall test finds a difference that no single pair pins down: it may be "
+            "spread over several groups; see the intervals on the Comparisons sheet."
+        ]
+    if verdict == "no difference" and hits:
+        return [
+            "Some pairs differ although the overall test does not: treat them with care, "
+            "they may be chance findings among many comparisons."
+        ]
+    return []
+
+
+def _letters_lines(an: ReportContext, welch_lead: bool) -> list[str]:
+    """The compact letters in words (none when they could not be drawn)."""
+    let = an.letters
+    if isinstance(let, Unavailable):
+        return []
+    shown = ", ".join(f"{_quote(row[0])} ({row[2]})" for row in let.table()[1:])
+    if welch_lead:
+        return [f"Compact letters, from the pooled {an.method_name} comparisons (read them "
+                f"with the same reserve): groups that share a letter are not shown to differ: {shown}."]
+    return [f"Groups that share a letter are not shown to differ: {shown}."]
+
+
+def _control_lines(an: ReportContext, welch_lead: bool) -> list[str]:
+    """Dunnett's comparisons with the control in words (none without a control)."""
+    dn = an.dunnett
+    if dn is None:
+        return []
+    if isinstance(dn, Unavailable):
+        return [f"The comparison with the control {_quote(an.control or '')} could not run: {dn.reason}."]
+    hits = [r for r in dn.rows if r.differs]
+    quiet = [r.group_a for r in dn.rows if not r.differs]
+    pooled = ", which pools the group variances" if welch_lead else ""
+    lead = f"Against the control {_quote(an.control or '')} (Dunnett{pooled}, alpha = {_alpha(an.alpha)}): "
+    if not hits:
+        return [lead + "no group is shown to differ from the control."]
+    parts = []
+    for r in hits:
+        word = "higher" if r.difference > 0 else "lower"
+        parts.append(
+            f"{_quote(r.group_a)} is {word} by "
+            f"{an.units(format_measure(abs(r.difference), an.precision.mean))} ({format_p(r.p)})"
+        )
+    text = lead + "; ".join(parts) + "."
+    if quiet:
+        text += " " + _names(quiet) + (" is" if len(quiet) == 1 else " are") + " not shown to differ."
+    return [text]
+
+
+def _unequal_lines(an: ReportContext, gh: PairwiseResult | Unavailable) -> list[str]:
+    """The Games–Howell reading of the pairs, when the spreads look unequal but the pooled
+    comparisons are read."""
+    lead = ("The group spreads look unequal, so the Games–Howell comparisons (which do not "
+            "pool the variances) are the safer reading of pairs")
+    if isinstance(gh, Unavailable):
+        return [f"{lead}, but they could not run: {gh.reason}."]
+    hits = _hits(gh)
+    if not hits:
+        return [f"{lead}: by them no pair of groups differs clearly (alpha = {_alpha(an.alpha)})."]
+    return [f"{lead}: by them {_count_phrase(len(hits), len(gh.rows))} (intervals: {gh.interval}):",
+            *_listed(an, hits)]
 
 
 def _names(labels: list[str]) -> str:
@@ -318,7 +359,7 @@ def _size_section(an: ReportContext, verdict: str) -> tuple[str, ...]:
     e_lo, e_hi = eff.eta_squared_ci
     cl = f"{an.conf:.0%}"
     out.append(
-        f"{an.factor} accounts for {_percent(eta)} of the variation in {an.response} "
+        f"{an.factor} accounts for {percent_words(eta)} of the variation in {an.response} "
         f"(η² = {format_number(eta, 3)}, {cl} interval {format_number(e_lo, 3)} to "
         f"{format_number(e_hi, 3)}; ω² = {format_number(eff.omega_squared, 3)}, which corrects "
         "η²'s upward bias)."
@@ -343,7 +384,8 @@ def _size_section(an: ReportContext, verdict: str) -> tuple[str, ...]:
     return tuple(out)
 
 
-def _percent(x: float) -> str:
+def percent_words(x: float) -> str:
+    """A share in words: ``about 25%``, ``less than 1%``, ``an undefined share``."""
     if math.isnan(x):
         return "an undefined share"
     if 0 < x < 0.005:
@@ -364,9 +406,8 @@ def _read_section(an: ReportContext, read: str) -> tuple[str, ...]:
             "• The checks point to a test that could not run on these data, so the one-way F "
             "test is read; its p-value may mislead."
         )
-    caution = getattr(an.checks, "caution", None)
-    if caution:
-        out.append(caution)
+    if an.checks.caution:
+        out.append(an.checks.caution)
     return tuple(out)
 
 
@@ -407,7 +448,7 @@ def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...
             notes.append(f"{res.what[:1].upper() + res.what[1:]} not available: {res.reason}.")
     eff = an.effects
     if not isinstance(eff, Unavailable):
-        eff_notes = [n for n in (getattr(eff, "notes", ()) or ()) if n]
+        eff_notes = [n for n in eff.notes if n]
         if read == "oneway":
             notes.extend(sentence(n) for n in eff_notes)
         else:
@@ -431,10 +472,10 @@ def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...
     return tuple(notes), typos
 
 
-def _key_figures(an: ReportContext) -> tuple[tuple[str, Any, str | None, Any, str], ...]:
+def _key_figures(an: ReportContext) -> tuple[KeyFigure, ...]:
     ow = an.oneway
     a = an.alpha
-    rows: list[tuple[str, Any, str | None, Any, str]] = []
+    rows: list[KeyFigure] = []
 
     def reading(p: float) -> str:
         return f"below alpha = {_alpha(a)}" if p < a else f"not below alpha = {_alpha(a)}"

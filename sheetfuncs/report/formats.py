@@ -93,9 +93,6 @@ class Precision:
     def square_format(self, x: object = None) -> str:
         return _fit(x, self.square)
 
-    def stat_format(self, x: float) -> str:
-        return fixed(sig_decimals(x))
-
 
 def _fit(x: object, decimals: int) -> str:
     """``fixed(decimals)``, or scientific when ``x`` is too small to show there."""

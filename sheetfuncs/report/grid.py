@@ -28,7 +28,11 @@ from openpyxl.styles import Alignment, Border, Font, PatternFill, Side
 from openpyxl.utils import get_column_letter
 from openpyxl.worksheet.properties import PageSetupProperties
 
-__all__ = ["Formula", "Style", "Grid", "safe_text", "quote_sheet", "MAX_TEXT"]
+__all__ = [
+    "Formula", "Style", "Grid", "PLAIN", "FONT", "MAX_TEXT", "INFINITE_NOTE", "UNDEFINED_NOTE",
+    "safe_text", "quote_sheet", "cell_ref", "is_number", "apply_style", "make_cell", "shown_width",
+    "set_float", "setup_print",
+]
 
 #: The longest text a cell holds (the host's limit).
 MAX_TEXT = 32767
@@ -183,16 +187,11 @@ class Grid:
     charts: list[tuple[Any, str]] = field(default_factory=list)
     landscape: bool = False
     print_rows: str | None = None
-    special: dict[str, int] = field(default_factory=lambda: {"infinite": 0, "undefined": 0})
     merges: list[tuple[int, int, int, int]] = field(default_factory=list)
 
     @property
     def max_row(self) -> int:
         return max((r for r, _ in self.cells), default=0)
-
-    @property
-    def max_col(self) -> int:
-        return max((c for _, c in self.cells), default=0)
 
     def put(self, row: int, col: int, value: Any, style: Style = PLAIN, comment: str | None = None) -> None:
         """Place a value. Numbers stay numbers; inf and NaN become the texts ``infinite`` and
@@ -201,11 +200,9 @@ class Grid:
             v = float(value)
             if math.isnan(v):
                 value, comment = "undefined", comment or UNDEFINED_NOTE
-                self.special["undefined"] += 1
             elif math.isinf(v):
                 value = "infinite" if v > 0 else "minus infinite"
                 comment = comment or INFINITE_NOTE
-                self.special["infinite"] += 1
             elif isinstance(value, (np.integer, int)):
                 value = int(value)
             else:
@@ -252,9 +249,6 @@ class Grid:
 
     def ref(self, row: int, col: int, absolute: bool = True) -> str:
         return cell_ref(self.name, row, col, absolute)
-
-    def width(self, col: int, chars: float) -> None:
-        self.widths[col] = max(self.widths.get(col, 0.0), chars)
 
     def auto_widths(self, minimum: float = 6.0, maximum: float = 60.0, skip: set[int] | None = None) -> None:
         """Size columns from their contents (text length, about 12 characters for numbers)."""
@@ -379,11 +373,6 @@ def set_float(cell: Any, value: float) -> None:
     """
     cell._value = repr(value)
     cell.data_type = "n"
-
-
-def text_cell(ws: Any, value: str, style: Style = PLAIN) -> Any:
-    """A reusable text cell for streaming (the Data sheets' labels)."""
-    return make_cell(ws, value, style)
 
 
 def setup_print(ws: Any, landscape: bool, print_rows: str | None) -> None:

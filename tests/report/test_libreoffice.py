@@ -7,7 +7,7 @@ SUMIF, SUMPRODUCT, DEVSQ and F.DIST.RT over the Data sheets) must equal the Pyth
 exactly 0 in Python, such as SS between for equal group means, is compared at the scale of the
 analysis, as the Audit sheet's own check does), on the built-in demo, on NIST StRD SmLs09 (13
 constant leading digits; certified values from NIST), on every Findings scenario of
-tests/test_report.py, on an infinite-F report and on an equal-means report. All reports are
+tests/report/test_findings.py, on an infinite-F report and on an equal-means report. All reports are
 recalculated in ONE LibreOffice call (it accepts many files), and the demo and the
 unequal-spreads scenario are rendered to PDF and PNG in a second one, to keep the run short.
 """
@@ -24,25 +24,16 @@ from tests.support import nist
 from sheetfuncs import as_groups, oneway
 from sheetfuncs.input.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
 from sheetfuncs.report import write_report
-from tests.support.scenarios import CLEAR, EQUAL_MEANS, NONE, UNEQUAL
+from tests.support.scenarios import CLEAR, EQUAL_MEANS, INFINITE, NAMES, NONE, OVENS, UNEQUAL, name_cell
 
-NAMES = ("ss_between", "ss_within", "df_between", "df_within", "f_ratio", "p_value")
-
-# invented: cure time (min) of three ovens, each with one slow outlier (the rank-test scenario
-# of tests/test_report.py)
-OVENS = {"Oven 1": [5.1, 5.2, 5.0, 5.3, 5.1, 5.2, 5.0, 7.9],
-         "Oven 2": [5.6, 5.5, 5.7, 5.6, 5.4, 5.5, 5.7, 8.3],
-         "Oven 3": [5.2, 5.1, 5.3, 5.2, 5.0, 5.3, 5.1, 8.0]}
-# invented: no variation within groups, so F is infinite (written as the text "infinite")
-INFINITE = {"a": [1.0, 1.0, 1.0], "b": [2.0, 2.0, 2.0], "c": [3.0]}
+# invented: formula-like labels and two labels that differ only in case
 SPLIT = {"=SUM(A1)": [10.2, 10.4, 10.1, 10.3], "+1": [10.8, 10.9, 10.7, 11.0],
          "-x": [10.0, 10.2, 10.1, 9.9], "@y": [10.5, 10.3, 10.6, 10.4],
          "lot a": [10.1, 10.0, 10.3], "lot A": [10.6, 10.4, 10.5]}
 
 
 def _value(wb, name):
-    (sheet, coord), = list(wb.defined_names[name].destinations)
-    return wb[sheet][coord.replace("$", "")].value
+    return name_cell(wb, name).value
 
 
 def _expected(res):

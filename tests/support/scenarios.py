@@ -1,6 +1,14 @@
-"""Invented scenarios (numbers made up for the tests) shared by the report tests."""
+"""Invented scenarios (numbers made up for the tests) shared by the report tests, and the
+helpers that read a written report back."""
 
 from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+import openpyxl
+
+from sheetfuncs.report import write_report
 
 # Invented scenarios for the Findings text (numbers made up for these tests).
 CLEAR = {  # fill weight (g) of three filling lines; line B runs heavy
@@ -25,3 +33,40 @@ UNEQUAL = {  # bore diameter (mm) from three suppliers; supplier 3 is far more v
 # bit (LibreOffice recalculates SS between as about 1e-33)
 _SEVEN = [5.9, 5.2, 5.5, 4.9, 5.8, 4.1, 5.3]
 EQUAL_MEANS = {f"Head {i + 1}": _SEVEN[i:] + _SEVEN[:i] for i in range(3)}
+
+# invented: cure time (min) of three ovens, each with one slow outlier -> non-normal residuals in
+# small groups: the checks read Kruskal–Wallis alongside the F test, and here the two disagree
+OVENS = {"Oven 1": [5.1, 5.2, 5.0, 5.3, 5.1, 5.2, 5.0, 7.9],
+         "Oven 2": [5.6, 5.5, 5.7, 5.6, 5.4, 5.5, 5.7, 8.3],
+         "Oven 3": [5.2, 5.1, 5.3, 5.2, 5.0, 5.3, 5.1, 8.0]}
+# invented: no variation within groups, so F is infinite (written as the text "infinite"); the
+# group "c" has one value, so its SD is undefined
+INFINITE = {"a": [1.0, 1.0, 1.0], "b": [2.0, 2.0, 2.0], "c": [3.0]}
+
+
+# ---------------------------------------------------------------------------------------------
+# reading a written report back
+
+#: The workbook-level names a report defines for its key figures (each has an "audit_" twin).
+NAMES = ("ss_between", "ss_within", "df_between", "df_within", "f_ratio", "p_value")
+
+
+def write_in(folder: Path, groups: Any, name: str = "r.xlsx", **kw: Any) -> Path:
+    """A report of ``groups`` written as ``folder / name`` (options as for write_report)."""
+    return write_report(groups, folder / name, **kw)
+
+
+def cells_text(ws: Any) -> str:
+    """Every non-empty cell of a worksheet as text, one per line."""
+    return "\n".join(str(c.value) for row in ws.iter_rows() for c in row if c.value is not None)
+
+
+def name_cell(wb: Any, name: str) -> Any:
+    """The cell a workbook-level name points at."""
+    (sheet, coord), = list(wb.defined_names[name].destinations)
+    return wb[sheet][coord.replace("$", "")]
+
+
+def findings_text(path: Path) -> str:
+    """The text of a written report's Findings sheet."""
+    return cells_text(openpyxl.load_workbook(path)["Findings"])

@@ -1,0 +1,135 @@
+"""The About sheet: the input, the options, the software and arithmetic, the published source of
+every method (:mod:`.references`) and the cautions."""
+
+from __future__ import annotations
+
+import platform
+from typing import Any
+
+import numpy as np
+
+from ...input import InputSource
+from ...stats import ExactMoments
+from ..context import ReportContext
+from ..findings import CAUTIONS
+from ..grid import Grid, Style
+from .references import REFERENCES, reference_keys
+from .styles import HEADING, INT_STYLE, KEY, TEXT, put_title
+
+__all__ = ["build_about"]
+
+_LAYOUT_WORDS = {"wide": "wide (one group per column)", "long": "long (label and value columns)",
+                 "rowwise": "one group per row", "python": "Python sequences"}
+_LABEL_WORDS = {"range": "read from the range", "default": "numbered (Group 1, Group 2, …)",
+                "given": "given with the data"}
+
+
+class _Lines:
+    """Writes the About sheet down its rows: headings, key-value items and bullets."""
+
+    def __init__(self, grid: Grid, row: int) -> None:
+        self.g = grid
+        self.r = row
+
+    def section(self, title: str) -> None:
+        self.g.put(self.r, 1, title, HEADING)
+        self.r += 1
+
+    def item(self, key: str, value: Any, style: Style = TEXT) -> None:
+        self.g.put(self.r, 1, key, KEY)
+        self.g.put(self.r, 2, value, style)
+        if isinstance(value, str):
+            self.g.merge(self.r, 2, self.r, 4)
+        self.r += 1
+
+    def bullet(self, text: str) -> None:
+        self.g.put(self.r, 1, "•", Style(halign="right", valign="top"))
+        self.g.put(self.r, 2, text, TEXT)
+        self.g.merge(self.r, 2, self.r, 4)
+        self.r += 1
+
+    def gap(self) -> None:
+        self.r += 1
+
+
+def build_about(an: ReportContext, *, source: InputSource | None, written: str, version: str,
+                data_sheets: tuple[str, ...]) -> Grid:
+    """The About sheet of ``an``, read from ``source``, written at ``written`` by sheetfuncs
+    ``version``, with its data on ``data_sheets``."""
+    g = Grid("About")
+    put_title(g, "About this report", "Inputs, options, software and the methods behind every figure")
+    out = _Lines(g, 4)
+    out.section("Input")
+    _input_items(out, an, source, data_sheets)
+    out.gap()
+    out.section("Options")
+    _option_items(out, an)
+    out.gap()
+    out.section("Software and arithmetic")
+    _software_items(out, an, version, written)
+    out.gap()
+    out.section("Method references")
+    for key in reference_keys(an):
+        out.bullet(REFERENCES[key])
+    out.gap()
+    out.section("Cautions")
+    for c in CAUTIONS:
+        out.bullet(c)
+    g.widths = {1: 32.0, 2: 40.0, 3: 30.0, 4: 30.0}
+    g.freeze = "A3"
+    return g
+
+
+def _input_items(out: _Lines, an: ReportContext, source: InputSource | None, data_sheets: tuple[str, ...]) -> None:
+    gr = an.groups
+    if source is not None and source.path:
+        out.item("File", str(source.path))
+        if source.sheet:
+            out.item("Sheet", str(source.sheet))
+        out.item("First cell of the range", source.address(0, 0))
+    else:
+        out.item("Source", "data passed from Python (no file)")
+    out.item("Layout", _LAYOUT_WORDS.get(gr.layout, gr.layout))
+    out.item("Labels", _LABEL_WORDS.get(gr.label_source, gr.label_source))
+    left_int = INT_STYLE.but(halign="left")
+    out.item("Groups", gr.k, left_int)
+    out.item("Values used", gr.n_total, left_int)
+    out.item("Input cells not used", len(gr.cells), left_int)
+    out.item("Data sheets", ", ".join(data_sheets))
+
+
+def _option_items(out: _Lines, an: ReportContext) -> None:
+    out.item("alpha (significance level)", an.alpha, Style(num="0.####", halign="left"))
+    out.item("Confidence level of intervals", an.conf, Style(num="0.##%", halign="left"))
+    out.item("Pairwise method", an.method_name)
+    out.item("Control group (Dunnett)", an.control if an.control is not None else "none")
+    out.item("Factor", an.factor)
+    out.item("Response", an.response)
+    out.item("Unit", an.unit or "none given")
+    out.item("Title", an.title)
+
+
+def _software_items(out: _Lines, an: ReportContext, version: str, written: str) -> None:
+    out.item("sheetfuncs version", version)
+    out.item("Python, numpy, scipy, openpyxl", _versions())
+    out.item("Written (UTC)", written)
+    mom = an.moments
+    if isinstance(mom, ExactMoments):  # the decimal-exact path (an.exact)
+        scale = mom.scale
+        out.item("Arithmetic", "decimal-exact path: every value was read as its shortest decimal; counts, "
+                 "sums and sums of squares were accumulated exactly as integers and the sums of "
+                 f"squares rounded once at the end (the data carry {scale} decimal"
+                 f"{'' if scale == 1 else 's'}).")
+    else:
+        out.item("Arithmetic", "floating-point path: some values have more than 15 significant digits "
+                 "(typically formula results); per-group two-pass sums of squares with the "
+                 "corrected-sum term.")
+    out.item("Centring constant (Audit)", f"{an.centre:f}")
+    out.item("p-values", "upper tails from survival functions (never 1 − cdf), accurate far into the tail")
+
+
+def _versions() -> str:
+    import openpyxl
+    import scipy
+
+    return f"Python {platform.python_version()}, numpy {np.__version__}, scipy {scipy.__version__}, openpyxl {openpyxl.__version__}"
