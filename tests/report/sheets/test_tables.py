@@ -7,7 +7,7 @@ from scipy import stats
 
 from sheetfuncs import oneway
 from sheetfuncs.input.demo import DEMO_FACTOR
-from sheetfuncs.stats.assumptions import checks
+from sheetfuncs.stats import checks
 from sheetfuncs.stats.effects import effect_sizes
 
 from tests.support.scenarios import name_cell
