@@ -21,3 +21,11 @@ def test_no_control_no_dunnett_and_every_method_has_a_source():
     for method in ("tukey", "games-howell", "bonferroni", "holm", "sidak", "scheffe"):
         assert reference_keys(prepare(CLEAR, method=method)).count(method) == 1
         assert REFERENCES[method]
+
+
+def test_book_titles_are_cited_as_published():
+    # from memory: the titles of the two books (Montgomery; Cohen 1988), which a code rename
+    # once changed
+    assert "Design and Analysis of Experiments" in REFERENCES["oneway"]
+    assert "Statistical Power Analysis for the Behavioral Sciences" in REFERENCES["effects"]
+    assert not any("Context" in text for text in REFERENCES.values())
