@@ -1,9 +1,11 @@
 """sheetfuncs, exact one-way analysis of variance for spreadsheet users.
 
-The core is pure functions on numbers returning frozen result objects; the worksheet functions
-(:mod:`sheetfuncs.udfs`, the only module that imports xlwings), the report writer
-(:func:`sheetfuncs.report.write_report`) and the command line only convert arguments in and shape
-results out.
+The layers, with imports running only downward: :mod:`~sheetfuncs.input` (from cells to
+groups), :mod:`~sheetfuncs.distributions`, :mod:`~sheetfuncs.stats` (the pure core: functions on
+numbers returning frozen result objects), then the fronts, which only convert arguments in and
+shape results out: :mod:`~sheetfuncs.worksheet` (the live worksheet functions, handed to xlwings
+by :mod:`sheetfuncs.udfs`), :mod:`~sheetfuncs.report` (the headless report writer) and
+:mod:`~sheetfuncs.cli` (the command line). This module is the public API of the library.
 """
 
 from .errors import InputError
