@@ -31,7 +31,7 @@ def analysis(loaded: LoadedGroups, alpha: float, factor: str) -> tuple[Any, Any,
     """The checks, the group summary and the one-way table (rows named by ``factor``)."""
     from ..stats import analyse
 
-    an = analyse(loaded.groups, alpha=alpha)
+    an = analyse(loaded.groups, alpha=alpha, conf=0.95)  # group intervals at 95 %, whatever alpha
     return an.checks, an.describe, an.oneway.table(factor)
 
 

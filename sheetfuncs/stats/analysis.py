@@ -17,8 +17,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from ..errors import InputError
-from ..input import Groups, as_groups, format_label
-from ..input import check_alpha
+from ..input import Groups, as_groups, check_alpha, check_conf, format_label
 from .alternatives import KruskalResult, WelchResult
 from .checks import ChecksResult, checks
 from .comparisons import METHOD_NAMES, PairwiseResult, dunnett, pairwise, parse_method
@@ -36,8 +35,8 @@ __all__ = ["Analysis", "analyse"]
 class Analysis:
     """Every result of one analysis (``Unavailable`` where an analysis could not run).
 
-    ``alpha`` is the significance level and ``conf = 1 - alpha`` the confidence level of every
-    interval; ``method`` the pairwise method (canonical name) and ``control`` the control's
+    ``alpha`` is the significance level and ``conf`` the confidence level of the group and
+    effect-size intervals (``1 - alpha`` unless given); ``method`` the pairwise method (canonical name) and ``control`` the control's
     label or ``None``; ``welch`` and ``kruskal`` are the checks' own results (or
     ``Unavailable`` with the checks' reason); ``pairwise`` are the comparisons the ``letters``
     were drawn from; ``unequal_pairs`` holds Games–Howell comparisons when the checks find
@@ -95,16 +94,20 @@ def _checked(result: Any, what: str, chk: ChecksResult) -> Any:
     return Unavailable(what, dict(chk.not_available).get(what, "not available"))
 
 
-def analyse(groups: Any, *, alpha: Any = 0.05, method: Any = "tukey", control: Any = None) -> Analysis:
-    """Run every analysis once (see the module docstring); intervals are at ``1 - alpha``."""
+def analyse(
+    groups: Any, *, alpha: Any = 0.05, method: Any = "tukey", control: Any = None, conf: Any = None
+) -> Analysis:
+    """Run every analysis once (see the module docstring). The group intervals and the effect
+    sizes' intervals are at ``conf``, by default ``1 - alpha``; the comparisons' intervals are
+    at ``1 - alpha``."""
     g = as_groups(groups)
     a = check_alpha(alpha)
+    level = 1.0 - a if conf is None else check_conf(conf)
     m = parse_method(method)
     require_two_groups(g)
     ctrl = control_label(control, g)
     mom = compute_moments(g)
     ow = oneway_from_moments(g, mom)
-    conf = 1.0 - a
     chk = checks(g, a, moments=mom, oneway=ow)
     let = attempt("letters", lambda: letters(g, m, a))
     shared = getattr(let, "comparisons", None)
@@ -116,10 +119,10 @@ def analyse(groups: Any, *, alpha: Any = 0.05, method: Any = "tukey", control: A
     if chk.variances_unequal and m != "games-howell":
         gh = attempt(METHOD_NAMES["games-howell"], lambda: pairwise(g, "games-howell", a))
     return Analysis(
-        groups=g, alpha=a, conf=conf, method=m, control=ctrl, moments=mom, oneway=ow,
-        describe=describe(g, conf), checks=chk,
+        groups=g, alpha=a, conf=level, method=m, control=ctrl, moments=mom, oneway=ow,
+        describe=describe(g, level), checks=chk,
         welch=_checked(chk.welch, "Welch", chk), kruskal=_checked(chk.kruskal, "Kruskal-Wallis", chk),
-        effects=attempt("effect sizes", lambda: effect_sizes(g, conf)),
+        effects=attempt("effect sizes", lambda: effect_sizes(g, level)),
         pairwise=pw,
         dunnett=attempt("Dunnett", lambda: dunnett(g, ctrl, a)) if ctrl is not None else None,
         letters=let, unequal_pairs=gh,

@@ -48,14 +48,13 @@ from typing import Any, ClassVar
 from scipy import stats
 
 from ..errors import InputError
-from ..distributions import f_critical, f_tail
-from ..input import Groups, as_groups, format_label
-from .moments import TOO_LARGE, ExactMoments, FloatMoments, compute_moments, rounded
 from ..distributions import (
-    many_to_one_critical, many_to_one_tails, range_critical, range_criticals, range_tails,
+    f_critical, f_tail, many_to_one_critical, many_to_one_tails, range_critical, range_criticals,
+    range_tails,
 )
+from ..input import Groups, as_groups, check_alpha, format_label, shown
+from .moments import TOO_LARGE, ExactMoments, FloatMoments, compute_moments, rounded
 from .oneway import oneway_from_moments, require_two_groups
-from ..input import check_alpha, shown
 from .interval import Interval
 
 __all__ = ["METHODS", "METHOD_NAMES", "PairRow", "PairwiseResult", "pairwise", "dunnett", "parse_method"]

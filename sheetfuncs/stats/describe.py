@@ -18,9 +18,8 @@ from typing import Any, ClassVar
 import numpy as np
 from scipy import stats
 
-from ..input import as_groups
+from ..input import as_groups, check_conf
 from .moments import check_float_zero_spread, check_ss_range, compute_moments
-from ..input import check_conf
 from .interval import Interval
 
 __all__ = ["GroupSummary", "DescribeResult", "describe"]

@@ -38,10 +38,9 @@ from scipy import optimize, stats
 
 from ..errors import InputError
 from ..distributions import check_df, ncf_cdf
-from ..input import as_groups
+from ..input import as_groups, check_conf, shown
 from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
-from ..input import check_conf, shown
 from .interval import Interval
 
 __all__ = ["EffectSizes", "effect_sizes", "noncentrality_interval"]

@@ -23,12 +23,11 @@ from scipy import stats
 
 from ..errors import InputError
 from ..distributions import f_tail
-from ..input import Groups, as_groups, format_label
+from ..input import Groups, as_groups, as_real, check_conf, format_label, one_line, shown
 from .moments import (
     ExactMoments, FloatMoments, check_float_zero_spread, check_ss_range, compute_moments, rounded,
 )
 from .oneway import require_two_groups
-from ..input import as_real, check_conf, one_line, shown
 from .interval import Interval
 
 __all__ = ["LinearTestResult", "ContrastResult", "linear_test", "contrast", "per_group_argument"]

@@ -21,9 +21,8 @@ from typing import Any, ClassVar
 import numpy as np
 
 from ..errors import InputError
-from ..input import as_real, one_line, shown
+from ..input import Groups, as_groups, as_real, first_duplicate, format_label, one_line, shown
 from ..distributions import f_tail
-from ..input import Groups, first_duplicate, as_groups, format_label
 from .moments import (
     ExactMoments, FloatMoments, check_float_zero_spread, check_ss_range, compute_moments,
     decimal_parts, rounded,

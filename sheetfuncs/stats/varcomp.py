@@ -41,10 +41,9 @@ from typing import Any, ClassVar
 from scipy import stats
 
 from ..distributions import f_critical
-from ..input import as_groups
+from ..input import as_groups, check_conf
 from .moments import compute_moments
 from .oneway import oneway_from_moments, require_two_groups
-from ..input import check_conf
 from .interval import Interval
 
 __all__ = ["VarianceComponents", "variance_components"]

@@ -56,3 +56,14 @@ def test_bad_options_and_an_impossible_oneway_are_input_errors():
         analyse(HEADS, control="Head 9")
     with pytest.raises(sf.InputError, match="at least two groups"):
         analyse({"A": [1.0, 2.0]})
+
+
+def test_the_interval_level_is_one_minus_alpha_unless_given():
+    # common practice: intervals at 1 - alpha; the command line's table keeps 95 % group intervals
+    assert analyse(HEADS, alpha=0.01).describe == sf.describe(HEADS, 0.99)
+    an = analyse(HEADS, alpha=0.01, conf=0.95)
+    assert an.conf == 0.95 and an.describe == sf.describe(HEADS, 0.95)
+    assert an.effects == sf.effect_sizes(HEADS, 0.95)
+    assert an.pairwise == sf.pairwise(HEADS, "tukey", 0.01)  # comparisons stay at alpha
+    with pytest.raises(sf.InputError, match="confidence level"):
+        analyse(HEADS, conf=1.5)
