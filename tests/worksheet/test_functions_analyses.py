@@ -188,16 +188,14 @@ def test_blanks_text_logicals_and_blank_columns_ignored(name: str) -> None:
     data = wide(GROUPS)
     data.insert(3, ["retest", True, None])  # text, a logical and a blank among the values
     data.append(["", None, "seal torn"])
-    for r in data:  # an all-blank column in the middle and one at the right edge
-        r.insert(1, None)
-        r.append(None)
+    ranges.with_blank_columns(data)  # an all-blank column in the middle and one at the right edge
     assert call_on(name, data) == expected(name, GROUPS)
 
 
 @pytest.mark.parametrize("name", DATA_FUNCTIONS)
 def test_decimal_numbers_count_like_floats(name: str) -> None:
     # currency-formatted cells arrive as decimal.Decimal
-    data = [[decimal.Decimal(repr(v)) if isinstance(v, float) else v for v in r] for r in wide(GROUPS)]
+    data = ranges.as_decimals(wide(GROUPS))
     assert call_on(name, data) == expected(name, GROUPS)
 
 
