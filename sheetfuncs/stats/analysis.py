@@ -110,9 +110,8 @@ def analyse(
     ow = oneway_from_moments(g, mom)
     chk = checks(g, a, moments=mom, oneway=ow)
     let = attempt("letters", lambda: letters(g, m, a))
-    shared = getattr(let, "comparisons", None)
-    if isinstance(shared, PairwiseResult) and shared.method == m and shared.alpha == a:
-        pw = shared  # the very comparisons the letters were drawn from
+    if isinstance(let, LettersResult):
+        pw: PairwiseResult | Unavailable = let.comparisons  # the comparisons the letters were drawn from
     else:
         pw = attempt(METHOD_NAMES[m], lambda: pairwise(g, m, a))
     gh = None
