@@ -16,7 +16,7 @@ from ..input import InputSource
 from .parser import UsageError
 
 __all__ = [
-    "check_output_folder", "check_report_name", "os_reason", "same_file", "write_report_file",
+    "check_output_folder", "check_report_name", "os_reason", "write_report_file",
 ]
 
 
@@ -25,16 +25,6 @@ def os_reason(e: OSError, what: str | os.PathLike[str] | None = None) -> str:
     where = e.filename if e.filename is not None else what
     reason = e.strerror or str(e) or type(e).__name__
     return f"{where}: {reason}" if where is not None else reason
-
-
-def same_file(a: Path, b: Path) -> bool:
-    """Whether two paths name the same file (the same file on disk, or the same full path)."""
-    try:
-        if a.exists() and b.exists():
-            return os.path.samefile(a, b)
-    except OSError:
-        pass
-    return os.path.normcase(str(a.resolve())) == os.path.normcase(str(b.resolve()))
 
 
 def check_report_name(path: Path) -> None:

@@ -15,9 +15,9 @@ from collections.abc import Sequence
 from pathlib import Path
 
 from ..errors import InputError, message
-from ..input import read_groups
+from ..input import read_groups, same_file
 from .files import (
-    check_output_folder, check_report_name, os_reason, same_file, write_report_file,
+    check_output_folder, check_report_name, os_reason, write_report_file,
 )
 from .parser import UsageError, read_options
 from .progress import Progress

@@ -13,7 +13,8 @@ from .cells import (
 )
 from .demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups, demo_rows
 from .files import (
-    DEFAULT_SIZE_LIMIT, CellBlock, LoadedGroups, read_cells, read_groups, workbook_properties,
+    DEFAULT_SIZE_LIMIT, CellBlock, LoadedGroups, read_cells, read_groups, same_file,
+    workbook_properties,
 )
 from .groups import CellNote, Groups, as_groups, first_duplicate, format_label
 from .options import (
@@ -27,7 +28,7 @@ __all__ = [
     "cell_position", "column_letters", "column_number", "error_text", "parse_range",
     "DEMO_FACTOR", "DEMO_RESPONSE", "DEMO_TITLE", "DEMO_UNIT", "demo_groups", "demo_rows",
     "DEFAULT_SIZE_LIMIT", "CellBlock", "LoadedGroups", "read_cells", "read_groups",
-    "workbook_properties",
+    "same_file", "workbook_properties",
     "CellNote", "Groups", "as_groups", "first_duplicate", "format_label", "groups_from_long", "groups_from_range",
     "as_real", "check_alpha", "check_conf", "check_number", "check_probability", "one_line",
     "shown",

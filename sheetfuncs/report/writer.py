@@ -17,7 +17,7 @@ from openpyxl import Workbook
 from openpyxl.workbook.defined_name import DefinedName
 
 from ..errors import InputError
-from ..input import InputSource
+from ..input import InputSource, same_file
 from .context import ReportContext, prepare
 from .findings import findings
 from .grid import safe_text
@@ -70,7 +70,7 @@ def _check_target(path: Any, force: bool, source: InputSource | None) -> Path:
         raise InputError(f"the folder {str(folder)!r} does not exist; create it first")
     if target.is_dir():
         raise InputError(f"{str(target)!r} is a folder; give a file name ending in .xlsx")
-    if source is not None and source.path and _same_file(target, Path(os.fspath(source.path)).expanduser()):
+    if source is not None and source.path and same_file(target, Path(os.fspath(source.path)).expanduser()):
         raise InputError(
             f"the output {str(target)!r} is the input file; the input is never "
             "overwritten: choose another output name"
@@ -81,16 +81,6 @@ def _check_target(path: Any, force: bool, source: InputSource | None) -> Path:
             "to replace it, or choose another name"
         )
     return target
-
-
-def _same_file(target: Path, sp: Path) -> bool:
-    """Whether the output ``target`` is the input ``sp`` (the same file, or the same path)."""
-    same = False
-    try:
-        same = target.exists() and sp.exists() and os.path.samefile(target, sp)
-    except OSError:
-        same = False
-    return same or target.resolve() == sp.resolve()
 
 
 def build_workbook(an: ReportContext, *, source: InputSource | None = None, progress: Progress | None = None,

@@ -3,12 +3,11 @@ the same file under two names, and file-system errors as one line."""
 
 from __future__ import annotations
 
-import os
 from pathlib import Path
 
 import pytest
 
-from sheetfuncs.cli.files import check_output_folder, check_report_name, os_reason, same_file
+from sheetfuncs.cli.files import check_output_folder, check_report_name, os_reason
 from sheetfuncs.cli.parser import UsageError
 from sheetfuncs.errors import InputError
 
@@ -24,16 +23,6 @@ def test_the_output_folder_must_exist(tmp_path):
     check_output_folder(tmp_path / "r.xlsx")
     with pytest.raises(InputError, match="the folder .*nowhere does not exist; create it"):
         check_output_folder(tmp_path / "nowhere" / "r.xlsx")
-
-
-def test_same_file_under_two_names(tmp_path, monkeypatch):
-    monkeypatch.chdir(tmp_path)
-    (tmp_path / "lots.xlsx").write_bytes(b"x")
-    assert same_file(Path("lots.xlsx"), tmp_path / "sub" / ".." / "lots.xlsx")
-    assert same_file(Path("new.xlsx"), Path("./new.xlsx"))  # neither exists yet
-    assert not same_file(Path("lots.xlsx"), Path("other.xlsx"))
-    os.link(tmp_path / "lots.xlsx", tmp_path / "hard.xlsx")
-    assert same_file(Path("hard.xlsx"), Path("lots.xlsx"))  # one file on disk
 
 
 def test_os_reason_names_the_file():

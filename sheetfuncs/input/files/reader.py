@@ -31,6 +31,7 @@ if TYPE_CHECKING:
     from typing_extensions import Unpack
 
 __all__ = [
+    "same_file",
     "WORKBOOK_SUFFIXES",
     "CSV_SUFFIXES",
     "LoadedGroups",
@@ -204,3 +205,14 @@ def _where(block: CellBlock) -> str:
     if block.source.sheet:
         return f"{block.ref} of sheet \"{block.source.sheet}\" in {name}"
     return f"{block.ref} of {name}" if block.ref else name
+
+
+def same_file(a: Path, b: Path) -> bool:
+    """Whether two paths name the same file: one file on disk, or the same full path (so that a
+    file not written yet still counts). Used to keep an output from overwriting an input."""
+    try:
+        if a.exists() and b.exists():
+            return os.path.samefile(a, b)
+    except OSError:
+        pass
+    return os.path.normcase(str(a.resolve())) == os.path.normcase(str(b.resolve()))

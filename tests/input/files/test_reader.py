@@ -6,6 +6,7 @@ Numeric checks name their source: the NIST StRD one-way datasets (certified valu
 from __future__ import annotations
 
 import math
+import os
 import subprocess
 import sys
 from pathlib import Path
@@ -18,7 +19,7 @@ from tests.support.workbooks import lots_book, make_book
 from sheetfuncs import oneway
 from sheetfuncs.input.demo import demo_groups, demo_rows
 from sheetfuncs.errors import InputError
-from sheetfuncs.input.files.reader import read_cells, read_groups
+from sheetfuncs.input.files.reader import read_cells, read_groups, same_file
 
 ROOT = Path(__file__).resolve().parents[3]
 DEMO_BOOK = ROOT / "workbooks" / "demo.xlsx"
@@ -145,3 +146,13 @@ def test_file_kind_and_argument_messages(tmp_path):
         read_cells(tmp_path / "old.xls")
     with pytest.raises(InputError, match="cannot tell what kind of file"):
         read_cells(tmp_path / "data.json")
+
+
+def test_same_file_under_two_names(tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "lots.xlsx").write_bytes(b"x")
+    assert same_file(Path("lots.xlsx"), tmp_path / "sub" / ".." / "lots.xlsx")
+    assert same_file(Path("new.xlsx"), Path("./new.xlsx"))  # neither exists yet
+    assert not same_file(Path("lots.xlsx"), Path("other.xlsx"))
+    os.link(tmp_path / "lots.xlsx", tmp_path / "hard.xlsx")
+    assert same_file(Path("hard.xlsx"), Path("lots.xlsx"))  # one file on disk
