@@ -16,11 +16,11 @@ import sys
 from typing import Any
 
 from ..errors import message
-from ..input import DEFAULT_SIZE_LIMIT
+from ..input import DEFAULT_MAX_CELLS, DEFAULT_MAX_FIELDS, DEFAULT_SIZE_LIMIT
 
 __all__ = [
     "UsageError", "CommandParser", "DEFAULT_DEMO_OUTPUT", "build_parser", "parse_args",
-    "read_options", "positive_mb", "real", "whole",
+    "read_options", "positive_mb", "real", "whole", "count",
 ]
 
 DEFAULT_DEMO_OUTPUT = "sheetfuncs-demo.xlsx"
@@ -68,6 +68,17 @@ def real(text: str) -> float:
         return float(text)
     except ValueError:
         raise argparse.ArgumentTypeError(f'must be a number, not "{text}"') from None
+
+
+def count(text: str) -> int:
+    """A limit on a count (cells, fields, groups): a whole number of at least 1."""
+    try:
+        v = int(text.replace("_", "").replace(",", ""))
+    except ValueError:
+        raise argparse.ArgumentTypeError(f'must be a whole number, not "{text}"') from None
+    if v < 1:
+        raise argparse.ArgumentTypeError(f'must be at least 1, not "{text}"')
+    return v
 
 
 def whole(text: str) -> int:
@@ -126,6 +137,21 @@ def add_read_options(p: argparse.ArgumentParser) -> None:
                    help="refuse files that unpack to more than this many megabytes "
                         f"(default {DEFAULT_SIZE_LIMIT // 2**20}); raise it only for a file you "
                         "trust")
+    g.add_argument("--max-cells", type=count, default=DEFAULT_MAX_CELLS, metavar="N",
+                   help=f"refuse to read more than N cells (default {DEFAULT_MAX_CELLS:,})")
+    g.add_argument("--max-fields", type=count, default=DEFAULT_MAX_FIELDS, metavar="N",
+                   help="CSV files only: refuse a line with more than N fields "
+                        f"(default {DEFAULT_MAX_FIELDS:,})")
+    f = p.add_argument_group("missing values and labels")
+    f.add_argument("--errors", choices=("stop", "missing"), default="stop",
+                   help="stop (default): an error cell such as #N/A stops the run and is named; "
+                        "missing: error cells are missing values, each one logged")
+    f.add_argument("--merge-case", action="store_true",
+                   help="merge labels that differ only in case or surrounding spaces into their "
+                        "first spelling (logged)")
+    f.add_argument("--rename", action="append", metavar="OLD=NEW",
+                   help="rename a group label (repeatable); a label renamed to another group's "
+                        "label joins that group")
 
 
 def read_options(args: argparse.Namespace) -> dict[str, Any]:
@@ -138,6 +164,11 @@ def read_options(args: argparse.Namespace) -> dict[str, Any]:
         cell_range=args.cell_range,
         decimal_comma=args.decimal_comma,
         size_limit=int(args.size_limit * 2**20),
+        max_cells=args.max_cells,
+        max_fields=args.max_fields,
+        errors=args.errors,
+        merge_case=args.merge_case,
+        rename=args.rename,
     )
 
 

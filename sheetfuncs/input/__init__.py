@@ -13,24 +13,26 @@ from .cells import (
 )
 from .demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups, demo_rows
 from .files import (
-    DEFAULT_SIZE_LIMIT, CellBlock, LoadedGroups, read_cells, read_groups, same_file,
+    DEFAULT_MAX_CELLS, DEFAULT_MAX_FIELDS, DEFAULT_SIZE_LIMIT, CellBlock, LoadedGroups, read_cells, read_groups, same_file,
     workbook_properties,
 )
+from .labels import parse_rename, relabel
+from .reading import LeftOut, Reading, sheet_ref
 from .groups import CellNote, Groups, as_groups, first_duplicate, format_label
 from .options import (
     as_real, check_alpha, check_conf, check_number, check_probability, one_line, shown,
 )
-from .ranges import groups_from_long, groups_from_range
+from .ranges import groups_from_long, groups_from_range, parse_errors
 from .source import InputSource
 
 __all__ = [
     "COM_ERROR_CODES", "ERROR_TEXTS", "MAX_COLS", "MAX_ROWS", "RangeRef", "a1_range",
     "cell_position", "column_letters", "column_number", "error_text", "parse_range",
     "DEMO_FACTOR", "DEMO_RESPONSE", "DEMO_TITLE", "DEMO_UNIT", "demo_groups", "demo_rows",
-    "DEFAULT_SIZE_LIMIT", "CellBlock", "LoadedGroups", "read_cells", "read_groups",
+    "DEFAULT_MAX_CELLS", "DEFAULT_MAX_FIELDS", "DEFAULT_SIZE_LIMIT", "CellBlock", "LoadedGroups", "read_cells", "read_groups",
     "same_file", "workbook_properties",
     "CellNote", "Groups", "as_groups", "first_duplicate", "format_label", "groups_from_long", "groups_from_range",
     "as_real", "check_alpha", "check_conf", "check_number", "check_probability", "one_line",
     "shown",
-    "InputSource",
+    "InputSource", "LeftOut", "Reading", "sheet_ref", "parse_rename", "relabel", "parse_errors",
 ]

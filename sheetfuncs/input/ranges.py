@@ -27,7 +27,7 @@ from .cells import ERROR_TEXTS, cell_position, classify, error_text
 from .groups import CellNote, Groups, bad_number_message, build_groups, first_duplicate, format_label
 from .options import shown
 
-__all__ = ["LAYOUTS", "groups_from_long", "groups_from_range"]
+__all__ = ["LAYOUTS", "groups_from_long", "groups_from_range", "parse_errors"]
 
 LAYOUTS = ("wide", "long", "rowwise")
 
@@ -200,7 +200,9 @@ def _is_labelish_text(v: Any) -> bool:
 # reading a range
 
 
-def groups_from_range(cells: Any, layout: str = "wide", labels: Any = "auto") -> Groups:
+def groups_from_range(
+    cells: Any, layout: str = "wide", labels: Any = "auto", *, errors: str = "stop"
+) -> Groups:
     """Clean a spreadsheet range into :class:`Groups`.
 
     ``cells`` is a 2-D sequence of rows as a spreadsheet hands it over (float, int, str, bool,
@@ -211,11 +213,26 @@ def groups_from_range(cells: Any, layout: str = "wide", labels: Any = "auto") ->
 
     A range whose data cells are all floats or blanks (the usual case) is read in one block
     (:func:`_plain_block`); any other range is read cell by cell. Both give the same result.
+
+    ``errors`` is ``"stop"`` (default: an error value stops the reading with its position, as
+    the host's own functions do) or ``"missing"`` (error values in data positions are missing
+    values: left out and recorded in ``cells`` with the action ``"missing"``).
     """
-    return _read_range(cells, layout, labels, block=True)
+    return _read_range(cells, layout, labels, block=True, errors=parse_errors(errors))
 
 
-def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool) -> Groups:
+def parse_errors(errors: Any) -> str:
+    """The ``errors`` option: ``"stop"`` or ``"missing"``."""
+    s = "stop" if errors is None else str(errors).strip().lower()
+    if s not in ("stop", "missing"):
+        raise InputError(
+            f'errors must be "stop" (an error cell stops the reading) or "missing" (error '
+            f"cells are missing values), not {shown(errors)}"
+        )
+    return s
+
+
+def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool, errors: str = "stop") -> Groups:
     """:func:`groups_from_range`; ``block=False`` reads every range cell by cell (for tests)."""
     lay = _parse_layout(layout)
     lab = _parse_labels_arg(labels)

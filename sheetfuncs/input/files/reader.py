@@ -20,7 +20,9 @@ from typing import TYPE_CHECKING, Any, TypedDict
 from ...errors import InputError
 from ..cells import ERROR_TEXTS, RangeRef, parse_range
 from ..groups import Groups
+from ..labels import relabel
 from ..ranges import groups_from_range
+from ..reading import LeftOut, Reading
 from ..source import InputSource
 from .block import CellBlock, Progress, is_blank
 from .delimited import read_delimited
@@ -34,6 +36,8 @@ __all__ = [
     "same_file",
     "WORKBOOK_SUFFIXES",
     "CSV_SUFFIXES",
+    "DEFAULT_MAX_CELLS",
+    "DEFAULT_MAX_FIELDS",
     "LoadedGroups",
     "ReadOptions",
     "input_kind",
@@ -43,6 +47,10 @@ __all__ = [
 
 WORKBOOK_SUFFIXES = (".xlsx", ".xlsm", ".xltx", ".xltm")
 CSV_SUFFIXES = (".csv", ".tsv", ".txt")
+#: Default limit on the cells read from one file (``--max-cells``).
+DEFAULT_MAX_CELLS = 20_000_000
+#: Default limit on the fields of one CSV line (``--max-fields``), as many as a sheet has columns.
+DEFAULT_MAX_FIELDS = 16_384
 
 
 @dataclass(frozen=True)
@@ -51,6 +59,7 @@ class LoadedGroups:
 
     groups: Groups
     block: CellBlock
+    reading: Reading
 
     @property
     def source(self) -> InputSource:
@@ -65,6 +74,8 @@ class ReadOptions(TypedDict, total=False):
     decimal_comma: bool
     delimiter: str | None
     size_limit: int
+    max_cells: int
+    max_fields: int
     progress: Progress | None
 
 
@@ -100,6 +111,8 @@ def read_cells(
     decimal_comma: bool = False,
     delimiter: str | None = None,
     size_limit: int = DEFAULT_SIZE_LIMIT,
+    max_cells: int = DEFAULT_MAX_CELLS,
+    max_fields: int = DEFAULT_MAX_FIELDS,
     progress: Progress | None = None,
 ) -> CellBlock:
     """Read a block of saved cell values from a workbook or a CSV file.
@@ -108,7 +121,8 @@ def read_cells(
     ``cell_range`` is an A1 reference (``A1:F40``, ``B:E``, ``'Sheet 2'!B2:E30``) or, in a
     workbook, a defined name; without it the block is the sheet's used range (from its first
     to its last non-blank row and column). ``decimal_comma`` and ``delimiter`` apply to CSV
-    files. ``size_limit`` is in bytes. ``progress(stage, done, total)`` is called while cells
+    files. ``size_limit`` is in bytes; ``max_cells`` limits the cells read (the cells present
+    in a workbook, the block's area for a range), ``max_fields`` the fields of one CSV line. ``progress(stage, done, total)`` is called while cells
     are read (``done`` and ``total`` count cells; ``total`` is 0 when unknown).
     """
     p = Path(path)
@@ -168,13 +182,19 @@ def read_groups(
     *,
     layout: str = "wide",
     labels: Any = "auto",
+    errors: str = "stop",
+    merge_case: bool = False,
+    rename: Any = None,
     **options: Unpack[ReadOptions],
 ) -> LoadedGroups:
     """Read a block (see :func:`read_cells`, whose keyword arguments ``options`` are) and clean
     it with ``groups_from_range``.
 
-    A cleaning error that points at cells gets the first cell's sheet address and the file
-    name added, e.g. ``... (cell 'Lot data'!C7 of lots.xlsx)``.
+    ``errors`` (``"stop"`` or ``"missing"``) is passed to ``groups_from_range``;
+    ``merge_case`` and ``rename`` (a mapping or ``OLD=NEW`` texts) fix labels afterwards
+    (:func:`sheetfuncs.input.labels.relabel`). A cleaning error that points at cells gets the
+    first cell's sheet address and the file name added, e.g. ``... (cell 'Lot data'!C7 of
+    lots.xlsx)``.
     """
     block = read_cells(path, **options)
     if layout in ("wide", "long") and block.n_rows == 1 and all(
@@ -185,7 +205,7 @@ def read_groups(
             "it is the right file (or range) and that the data were saved"
         )
     try:
-        groups = groups_from_range(block.rows, layout=layout, labels=labels)
+        groups = groups_from_range(block.rows, layout=layout, labels=labels, errors=errors)
     except InputError as e:
         if e.cells:
             r, c = e.cells[0]
@@ -197,7 +217,39 @@ def read_groups(
         if Path(path).name not in msg:
             msg = f"{msg} (in {_where(block)})"
         raise InputError(msg, cells=e.cells) from None
-    return LoadedGroups(groups=groups, block=block)
+    groups = relabel(groups, merge_case=merge_case, rename=rename)
+    return LoadedGroups(groups=groups, block=block, reading=range_reading(block, groups))
+
+
+#: What a cell noted by the range rules is, as a reason to leave it out.
+NOTE_REASONS = {
+    "text": "text in the data",
+    "logical": "logical value in the data",
+    "error": "error value, read as a missing value",
+    "label-only": "label without a value",
+    "unlabelled": "value without a label",
+}
+
+
+def range_reading(block: CellBlock, groups: Groups) -> Reading:
+    """The account of a block read as a whole (a range given, or a block found): every
+    non-blank cell is a value, a label, or a cell the range rules noted."""
+    src = block.source
+    read = sum(1 for row in block.rows for v in row if not is_blank(v))
+    left = tuple(
+        LeftOut.of(
+            [(src.first_row + note.row, src.first_col + note.col)],
+            NOTE_REASONS.get(note.kind, NOTE_REASONS["text"]),
+            "missing" if note.action == "missing" else note.kind,
+        )
+        for note in groups.cells if note.action != "rejected"
+    )
+    out = sum(len(x.cells) for x in left)
+    missing = sum(1 for n in groups.cells if n.action == "missing")
+    return Reading(
+        path=src.path, sheet=src.sheet, block=block.ref, detected=False, cells_read=read,
+        cells_used=read - out, left_out=left, notes=groups.notes, missing=missing,
+    )
 
 
 def _where(block: CellBlock) -> str:
