@@ -2,8 +2,8 @@
 
 :func:`json_ready` makes a value fit for strict JSON (infinities as ``"inf"``, undefined as
 ``null``); :func:`csv_safe` writes a CSV cell that a spreadsheet cannot take for a formula;
-:func:`aligned` lays a table out as columns of text; :func:`cell_log` and
-:func:`ignored_summary` list the cells left out of the data, as records and as one line.
+:func:`aligned` lays a table out as columns of text; :func:`cell_log` lists the cells the range
+rules noted, as records.
 """
 
 from __future__ import annotations
@@ -12,18 +12,14 @@ import math
 from fractions import Fraction
 from typing import Any
 
-from ..input import LoadedGroups, shown
+from ..input import LoadedGroups
 
 __all__ = [
-    "FORMULA_LEAD", "aligned", "cell_log", "cell_shown", "csv_safe", "ignored_summary",
-    "json_ready", "records", "text_cell",
+    "FORMULA_LEAD", "aligned", "cell_log", "csv_safe", "json_ready", "records", "text_cell",
 ]
 
 #: The first characters that make a spreadsheet read text as a formula.
 FORMULA_LEAD = ("=", "+", "-", "@", "\t", "\r")
-KIND_WORDS = {"logical": "logical value", "error": "error value"}
-#: How many ignored cells the text output names before it counts the rest.
-IGNORED_SHOWN = 5
 
 
 def json_ready(value: Any) -> Any:
@@ -121,22 +117,6 @@ def aligned(table: list[list[Any]]) -> list[str]:
     return lines
 
 
-def cell_shown(kind: str, value: Any) -> str:
-    """An input cell as a spreadsheet user reads it: ``text "retest"`` (inner quotes doubled,
-    as in a formula), ``logical value TRUE``, ``date 2024-03-05``."""
-    word = KIND_WORDS.get(kind, kind)
-    if isinstance(value, str):
-        text = " ".join(value.split()) if value.strip() else value
-        if len(text) > 40:
-            text = text[:39] + "…"
-        return f'{word} "' + text.replace('"', '""') + '"'
-    if isinstance(value, bool):
-        return f"{word} {'TRUE' if value else 'FALSE'}"
-    if hasattr(value, "isoformat"):
-        return f"{word} {value.isoformat()}"
-    return f"{word} {shown(value)}"
-
-
 def cell_log(loaded: LoadedGroups) -> list[dict[str, Any]]:
     """Every cell the cleaning step noted, as records: its full address (with the sheet), what
     it held, its value and what was done with it."""
@@ -146,17 +126,3 @@ def cell_log(loaded: LoadedGroups) -> list[dict[str, Any]]:
          "action": c.action}
         for c in loaded.groups.cells
     ]
-
-
-def ignored_summary(loaded: LoadedGroups) -> str | None:
-    """One line naming the first few ignored cells as a spreadsheet user reads them, and how
-    many more there are; ``None`` when no cell was ignored."""
-    ignored = [c for c in loaded.groups.cells if c.action == "ignored"]
-    if not ignored:
-        return None
-    named = ", ".join(
-        f"{loaded.source.address(c.row, c.col)} ({cell_shown(c.kind, c.value)})"
-        for c in ignored[:IGNORED_SHOWN]
-    )
-    more = f" and {len(ignored) - IGNORED_SHOWN} more" if len(ignored) > IGNORED_SHOWN else ""
-    return f"Ignored cells: {named}{more}"

@@ -76,7 +76,7 @@ def run_report(args: argparse.Namespace) -> int:
     for i, (inp, out) in enumerate(pairs, 1):
         prog.start(i, inp.name)
         try:
-            report_one(args, inp, out, inputs, prog)
+            summary = report_one(args, inp, out, inputs, prog)
         except InputError as e:
             failures += 1
             prog.finish()
@@ -87,13 +87,15 @@ def run_report(args: argparse.Namespace) -> int:
             print(with_file(os_reason(e), inp.name), file=sys.stderr)
         else:
             prog.finish()
+            print(f"{inp.name}: {summary}", file=sys.stderr)
             print(f"wrote {out}")
     return 1 if failures else 0
 
 
 def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[Path],
-               prog: Progress) -> None:
-    """Read one input and write its report, after checking where the report goes."""
+               prog: Progress) -> str:
+    """Read one input and write its report, after checking where the report goes; returns
+    the one-line summary of what was read."""
     for other in inputs:
         if same_file(out, other):
             raise InputError(
@@ -113,5 +115,6 @@ def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[
         loaded.groups, out,
         alpha=args.alpha, method=args.method, control=args.control,
         factor=args.factor, response=args.response, unit=args.unit, title=args.title,
-        force=args.force, source=loaded.source, progress=prog,
+        force=args.force, source=loaded.source, reading=loaded.reading, progress=prog,
     )
+    return loaded.reading.summary(loaded.groups.labels, loaded.groups.counts)

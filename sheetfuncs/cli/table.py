@@ -14,11 +14,14 @@ from pathlib import Path
 from typing import Any
 
 from ..input import LoadedGroups, read_groups
-from .output import aligned, cell_log, csv_safe, ignored_summary, json_ready, records
+from .output import aligned, cell_log, csv_safe, json_ready, records
 from .parser import read_options
 from .progress import Progress
 
-__all__ = ["CAUTION", "run_table"]
+__all__ = ["CAUTION", "LEFT_OUT_SHOWN", "read_table", "run_table"]
+
+#: How many left-out entries the text output names (all are in the JSON output).
+LEFT_OUT_SHOWN = 8
 
 CAUTION = (
     "Statistics support but do not replace engineering judgement: check the assumptions "
@@ -43,10 +46,12 @@ def run_table(args: argparse.Namespace) -> int:
     finally:
         prog.finish()
     ck, desc, one = analysis(loaded, args.alpha, args.factor)
+    g = loaded.groups
+    print(f"{Path(args.input).name}: {loaded.reading.summary(g.labels, g.counts)}", file=sys.stderr)
     if args.fmt == "json":
         table_json(args, loaded, ck, desc, one)
     elif args.fmt == "csv":
-        table_csv(ck, desc, one)
+        table_csv(loaded, ck, desc, one)
     else:
         table_text(args, loaded, ck, desc, one)
     return 0
@@ -56,15 +61,28 @@ def input_record(args: argparse.Namespace, loaded: LoadedGroups) -> dict[str, An
     """What was read, for the JSON output: the file, sheet and range, the groups and every
     cell left out."""
     g = loaded.groups
+    r = loaded.reading
     return {
         "path": str(args.input),
         "sheet": loaded.source.sheet,
         "range": loaded.block.ref,
+        "block": r.where,
+        "detected": r.detected,
         "layout": g.layout,
         "labels": list(g.labels),
+        "counts": list(g.counts),
         "n_total": g.n_total,
+        "cells_read": r.cells_read,
+        "cells_used": r.cells_used,
+        "cells_left_out": r.cells_left_out,
+        "missing": r.missing,
+        "left_out": [
+            {"ref": x.ref, "address": r.address(x.ref), "reason": x.reason, "kind": x.kind,
+             "content": x.content, "cells": len(x.cells)}
+            for x in r.left_out
+        ],
         "ignored_cells": cell_log(loaded),
-        "notes": list(g.notes),
+        "notes": list(r.notes),
     }
 
 
@@ -110,9 +128,20 @@ def table_json(args: argparse.Namespace, loaded: LoadedGroups, ck: Any, desc: An
     sys.stdout.write(json.dumps(json_ready(doc), allow_nan=False, indent=2) + "\n")
 
 
-def table_csv(ck: Any, desc: Any, one: list[list[Any]]) -> None:
+def read_table(loaded: LoadedGroups) -> list[list[Any]]:
+    """What was read, as a table: the block, each group with its n, each entry left out."""
+    r = loaded.reading
+    g = loaded.groups
+    rows: list[list[Any]] = [["Read", "Item", "Cells"], ["block", r.where, r.cells_read]]
+    rows += [["group", lab, n] for lab, n in zip(g.labels, g.counts)]
+    rows += [["left out", f"{r.address(x.ref)}: {x.described}", len(x.cells)] for x in r.left_out]
+    rows += [["note", note, None] for note in r.notes]
+    return rows
+
+
+def table_csv(loaded: LoadedGroups, ck: Any, desc: Any, one: list[list[Any]]) -> None:
     w = csv.writer(sys.stdout, lineterminator="\n")
-    for i, table in enumerate((one, ck.table(), desc.table())):
+    for i, table in enumerate((read_table(loaded), one, ck.table(), desc.table())):
         if i:
             w.writerow([])
         for row in table:
@@ -123,12 +152,19 @@ def table_text(args: argparse.Namespace, loaded: LoadedGroups, ck: Any, desc: An
                one: list[list[Any]]) -> None:
     g = loaded.groups
     ow = ck.oneway
-    where = f"{Path(args.input).name}, {loaded.block.ref}"
-    if loaded.source.sheet:
-        where += f' of sheet "{loaded.source.sheet}"'
+    r = loaded.reading
     path = "decimal-exact" if ow.exact else "floating-point"
     out = [
-        f"One-way analysis of variance ({where}): {g.n_total} values in {g.k} groups, "
+        f"Read {r.where} of {Path(args.input).name}"
+        + (" (found on the sheet; no range given)" if r.detected else "")
+        + f": {g.n_total} values in {g.k} groups ("
+        + ", ".join(f"{lab} {n}" for lab, n in zip(g.labels, g.counts)) + ")",
+        *(f"  left out {r.address(x.ref)}: {x.described}" for x in r.left_out[:LEFT_OUT_SHOWN]),
+        *([f"  and {len(r.left_out) - LEFT_OUT_SHOWN} more left out (see --json)"]
+          if len(r.left_out) > LEFT_OUT_SHOWN else []),
+        *(f"  note: {n}" for n in r.notes if n not in g.notes),
+        "",
+        f"One-way analysis of variance: {g.n_total} values in {g.k} groups, "
         f"{path} arithmetic",
         "",
         *aligned(one),
@@ -141,9 +177,6 @@ def table_text(args: argparse.Namespace, loaded: LoadedGroups, ck: Any, desc: An
         "Groups",
         *aligned(desc.table()),
     ]
-    ignored = ignored_summary(loaded)
-    if ignored:
-        out += ["", ignored]
     for note in g.notes:
         out += [f"Note: {note}"]
     out += ["", CAUTION]

@@ -11,10 +11,15 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import Any
 
 from .cells import a1_range, column_letters
+from .options import shown
 
-__all__ = ["LeftOut", "Reading", "sheet_ref"]
+__all__ = ["LeftOut", "Reading", "cell_content", "sheet_ref"]
+
+#: Characters of a text cell that a log line shows before it cuts the rest.
+CONTENT_SHOWN = 40
 
 #: How many left-out entries the one-line summary names before it counts the rest.
 SUMMARY_SHOWN = 4
@@ -25,6 +30,20 @@ def sheet_ref(sheet: str | None, ref: str) -> str:
     if not sheet:
         return ref
     return "'" + sheet.replace("'", "''") + "'!" + ref
+
+
+def cell_content(value: Any) -> str:
+    """A cell's content on one line as a spreadsheet user reads it: ``"retest"`` (white space
+    runs as one space, inner quotes doubled as in a formula, cut after 40 characters), ``TRUE``,
+    ``2024-03-05``, ``3``."""
+    if isinstance(value, str):
+        text = " ".join(value.split()) if value.strip() else value
+        if len(text) > CONTENT_SHOWN:
+            text = text[:CONTENT_SHOWN - 1] + "…"
+        return '"' + text.replace('"', '""') + '"'
+    if hasattr(value, "isoformat"):
+        return value.isoformat()
+    return shown(value)
 
 
 def cells_ref(cells: Sequence[tuple[int, int]]) -> str:
@@ -46,19 +65,27 @@ class LeftOut:
     ``text in the data``); ``kind`` is a short key for programs (``title``, ``units``,
     ``identifier``, ``summary``, ``signoff``, ``other-block``, ``text``, ``logical``,
     ``missing``, ``label-only``, ``unlabelled``, ``comment``); ``cells`` the 1-based sheet
-    ``(row, col)`` of every non-blank cell it covers.
+    ``(row, col)`` of every non-blank cell it covers; ``content`` what a single cell held, as
+    a message shows it (``"n/a"``, ``TRUE``, ``#N/A``), or empty.
     """
 
     ref: str
     reason: str
     kind: str
     cells: tuple[tuple[int, int], ...]
+    content: str = ""
 
     @classmethod
-    def of(cls, cells: Sequence[tuple[int, int]], reason: str, kind: str) -> LeftOut:
+    def of(cls, cells: Sequence[tuple[int, int]], reason: str, kind: str,
+           content: str = "") -> LeftOut:
         """An entry for ``cells`` (at least one), its reference the range that holds them."""
         cells = tuple(sorted(cells))
-        return cls(ref=cells_ref(cells), reason=reason, kind=kind, cells=cells)
+        return cls(ref=cells_ref(cells), reason=reason, kind=kind, cells=cells, content=content)
+
+    @property
+    def described(self) -> str:
+        """The reason with the content, when there is one: ``text in the data ("n/a")``."""
+        return f"{self.reason} ({self.content})" if self.content else self.reason
 
 
 @dataclass(frozen=True)
@@ -114,7 +141,7 @@ class Reading:
             f"{sum(counts)} values ({groups})"
         )
         if self.left_out:
-            named = "; ".join(f"{x.ref} {x.reason}" for x in self.left_out[:SUMMARY_SHOWN])
+            named = "; ".join(f"{x.ref} {x.described}" for x in self.left_out[:SUMMARY_SHOWN])
             more = len(self.left_out) - SUMMARY_SHOWN
             line += (
                 f"; left out {self.cells_left_out} cell{'s' if self.cells_left_out != 1 else ''}:"

@@ -16,6 +16,7 @@ from decimal import Decimal
 from typing import Any
 
 from ..errors import InputError
+from ..input import Reading
 from ..stats import Analysis, DescribeResult, ExactMoments, OneWayResult, analyse, centring_constant
 from .formats import Precision
 
@@ -26,7 +27,8 @@ __all__ = ["ReportContext", "prepare"]
 class ReportContext(Analysis):
     """Every result of the analysis (the fields of :class:`~sheetfuncs.stats.Analysis`), plus
     ``factor``, ``response``, ``unit`` (or ``None``) and ``title`` as the report names them,
-    ``centre`` (the Audit sheet's centring constant) and ``precision`` (decimals shown)."""
+    ``centre`` (the Audit sheet's centring constant), ``precision`` (decimals shown) and
+    ``reading`` (what was read from a file, or ``None`` for data passed from Python)."""
 
     factor: str
     response: str
@@ -34,6 +36,7 @@ class ReportContext(Analysis):
     title: str
     centre: Decimal
     precision: Precision
+    reading: Reading | None = None
 
     def units(self, text: str) -> str:
         """``text`` followed by the unit, when there is one: ``2.95 Shore A``."""
@@ -70,6 +73,7 @@ def prepare(
     response: str | None = "Response",
     unit: str | None = None,
     title: str | None = None,
+    reading: Reading | None = None,
 ) -> ReportContext:
     """Run every analysis of the report once. Option errors and an impossible one-way analysis
     raise :class:`~sheetfuncs.errors.InputError`; a secondary analysis that cannot run is kept
@@ -78,11 +82,16 @@ def prepare(
     resp = _text_option(response, "the response name", "Response")
     un = _text_option(unit, "the unit", None)
     ttl = _text_option(title, "the title", None) or f"{resp} by {fac}"
+    if reading is not None and not isinstance(reading, Reading):
+        raise InputError(
+            f"reading must be a sheetfuncs.input.Reading or None, not {type(reading).__name__}; "
+            "pass the reading of read_groups(), or leave it out"
+        )
     an = analyse(groups, alpha=alpha, method=method, control=control)
     mom = an.moments
     prec = Precision(mom.scale if isinstance(mom, ExactMoments) else None, _smallest_spread(an.describe, an.oneway))
     return ReportContext(
         **{f.name: getattr(an, f.name) for f in fields(Analysis)},
         factor=fac, response=resp, unit=un, title=ttl,
-        centre=centring_constant(mom, an.oneway), precision=prec,
+        centre=centring_constant(mom, an.oneway), precision=prec, reading=reading,
     )

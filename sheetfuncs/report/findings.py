@@ -13,6 +13,7 @@ from dataclasses import dataclass
 from ..stats import KruskalResult, PairRow, PairwiseResult, Unavailable, WelchResult, df_text, sentence
 from .context import ReportContext
 from .formats import format_measure, format_number, format_p, format_sig
+from .reading import data_read_lines
 
 __all__ = ["Findings", "KeyFigure", "findings", "CAUTIONS", "effect_label", "percent_words"]
 
@@ -36,7 +37,8 @@ class Findings:
     ``verdict`` is ``"differs"``, ``"no difference"`` or ``"unsettled"`` (the rank test and the
     F test disagree); ``read`` is the checks' choice of result (``"oneway"``, ``"welch"`` or
     ``"kruskal"``); ``headline`` is the answer in one or two sentences; ``sections`` are
-    ``(heading, paragraphs)`` pairs; ``key_figures`` rows are (figure, value, df, p, reading).
+    ``(heading, paragraphs)`` pairs; ``key_figures`` rows are (figure, value, df, p, reading);
+    ``data_read`` says what was read and left out (shown before the answer).
     """
 
     verdict: str
@@ -46,10 +48,11 @@ class Findings:
     sections: tuple[tuple[str, tuple[str, ...]], ...]
     key_figures: tuple[KeyFigure, ...]
     typo_notes: tuple[str, ...]
+    data_read: tuple[str, ...] = ()
 
     def text(self) -> str:
         """Everything as one string (for logs and tests)."""
-        parts = [self.headline, *self.typo_notes]
+        parts = [*self.data_read, self.headline, *self.typo_notes]
         for head, paras in self.sections:
             parts.append(head)
             parts.extend(paras)
@@ -517,4 +520,5 @@ def findings(an: ReportContext) -> Findings:
     return Findings(
         verdict=verdict, read=read, read_name=names[read], headline=headline,
         sections=sections, key_figures=_key_figures(an), typo_notes=typos,
+        data_read=data_read_lines(an),
     )

@@ -17,13 +17,13 @@ from openpyxl import Workbook
 from openpyxl.workbook.defined_name import DefinedName
 
 from ..errors import InputError
-from ..input import InputSource, same_file
+from ..input import InputSource, Reading, same_file
 from .context import ReportContext, prepare
 from .findings import findings
 from .grid import safe_text
 from .sheets import (
     NAMES, DataLayout, Progress, build_about, build_audit, build_chart, build_comparisons,
-    build_findings, build_groups, build_tables, write_data,
+    build_findings, build_groups, build_tables, input_log, write_data,
 )
 
 __all__ = ["write_report", "build_workbook", "timestamp", "ROW_LIMIT", "SHEET_ORDER"]
@@ -88,7 +88,8 @@ def build_workbook(an: ReportContext, *, source: InputSource | None = None, prog
     """The report workbook for an analysis (not yet saved)."""
     source = _check_source(source)
     written = timestamp()
-    layout = DataLayout.plan(an.groups.counts, len(an.groups.cells), row_limit)
+    log = input_log(an, source)
+    layout = DataLayout.plan(an.groups.counts, len(log), row_limit)
     find = build_findings(an, findings(an), written)
     tables, pos = build_tables(an)
     comps = build_comparisons(an)
@@ -111,7 +112,7 @@ def build_workbook(an: ReportContext, *, source: InputSource | None = None, prog
         targets[grid.name] = wb.create_sheet(grid.name)
     for grid in before + after:
         grid.emit(targets[grid.name])
-    write_data(data_sheets, an, layout, source, progress)
+    write_data(data_sheets, an, layout, log, progress)
     for name in NAMES:
         wb.defined_names[name] = DefinedName(name, attr_text=pos.cells[name])
         wb.defined_names["audit_" + name] = DefinedName("audit_" + name, attr_text=audit_refs[name])
@@ -131,6 +132,7 @@ def write_report(
     title: str | None = None,
     force: bool = False,
     source: InputSource | None = None,
+    reading: Reading | None = None,
     progress: Progress | None = None,
     _row_limit: int = ROW_LIMIT,
 ) -> Path:
@@ -142,6 +144,8 @@ def write_report(
     ``control`` a group label for Dunnett's comparisons with a control; ``factor``,
     ``response``, ``unit`` and ``title`` name things in the report; ``source`` an
     :class:`~sheetfuncs.input.InputSource` that gives input cells their sheet and address;
+    ``reading`` the :class:`~sheetfuncs.input.Reading` of a file (what was read and what was
+    left out: the Findings, Data and About sheets show it);
     ``progress(stage, done, total)`` is called during long work.
 
     The workbook is written to a temporary file in the target folder and renamed into place,
@@ -154,7 +158,7 @@ def write_report(
     if progress is not None:
         progress("analysis", 0, 1)
     an = prepare(groups, alpha=alpha, method=method, control=control, factor=factor,
-                 response=response, unit=unit, title=title)
+                 response=response, unit=unit, title=title, reading=reading)
     if progress is not None:
         progress("analysis", 1, 1)
     tmp = _temp_file(target)

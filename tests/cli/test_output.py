@@ -6,7 +6,7 @@ from __future__ import annotations
 import math
 
 from sheetfuncs.cli import csv_safe, json_ready
-from sheetfuncs.cli.output import aligned, cell_shown, records, text_cell
+from sheetfuncs.cli.output import aligned, records, text_cell
 from tests.support.cli import run, write_csv
 
 
@@ -16,13 +16,6 @@ def test_csv_safe_and_json_ready():
     assert csv_safe(math.inf) == "inf" and csv_safe(math.nan) == "nan" and csv_safe(None) == ""
     assert csv_safe(0.1 + 0.2) == "0.30000000000000004"  # shortest round-trip repr
     assert json_ready({"a": (math.inf, -math.inf, math.nan, 1)}) == {"a": ["inf", "-inf", None, 1]}
-
-
-def test_cell_shown_like_a_spreadsheet():
-    assert cell_shown("text", "retest") == 'text "retest"'
-    assert cell_shown("text", 'say "hi"') == 'text "say ""hi"""'  # quotes doubled
-    assert cell_shown("logical", True) == "logical value TRUE"
-    assert cell_shown("text", "x" * 60).endswith('…"')
 
 
 def test_aligned_text_table():
@@ -36,10 +29,12 @@ def test_aligned_text_table():
     assert records(table)[0] == {"Source": "Factor", "df": 3, "F": math.inf, "p": 0.0}
 
 
-def test_text_output_counts_ignored_cells_beyond_five(tmp_path, capsys):
-    rows = [["A", "B"]] + [[i, f"note {i}"] for i in range(1, 8)] + [[i, i + 1] for i in range(3)]
-    code, out, err = run(["table", str(write_csv(tmp_path / "notes.csv", rows))], capsys)
+def test_text_output_counts_left_out_cells_beyond_eight(tmp_path, capsys):
+    rows = [["A", "B"]] + [[i, f"note {i}"] for i in range(1, 11)] + [[i, i + 1] for i in range(3)]
+    code, out, err = run(["table", str(write_csv(tmp_path / "notes.csv", rows)), "--range", "A1:B14"],
+                         capsys)
     assert code == 0, err
-    (line,) = [x for x in out.splitlines() if x.startswith("Ignored cells:")]
-    assert line == ('Ignored cells: B2 (text "note 1"), B3 (text "note 2"), B4 (text "note 3"), '
-                    'B5 (text "note 4"), B6 (text "note 5") and 2 more')
+    lines = [x for x in out.splitlines() if x.startswith("  left out") or x.startswith("  and ")]
+    assert lines[0] == '  left out B2: text in the data ("note 1")'
+    assert lines[7] == '  left out B9: text in the data ("note 8")'
+    assert lines[8:] == ["  and 2 more left out (see --json)"]

@@ -59,9 +59,11 @@ def test_batch_with_out_dir_keeps_going_after_a_bad_input(tmp_path, capsys):
     assert code == 1
     assert sorted(p.name for p in outdir.iterdir()) == ["a-report.xlsx", "b-report.xlsx"]
     assert out.splitlines() == [f"wrote {outdir / 'a-report.xlsx'}", f"wrote {outdir / 'b-report.xlsx'}"]
-    (line,) = err.splitlines()
+    read_a, line, read_b = err.splitlines()
     assert line.startswith("sheetfuncs: bad.csv: ") and "at least two groups" in line
-    # quiet when stderr is not a terminal: nothing but the one error line
+    # quiet when stderr is not a terminal: the error line, and what was read from each report's input
+    assert read_a == "a.csv: read A1:C5: 3 groups, 12 values (Lot A 4, Lot B 4, Lot C 4)"
+    assert read_b.startswith("b.csv: read A1:C5: 3 groups")
 
 
 def test_usage_errors_found_after_parsing(tmp_path, capsys):

@@ -19,7 +19,7 @@ def test_table_json_matches_nist_certified_values(tmp_path, capsys):
     # NIST StRD SmLs01 (certified values in the dataset header)
     path = nist_csv(tmp_path, "SmLs01")
     code, out, err = run(["table", str(path), "--layout", "long", "--json"], capsys)
-    assert code == 0 and err == ""
+    assert code == 0 and err.startswith("SmLs01.csv: read A1:B190: 9 groups, 189 values (1 21, 2 21,")
     doc = strict_json(out)
     cert = nist.load("SmLs01").certified
     ow = doc["oneway"]
@@ -53,11 +53,13 @@ def test_table_csv_defuses_formula_like_text(tmp_path, capsys):
     code, out, err = run(["table", str(path), "--csv", "--factor", "=1+1"], capsys)
     assert code == 0, err
     sections = out.strip("\n").split("\n\n")
-    assert len(sections) == 3
+    assert len(sections) == 4
     parsed = [list(csv.reader(io.StringIO(s))) for s in sections]
-    assert parsed[0][0] == ["Source", "df", "SS", "MS", "F", "p"]
-    assert parsed[0][1][0] == "'=1+1"
-    groups = parsed[2]
+    assert parsed[0][:2] == [["Read", "Item", "Cells"], ["block", "A1:D4", "16"]]  # what was read, first
+    assert [r[1] for r in parsed[0][2:]] == ["'=HYPERLINK(\"x\")", "'+B", "'-C", "'@D"]
+    assert parsed[1][0] == ["Source", "df", "SS", "MS", "F", "p"]
+    assert parsed[1][1][0] == "'=1+1"
+    groups = parsed[3]
     assert [r[0] for r in groups[1:]] == ["'=HYPERLINK(\"x\")", "'+B", "'-C", "'@D"]
     means = [float(r[2]) for r in groups[1:]]  # negative numbers are numbers, not text
     # the first mean is (-1.5 - 1.7 - 1.2) / 3, worked by hand
@@ -72,13 +74,17 @@ def test_table_csv_defuses_formula_like_text(tmp_path, capsys):
 
 def test_table_text_output(tmp_path, capsys):
     code, out, err = run(["table", str(DEMO_BOOK)], capsys)
-    assert code == 0 and err == ""
+    assert code == 0 and err == (
+        "demo.xlsx: read 'Hardness'!A1:D9: 4 groups, 30 values (Zone 1 8, Zone 2 8, Zone 3 7, "
+        'Zone 4 7); left out 1 cell: C8 text in the data ("retest")\n'
+    )
     lines = out.splitlines()
-    assert lines[0].startswith('One-way analysis of variance (demo.xlsx, A1:D9 of sheet "Hardness")')
+    assert lines[0].startswith("Read 'Hardness'!A1:D9 of demo.xlsx")
+    assert lines[0].endswith("30 values in 4 groups (Zone 1 8, Zone 2 8, Zone 3 7, Zone 4 7)")
+    assert lines[1] == "  left out 'Hardness'!C8: text in the data (\"retest\")"
     assert any(line.split()[:2] == ["Source", "df"] for line in lines)
     assert any(line.startswith("Residual") for line in lines)
     assert any(line.startswith("Checks (alpha = 0.05); read:") for line in lines)
-    assert 'Ignored cells: C8 (text "retest")' in out  # as a spreadsheet user reads text
     assert "engineering judgement" in out
 
 
@@ -86,5 +92,5 @@ def test_table_text_names_ignored_cells_with_quotes(tmp_path, capsys):
     path = write_csv(tmp_path / "q.csv", [["A", "B"], [1, 2], ["n/a", 3], [1.5, "TRUE"], [2, 4]])
     code, out, err = run(["table", str(path)], capsys)
     assert code == 0, err
-    assert 'Ignored cells: A3 (text "n/a"), B4 (logical value TRUE)' in out
+    assert '  left out A3: text in the data ("n/a")\n  left out B4: logical value in the data (TRUE)' in out
     assert "'n/a'" not in out

@@ -22,7 +22,7 @@ from ..cells import ERROR_TEXTS, RangeRef, parse_range
 from ..groups import Groups
 from ..labels import relabel
 from ..ranges import groups_from_range
-from ..reading import LeftOut, Reading
+from ..reading import LeftOut, Reading, cell_content
 from ..source import InputSource
 from .block import CellBlock, Progress, is_blank
 from .delimited import read_delimited
@@ -241,6 +241,7 @@ def range_reading(block: CellBlock, groups: Groups) -> Reading:
             [(src.first_row + note.row, src.first_col + note.col)],
             NOTE_REASONS.get(note.kind, NOTE_REASONS["text"]),
             "missing" if note.action == "missing" else note.kind,
+            str(note.value) if note.kind == "error" else cell_content(note.value),
         )
         for note in groups.cells if note.action != "rejected"
     )

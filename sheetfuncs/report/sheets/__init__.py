@@ -13,7 +13,7 @@ from .about import build_about
 from .audit import build_audit
 from .chart import build_chart
 from .comparisons import build_comparisons
-from .data import Progress, write_data
+from .data import Progress, input_log, write_data
 from .data_layout import DataLayout, Segment
 from .findings import build_findings
 from .groups import build_groups
@@ -23,5 +23,5 @@ from .tables import NAMES, Positions, build_tables
 __all__ = [
     "DataLayout", "Segment", "NAMES", "Positions", "Progress", "build_findings",
     "build_tables", "build_comparisons", "build_groups", "build_chart", "build_audit", "build_about",
-    "write_data", "p_rule",
+    "write_data", "input_log", "p_rule",
 ]

@@ -82,7 +82,14 @@ def build_about(an: ReportContext, *, source: InputSource | None, written: str, 
 
 def _input_items(out: _Lines, an: ReportContext, source: InputSource | None, data_sheets: tuple[str, ...]) -> None:
     gr = an.groups
-    if source is not None and source.path:
+    r = an.reading
+    if r is not None:
+        out.item("File", str(r.path))
+        out.item("Block read", r.where)
+        out.item("How it was found", "read from the sheet (no range given): the header, data "
+                 "rows and columns found as the log on the Data sheet shows" if r.detected
+                 else "the range given")
+    elif source is not None and source.path:
         out.item("File", str(source.path))
         if source.sheet:
             out.item("Sheet", str(source.sheet))
@@ -94,7 +101,15 @@ def _input_items(out: _Lines, an: ReportContext, source: InputSource | None, dat
     left_int = INT_STYLE.but(halign="left")
     out.item("Groups", gr.k, left_int)
     out.item("Values used", gr.n_total, left_int)
-    out.item("Input cells not used", len(gr.cells), left_int)
+    if r is not None:
+        out.item("Non-blank cells read", r.cells_read, left_int)
+        out.item("Cells used (values and labels)", r.cells_used, left_int)
+        out.item("Cells left out", r.cells_left_out, left_int)
+        out.item("Error cells read as missing", r.missing, left_int)
+        for note in r.notes:
+            out.bullet(note)
+    else:
+        out.item("Input cells not used", len(gr.cells), left_int)
     out.item("Data sheets", ", ".join(data_sheets))
 
 

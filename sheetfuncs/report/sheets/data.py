@@ -2,8 +2,9 @@
 
 Columns A to D hold, per value, the group number, the group label, the value and its centred
 value (the value minus the Audit's centring constant, as the exact decimal difference); columns
-F to I log each input cell that was not used (its sheet and address, kind, content and
-action). Beyond a sheet's row limit both continue on ``Data 2``, ``Data 3``, ... as
+F to I log the input cells that were not used (:func:`input_log`: for a file, each entry of
+its :class:`~sheetfuncs.input.Reading` with its sheet and address, reason, content and action;
+for a range, each cell the range rules noted). Beyond a sheet's row limit both continue on ``Data 2``, ``Data 3``, ... as
 :class:`~.data_layout.DataLayout` plans. The rows are streamed straight into write-only
 worksheets, so a million values need little memory.
 """
@@ -22,7 +23,7 @@ from ..grid import Style, apply_style, make_cell, safe_text, setup_print
 from .data_layout import DataLayout
 from .styles import TH
 
-__all__ = ["Progress", "write_data"]
+__all__ = ["Progress", "input_log", "write_data"]
 
 #: ``progress(stage, done, total)``, called during long work.
 Progress = Callable[[str, int, int], None]
@@ -37,12 +38,29 @@ _WIDTHS = (10, 18, 20, 30, 3, 24, 14, 28, 10)
 _STEP = 50_000
 
 
-def write_data(sheets: list[Any], an: ReportContext, layout: DataLayout, source: InputSource | None,
+_ACTIONS = {"missing": "read as missing"}
+
+
+def input_log(an: ReportContext, source: InputSource | None) -> list[LogEntry]:
+    """The log of input cells not used: one entry per left-out block of the reading (a cell the
+    range rules noted shows its content), or per noted cell when there is no reading."""
+    reading = an.reading
+    if reading is None:
+        return [(_address(c, source), _KIND_WORDS.get(c.kind, c.kind), _content(c.value), c.action)
+                for c in an.groups.cells]
+    return [
+        (reading.address(x.ref), x.reason,
+         x.content or ("1 cell" if len(x.cells) == 1 else f"{len(x.cells)} cells"),
+         _ACTIONS.get(x.kind, "left out"))
+        for x in reading.left_out
+    ]
+
+
+def write_data(sheets: list[Any], an: ReportContext, layout: DataLayout, log: list[LogEntry],
                progress: Progress | None) -> None:
-    """Stream the long-form data and the log of unused input cells over the Data sheets."""
+    """Stream the long-form data and the log of unused input cells (:func:`input_log`) over
+    the Data sheets."""
     header = _data_header(an)
-    log = [(_address(c, source), _KIND_WORDS.get(c.kind, c.kind), _content(c.value), c.action)
-           for c in an.groups.cells]
     vfmt = an.precision.value_format()
     total = layout.n_values
     cap = layout.capacity
@@ -61,7 +79,7 @@ def _data_header(an: ReportContext) -> list[str]:
     unit = f" ({an.unit})" if an.unit else ""
     return [
         "Group no.", an.factor, f"{an.response}{unit}", f"Centred value (value − {an.centre:f})", "",
-        "Input cell not used", "Kind", "Content", "Action",
+        "Input cells not used", "Why", "Content", "Action",
     ]
 
 

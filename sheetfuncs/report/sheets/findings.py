@@ -25,7 +25,8 @@ def build_findings(an: ReportContext, fi: Findings, written: str) -> Grid:
     g.widths = {1: 30.0, 2: 16.0, 3: 14.0, 4: 12.0, 5: 44.0}
     put_title(g, an.title, f"Findings · {an.oneway.n_total} values in {an.oneway.k} groups · "
               f"alpha = {an.alpha:g} · written {written}")
-    r = _put_answer(g, fi, 4)
+    r = _put_data_read(g, an, fi, 4)
+    r = _put_answer(g, fi, r)
     r = _put_key_figures(g, an, fi.key_figures, r)
     for head, paras in fi.sections:
         g.put(r, 1, head, HEADING)
@@ -43,6 +44,20 @@ def build_findings(an: ReportContext, fi: Findings, written: str) -> Grid:
     g.freeze = "A3"
     finish_rules(g, an.alpha)
     return g
+
+
+def _put_data_read(g: Grid, an: ReportContext, fi: Findings, r: int) -> int:
+    """What was read and what was left out, before the answer; returns the next row. When
+    block detection left cells out, the lines are marked for checking."""
+    g.put(r, 1, "What was read", HEADING)
+    r += 1
+    check = an.reading is not None and an.reading.detected and bool(an.reading.left_out)
+    for i, line in enumerate(fi.data_read):
+        st = Style(bold=True, color=MARK_FONT, wrap=True, valign="top") if check and i == 1 else TEXT
+        g.put(r, 1, line, st)
+        g.merge(r, 1, r, _WIDE)
+        r += 1
+    return r + 1
 
 
 def _put_answer(g: Grid, fi: Findings, r: int) -> int:

@@ -1,5 +1,5 @@
-"""The Findings sheet: the answer first, filled by its verdict, then the key figures and the
-sections of the Findings text."""
+"""The Findings sheet: what was read, then the answer filled by its verdict, then the key figures
+and the sections of the Findings text."""
 
 from __future__ import annotations
 
@@ -11,13 +11,15 @@ from sheetfuncs.report.findings import findings
 from tests.support.scenarios import CLEAR, NONE, write_in
 
 
-def test_the_answer_comes_first_filled_by_its_verdict(tmp_path):
+def test_what_was_read_then_the_answer_filled_by_its_verdict(tmp_path):
     for groups, fill, name in ((CLEAR, "E2EFDA", "clear.xlsx"), (NONE, "EDEDED", "none.xlsx")):
         fi = findings(prepare(groups))
         ws = openpyxl.load_workbook(write_in(tmp_path, groups, name))["Findings"]
-        assert ws["A4"].value == "The answer"
-        assert ws["A5"].value == fi.headline and ws["A5"].fill.fgColor.rgb.endswith(fill)
-        assert "A5:E5" in {str(m) for m in ws.merged_cells.ranges}
+        assert ws["A4"].value == "What was read"
+        assert ws["A5"].value == fi.data_read[0] and fi.data_read[0].startswith("Data passed from Python")
+        assert ws["A7"].value == "The answer"
+        assert ws["A8"].value == fi.headline and ws["A8"].fill.fgColor.rgb.endswith(fill)
+        assert "A8:E8" in {str(m) for m in ws.merged_cells.ranges}
 
 
 def test_key_figures_with_their_p_values_marked(tmp_path):
