@@ -51,7 +51,7 @@ def test_as_groups_accepts_decimal_values():
     (42, "cannot read groups from int"),
     ({"A": [1.0, "x"]}, 'group "A" holds \'x\' at position 2'),
     ({"A": [1.0, True]}, 'group "A" holds True at position 2'),
-    ({"A": [1.0, None]}, 'group "A" holds None at position 2'),
+    ({"A": [1.0, None]}, 'a missing value \\(None\\) at position 2 of group "A"'),
     ({"A": "123"}, 'group "A" is text'),
     ({"A": [[1.0, 2.0]]}, 'group "A" must be a flat sequence'),
     ({"A": [], "B": [1.0]}, 'group "A" has no numbers'),

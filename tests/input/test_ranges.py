@@ -321,7 +321,11 @@ def test_long_layout_text_value_is_ignored_and_recorded():
     g = groups_from_range([["L1", 1.0], ["L2", 2.0], ["L1", "bad"], ["L2", True], ["L1", 3.0]],
                           layout="long")
     assert arrays(g) == [[1.0, 3.0], [2.0]]
-    assert notes(g) == [(2, 1, "text", "bad", "ignored"), (3, 1, "logical", True, "ignored")]
+    # each non-blank cell left out is recorded: the text (or logical) value, and its label
+    assert notes(g) == [
+        (2, 0, "label-only", "L1", "ignored"), (2, 1, "text", "bad", "ignored"),
+        (3, 0, "label-only", "L2", "ignored"), (3, 1, "logical", True, "ignored"),
+    ]
 
 
 def test_long_layout_errors_and_missing_labels():
@@ -329,8 +333,6 @@ def test_long_layout_errors_and_missing_labels():
         groups_from_range([["L1", 1.0], ["L2", "#VALUE!"]], layout="long")
     with pytest.raises(InputError, match="the error #N/A at row 2, column 1"):
         groups_from_range([["L1", 1.0], ["#N/A", 2.0]], layout="long")
-    with pytest.raises(InputError, match=r"^sheetfuncs: the value at row 2, column 2 of the range has no group label"):
-        groups_from_range([["L1", 1.0], [None, 2.0]], layout="long")
     with pytest.raises(InputError, match="a date at row 1, column 2"):
         groups_from_range([["L1", dt.date(2024, 1, 1)]], layout="long")
 
