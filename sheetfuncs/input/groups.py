@@ -30,6 +30,7 @@ import numpy as np
 from ..errors import InputError
 from .cells import cell_position, classify
 from .labels import case_notes, format_label, relabel as relabel_groups
+from .options import shown
 
 __all__ = [
     "CellNote",
@@ -258,7 +259,7 @@ def parse_missing(missing: Any) -> bool:
     if s not in ("stop", "drop"):
         raise InputError(
             'missing must be "stop" (a NaN or None stops the analysis) or "drop" (NaN and None '
-            f"are left out and counted), not {missing!r}"
+            f"are left out and counted), not {shown(missing)}"
         )
     return s == "drop"
 
