@@ -3,7 +3,8 @@ the engineering guide.
 
 The rules follow the host spreadsheet's own statistics functions (common practice): numbers
 count, blanks are ignored, text and logical values in a referenced range are ignored (and
-recorded), an error value anywhere stops the analysis and is named with its position.
+recorded), an error value anywhere stops the analysis and is named with its position (unless
+``errors="missing"`` reads it as a missing value, recorded with its position).
 """
 
 from __future__ import annotations
