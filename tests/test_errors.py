@@ -98,10 +98,11 @@ def test_all_values_identical():
                                        (-math.inf, "an infinite value")])
 def test_nan_or_infinity(bad, word):
     msg = message_of(sf.oneway, {"A": [1.0, bad], "B": [2.0, 3.0]})
-    assert msg == (
-        f'sheetfuncs: {word} at position 2 of group "A"; remove it or replace it with the '
-        "measured value"
+    way_out = (
+        'remove it, or pass missing="drop" to leave missing values out' if math.isnan(bad)
+        else "remove it or replace it with the measured value"
     )
+    assert msg == f'sheetfuncs: {word} at position 2 of group "A"; {way_out}'
     msg = message_of(sf.groups_from_range, [["A", "B"], [1.0, 2.0], [bad, 3.0]])
     assert msg == (
         f"sheetfuncs: {word} at row 3, column 1 of the range; remove it or replace it with the "

@@ -1,8 +1,9 @@
 """From cells to groups: the one cleaning step between what a user has and what the statistics need.
 
 ``cells`` (what a cell holds, the host's error values, A1 references), ``groups``
-(:class:`Groups` and Python inputs), ``ranges`` (the range rules that clean a spreadsheet
-range), ``options`` (checks of scalar options, values as messages show them), ``source`` (where
+(:class:`Groups` and Python inputs, missing values dropped on request), ``labels`` (labels as
+text, possible typos, renames and case merges), ``ranges`` (the range rules that clean a
+spreadsheet range, error cells read as missing values on request), ``options`` (checks of scalar options, values as messages show them), ``source`` (where
 a range came from), ``files`` (workbooks and CSV files, read safely) and ``demo`` (the built-in
 invented data). Other layers import from this package, not its modules.
 """

@@ -2,9 +2,15 @@
 
 Everything an analysis accepts goes through :func:`as_groups`:
 
-* a :class:`Groups` object (returned as it is);
+* a :class:`Groups` object (used as it is, its own dropped counts kept);
 * a mapping ``label -> sequence of numbers``;
 * a sequence of sequences, one per group, labelled ``Group 1``, ``Group 2``, ...
+
+A group's values may be lists, tuples, numpy arrays or anything iterable (a pandas Series).
+NaN and ``None`` are missing values: they stop the analysis with their position by default
+(``missing="stop"``); ``missing="drop"`` leaves them out, counts them per group
+(:attr:`Groups.dropped`) and says so in a note. ``relabel={"old": "new"}`` renames labels
+(:func:`sheetfuncs.input.labels.relabel`; groups that end up with one label are merged).
 
 Spreadsheet ranges are cleaned by :func:`sheetfuncs.input.ranges.groups_from_range` into the
 same :class:`Groups`, built by :func:`build_groups`.
@@ -12,8 +18,6 @@ same :class:`Groups`, built by :func:`build_groups`.
 
 from __future__ import annotations
 
-import datetime as _dt
-import decimal
 import math
 import numbers
 from collections.abc import Mapping, Sequence
@@ -25,6 +29,8 @@ import numpy as np
 
 from ..errors import InputError
 from .cells import cell_position, classify
+from .labels import case_notes, format_label, relabel as relabel_groups
+from .options import shown
 
 __all__ = [
     "CellNote",
@@ -32,8 +38,10 @@ __all__ = [
     "as_groups",
     "bad_number_message",
     "build_groups",
+    "dropped_note",
     "first_duplicate",
     "format_label",
+    "parse_missing",
 ]
 
 
@@ -42,9 +50,11 @@ class CellNote:
     """One input cell that was not used as a measurement.
 
     ``row`` and ``col`` are 0-based positions within the range as given (before any transpose).
-    ``kind`` is ``"text"``, ``"logical"``, ``"error"`` or ``"date"``; ``action`` is
-    ``"ignored"`` (skipped, as the host's own statistics functions skip it) or ``"rejected"``
-    (it stopped the analysis).
+    ``kind`` is ``"text"``, ``"logical"``, ``"error"``, ``"date"``, ``"nan"``, ``"other"`` or,
+    in the long layout, ``"label-only"`` (a label without a value; ``value`` is the label) or
+    ``"unlabelled"`` (a value without a label); ``action`` is ``"ignored"`` (skipped, as the
+    host's own statistics functions skip it), ``"missing"`` (an error value read as a missing
+    value, ``errors="missing"``) or ``"rejected"`` (it stopped the analysis).
     """
 
     row: int
@@ -63,9 +73,11 @@ class CellNote:
 class Groups:
     """Cleaned groups: labels in order of first appearance and one float array per group.
 
-    ``cells`` records every ignored cell (text, logical values) with its position in the range;
-    ``notes`` holds plain-language remarks (for example labels that differ only in case).
-    Arrays are read-only float64.
+    ``cells`` records every cell left out (text, logical values, missing values) with its
+    position in the range; ``notes`` holds plain-language remarks (labels that differ only in
+    case, labels renamed or merged, missing values dropped); ``dropped`` counts, per group, the
+    missing values left out (NaN or None with ``missing="drop"``, error cells read with
+    ``errors="missing"``): zeros when nothing was left out. Arrays are read-only float64.
     """
 
     labels: tuple[str, ...]
@@ -74,6 +86,7 @@ class Groups:
     notes: tuple[str, ...] = ()
     layout: str = "python"
     label_source: str = "given"
+    dropped: tuple[int, ...] = ()
 
     def __post_init__(self) -> None:
         if len(self.labels) != len(self.arrays):
@@ -85,7 +98,7 @@ class Groups:
         checked = []
         for lab, a in zip(self.labels, self.arrays):
             if not (isinstance(a, np.ndarray) and a.dtype == np.float64 and a.ndim == 1):
-                a = _numbers(a, str(lab))
+                a = _numbers(a, str(lab), hint=False)[0]
             if a.size == 0:
                 raise InputError(
                     f'group "{lab}" has no numbers; give it values or leave it out'
@@ -97,8 +110,15 @@ class Groups:
                 a = a.copy()
                 a.setflags(write=False)
             checked.append(a)
+        dropped = tuple(int(x) for x in self.dropped) if self.dropped else (0,) * len(checked)
+        if len(dropped) != len(checked) or min(dropped, default=0) < 0:
+            raise InputError(
+                f"{len(dropped)} dropped counts for {len(checked)} groups; give one count "
+                "(0 or more) per group"
+            )
         object.__setattr__(self, "labels", tuple(str(x) for x in self.labels))
         object.__setattr__(self, "arrays", tuple(checked))
+        object.__setattr__(self, "dropped", dropped)
 
     @property
     def k(self) -> int:
@@ -111,6 +131,16 @@ class Groups:
     @cached_property
     def n_total(self) -> int:
         return int(sum(a.size for a in self.arrays))
+
+    @property
+    def n_dropped(self) -> int:
+        """How many missing values were left out, over all groups."""
+        return sum(self.dropped)
+
+    @property
+    def case_notes(self) -> tuple[str, ...]:
+        """The notes on labels that differ only in case (possible typos), part of ``notes``."""
+        return case_notes(self.labels)
 
     def __len__(self) -> int:
         return len(self.labels)
@@ -125,52 +155,39 @@ class Groups:
         """How many cells were ignored (optionally of one kind: text, logical)."""
         return sum(1 for c in self.cells if c.action == "ignored" and (kind is None or c.kind == kind))
 
+    def regrouped(self, labels: Sequence[str], notes: Sequence[str] = ()) -> Groups:
+        """These groups under new ``labels`` (one per group, see
+        :func:`sheetfuncs.input.labels.relabel`): groups that share a label become one, their
+        values joined in group order and their dropped counts added. ``notes`` are added after
+        the remarks kept; the notes on case and on dropped values are made anew for the new
+        labels. The cells log is kept as it is."""
+        if len(labels) != self.k:
+            raise InputError(f"{len(labels)} new labels for {self.k} groups; give one per group")
+        parts: dict[str, list[int]] = {}
+        for i, lab in enumerate(labels):
+            parts.setdefault(str(lab), []).append(i)
+        arrays = [
+            self.arrays[ix[0]] if len(ix) == 1 else np.concatenate([self.arrays[i] for i in ix])
+            for ix in parts.values()
+        ]
+        dropped = tuple(sum(self.dropped[i] for i in ix) for ix in parts.values())
+        made = set(self.case_notes)
+        old_drop = dropped_note(self.labels, self.dropped)
+        if old_drop:
+            made.add(old_drop)
+        new_drop = dropped_note(list(parts), dropped) if old_drop in self.notes else ""
+        return build_groups(
+            list(parts), arrays, self.cells, self.layout, self.label_source, dropped=dropped,
+            notes=[n for n in self.notes if n not in made] + list(notes), after=[new_drop],
+        )
+
     def __repr__(self) -> str:
         inner = ", ".join(f"{lab!r}: n={a.size}" for lab, a in self)
         return f"Groups({inner})"
 
 
 # --------------------------------------------------------------------------------------------
-# labels
-
-
-def format_label(value: Any) -> str:
-    """A label as text: trimmed strings, shortest numbers (``3`` not ``3.0``), ISO dates."""
-    if isinstance(value, str):
-        return value.strip()
-    if isinstance(value, bool):
-        return "TRUE" if value else "FALSE"
-    if isinstance(value, _dt.datetime):
-        if value.time() == _dt.time(0, 0):
-            return value.date().isoformat()
-        return value.isoformat(sep=" ")
-    if isinstance(value, (_dt.date, _dt.time)):
-        return value.isoformat()
-    if isinstance(value, decimal.Decimal):
-        value = float(value)
-    if isinstance(value, numbers.Integral):
-        return str(int(value))
-    if isinstance(value, numbers.Real):
-        v = float(value)
-        if math.isfinite(v) and v == int(v) and abs(v) < 1e16:
-            return str(int(v))
-        return repr(v)
-    return str(value).strip()
-
-
-def _case_notes(labels: Sequence[str]) -> tuple[str, ...]:
-    seen: dict[str, list[str]] = {}
-    for lab in labels:
-        seen.setdefault(lab.casefold(), []).append(lab)
-    notes = []
-    for same in seen.values():
-        if len(same) > 1:
-            shown = ", ".join(f'"{s}"' for s in same)
-            notes.append(
-                f"labels {shown} differ only in case and are kept as separate groups; "
-                "check for a typo"
-            )
-    return tuple(notes)
+# labels (written by :func:`sheetfuncs.input.labels.format_label`)
 
 
 def first_duplicate(items: Sequence[str]) -> str | None:
@@ -201,10 +218,15 @@ def build_groups(
     cells: Sequence[CellNote],
     layout: str,
     source: str,
+    *,
+    dropped: Sequence[int] = (),
+    notes: Sequence[str] = (),
+    after: Sequence[str] = (),
 ) -> Groups:
     """:class:`Groups` from checked labels and arrays: read-only float64 arrays, ``cells``
-    sorted by position, notes on labels that differ only in case; ``source`` says where the
-    labels came from (``given``, ``range``, ``default``)."""
+    sorted by position; the notes are ``notes``, then those on labels that differ only in case,
+    then ``after`` (empty ones left out); ``source`` says where the labels came from
+    (``given``, ``range``, ``default``); ``dropped`` the missing values left out per group."""
     frozen = []
     for a in arrays:
         a = np.ascontiguousarray(a, dtype=np.float64)
@@ -214,9 +236,10 @@ def build_groups(
         labels=tuple(labels),
         arrays=tuple(frozen),
         cells=tuple(sorted(cells, key=lambda n: (n.row, n.col))),
-        notes=_case_notes(labels),
+        notes=tuple(n for n in (*notes, *case_notes(labels), *after) if n),
         layout=layout,
         label_source=source,
+        dropped=tuple(dropped),
     )
 
 
@@ -225,26 +248,56 @@ def build_groups(
 
 
 _PLAIN_NUMBER_TYPES = frozenset({float, int, np.float64, np.float32, np.int64, np.int32})
+#: Plain numbers and None (a missing value, NaN in a float array).
+_NUMBER_OR_NONE = _PLAIN_NUMBER_TYPES | {type(None)}
+_MISSING_HINT = 'remove it, or pass missing="drop" to leave missing values out'
 
 
-def _numbers(values: Any, label: str) -> np.ndarray:
-    """One group's values as a float64 array; anything but finite numbers is an InputError."""
+def parse_missing(missing: Any) -> bool:
+    """The ``missing`` option: ``"stop"`` (False) or ``"drop"`` (True)."""
+    s = "stop" if missing is None else str(missing).strip().lower()
+    if s not in ("stop", "drop"):
+        raise InputError(
+            'missing must be "stop" (a NaN or None stops the analysis) or "drop" (NaN and None '
+            f"are left out and counted), not {shown(missing)}"
+        )
+    return s == "drop"
+
+
+def _is_missing(v: Any) -> bool:
+    """None, or pandas' own missing-value marker (``pd.NA``), found without importing pandas."""
+    return v is None or (type(v).__name__ == "NAType" and type(v).__module__.startswith("pandas"))
+
+
+def _sequence(values: Any, label: str) -> np.ndarray | list[Any]:
+    """One group's values as a 1-D numeric array or a list of cells."""
     if isinstance(values, (str, bytes)):
         raise InputError(f'group "{label}" is text, not a sequence of numbers')
-    flat_msg = f'group "{label}" must be a flat sequence of numbers'
+    if not isinstance(values, (np.ndarray, list, tuple)) and hasattr(values, "__array__"):
+        values = np.asarray(values)  # a pandas Series, say: its numbers in one step
     if isinstance(values, np.ndarray):
         if values.ndim > 1:
-            raise InputError(flat_msg)
-        seq = values.reshape(-1) if values.dtype.kind in "iuf" else values.reshape(-1).tolist()
-    else:
-        try:
-            seq = list(values)
-        except TypeError:
-            seq = [values]  # a single number
+            raise InputError(f'group "{label}" must be a flat sequence of numbers')
+        return values.reshape(-1) if values.dtype.kind in "iuf" else values.reshape(-1).tolist()
+    try:
+        return list(values)
+    except TypeError:
+        return [values]  # a single number
+
+
+def _numbers(values: Any, label: str, *, drop: bool = False, hint: bool = True) -> tuple[np.ndarray, int]:
+    """One group's values as a float64 array, and how many missing values were dropped.
+
+    NaN and None (and pandas' ``NA``) are missing values: left out and counted when ``drop``,
+    else an InputError naming the first, which says how to drop them when ``hint``. Anything
+    else that is not a finite number is an InputError.
+    """
+    seq = _sequence(values, label)
     if isinstance(seq, np.ndarray):
         arr = seq.astype(np.float64)
-    elif set(map(type, seq)) <= _PLAIN_NUMBER_TYPES:
-        # plain numbers only (numpy would turn [1.0, "x"] into text and [1.0, True] into 1.0)
+    elif set(map(type, seq)) <= _NUMBER_OR_NONE:
+        # plain numbers and None only (numpy would turn [1.0, "x"] into text and [1.0, True]
+        # into 1.0); None becomes NaN
         try:
             arr = np.asarray(seq, dtype=np.float64)
         except OverflowError:
@@ -253,28 +306,44 @@ def _numbers(values: Any, label: str) -> np.ndarray:
         out = []
         for i, v in enumerate(seq):
             if isinstance(v, (list, tuple, np.ndarray)):
-                raise InputError(flat_msg)
+                raise InputError(f'group "{label}" must be a flat sequence of numbers')
             kind, val = classify(v)
-            if kind != "number":
+            if kind != "number" and not _is_missing(v):
                 raise InputError(
                     f'group "{label}" holds {v!r} at position {i + 1}; '
                     "only numbers are allowed (use groups_from_range for spreadsheet ranges)"
                 )
-            out.append(val)
+            out.append(math.nan if kind != "number" else val)
         arr = np.array(out, dtype=np.float64)
-    if not np.isfinite(arr).all():
-        i = int(np.flatnonzero(~np.isfinite(arr))[0])
-        raise InputError(bad_number_message(float(arr[i]), f'position {i + 1} of group "{label}"'))
-    return arr
+    if np.isfinite(arr).all():
+        return arr, 0
+    nan = np.isnan(arr)
+    bad = np.flatnonzero(~nan & ~np.isfinite(arr) if drop else ~np.isfinite(arr))
+    if bad.size:
+        i = int(bad[0])
+        if not nan[i]:
+            raise InputError(bad_number_message(float(arr[i]), f'position {i + 1} of group "{label}"'))
+        v = seq[i]
+        what = f"a missing value ({v})" if _is_missing(v) else "NaN (not a number)"
+        how = _MISSING_HINT if hint else "remove it or replace it with the measured value"
+        raise InputError(f'{what} at position {i + 1} of group "{label}"; {how}')
+    return arr[~nan], int(np.count_nonzero(nan))
 
 
-def as_groups(data: Any) -> Groups:
-    """Any accepted input as :class:`Groups` (see the module docstring)."""
-    if isinstance(data, Groups):
-        return data
+def dropped_note(labels: Sequence[str], dropped: Sequence[int]) -> str:
+    """``2 missing values (NaN or None) dropped: "Line 2" 1, "Line 3" 1``, or "" for none."""
+    total = sum(dropped)
+    if not total:
+        return ""
+    each = ", ".join(f'"{lab}" {n}' for lab, n in zip(labels, dropped) if n)
+    return f"{total} missing value{'s' if total != 1 else ''} (NaN or None) dropped: {each}"
+
+
+def _python_groups(data: Any, drop: bool) -> Groups:
+    """A mapping or a sequence of groups as :class:`Groups` (see :func:`as_groups`)."""
     if isinstance(data, Mapping):
         labels = [format_label(k) for k in data.keys()]
-        arrays = [_numbers(v, lab) for lab, v in zip(labels, data.values())]
+        values = list(data.values())
         source = "given"
     elif isinstance(data, np.ndarray) and data.ndim == 2 and data.dtype.kind in "iuf":
         raise InputError(
@@ -282,14 +351,13 @@ def as_groups(data: Any) -> Groups:
             "use groups_from_range with a layout"
         )
     elif isinstance(data, (Sequence, np.ndarray)) and not isinstance(data, (str, bytes)):
-        seq = list(data)
-        if seq and all(isinstance(v, numbers.Real) for v in seq):
+        values = list(data)
+        if values and all(isinstance(v, numbers.Real) for v in values):
             raise InputError(
                 "got one flat sequence of numbers; pass one sequence per group, "
                 "e.g. [[...], [...]], or a mapping label -> values"
             )
-        labels = [f"Group {i + 1}" for i in range(len(seq))]
-        arrays = [_numbers(v, lab) for lab, v in zip(labels, seq)]
+        labels = [f"Group {i + 1}" for i in range(len(values))]
         source = "default"
     else:
         raise InputError(
@@ -299,7 +367,32 @@ def as_groups(data: Any) -> Groups:
     dup = first_duplicate(labels)
     if dup is not None:
         raise InputError(f'the label "{dup}" is used twice; give each group its own label')
-    for lab, a in zip(labels, arrays):
+    parts = [_numbers(v, lab, drop=drop) for lab, v in zip(labels, values)]
+    for lab, (a, n) in zip(labels, parts):
+        if a.size == 0 and n:
+            raise InputError(
+                f'group "{lab}" has no numbers left after dropping its {n} missing value'
+                f"{'s' if n != 1 else ''} (NaN or None); give it values or leave it out"
+            )
         if a.size == 0:
             raise InputError(f'group "{lab}" has no numbers; give it values or leave it out')
-    return build_groups(labels, arrays, (), "python", source)
+    dropped = [n for _, n in parts]
+    return build_groups(
+        labels, [a for a, _ in parts], (), "python", source, dropped=dropped,
+        after=[dropped_note(labels, dropped)],
+    )
+
+
+def as_groups(data: Any, *, missing: str = "stop", relabel: Any = None) -> Groups:
+    """Any accepted input as :class:`Groups` (see the module docstring).
+
+    ``missing`` is ``"stop"`` (default: a NaN or None is an error naming its position) or
+    ``"drop"`` (NaN and None are left out, counted per group in :attr:`Groups.dropped` and
+    noted); a group with no values left is an error. ``relabel`` maps old labels to new ones,
+    e.g. ``{"supplier B": "Supplier B"}``; groups that end up with one label are merged (see
+    :func:`sheetfuncs.input.labels.relabel`). A :class:`Groups` object is used as it is (only
+    ``relabel`` applies to it).
+    """
+    drop = parse_missing(missing)
+    g = data if isinstance(data, Groups) else _python_groups(data, drop)
+    return relabel_groups(g, rename=relabel) if relabel is not None else g

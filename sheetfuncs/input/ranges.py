@@ -2,8 +2,9 @@
 
 :func:`groups_from_range` applies the range rules of the project guide: numbers count; blanks
 are ignored; text and logical values are ignored and recorded; an error value anywhere makes the
-whole call an :class:`InputError` that names the error and its position; dates in a data
-position are errors. Layouts: ``wide`` (one group per column), ``rowwise`` (one group per row)
+whole call an :class:`InputError` that names the error and its position (with
+``errors="missing"`` an error in a data position is a missing value instead: left out and
+recorded); dates in a data position are errors. Layouts: ``wide`` (one group per column), ``rowwise`` (one group per row)
 and ``long`` (a label column and a value column, also :func:`groups_from_long`).
 
 A range whose data cells are all floats or blanks (what a spreadsheet hands over for typed
@@ -16,6 +17,7 @@ from __future__ import annotations
 import math
 import operator
 import struct
+from collections import Counter
 from collections.abc import Sequence
 from itertools import chain
 from typing import Any
@@ -161,8 +163,11 @@ class _Collector:
 # reading line by line
 
 
-def _line_values(line: Sequence[Any], lineno: int, start: int, col: _Collector) -> np.ndarray:
-    """Numbers of one column (or row) from index ``start`` on; records everything else."""
+def _line_values(
+    line: Sequence[Any], lineno: int, start: int, col: _Collector, missing: bool = False
+) -> np.ndarray:
+    """Numbers of one column (or row) from index ``start`` on; records everything else (an
+    error value as a missing value when ``missing``)."""
     cells = line[start:]
     types = set(map(type, cells))
     if types <= {float, type(None)}:
@@ -187,6 +192,8 @@ def _line_values(line: Sequence[Any], lineno: int, start: int, col: _Collector) 
             continue
         elif kind in ("text", "logical"):
             col.add(lineno, i, kind, val)
+        elif kind == "error" and missing:
+            col.add(lineno, i, kind, val, "missing")
         else:  # error, date, other
             col.add(lineno, i, kind, val, "rejected")
     return np.array(out, dtype=np.float64)
@@ -216,7 +223,11 @@ def groups_from_range(
 
     ``errors`` is ``"stop"`` (default: an error value stops the reading with its position, as
     the host's own functions do) or ``"missing"`` (error values in data positions are missing
-    values: left out and recorded in ``cells`` with the action ``"missing"``).
+    values: left out, recorded in ``cells`` as kind ``"error"`` with the action ``"missing"``,
+    and counted per group in ``Groups.dropped``). An error in the label row (or column) stops
+    the reading either way: a group cannot be reported without its label. In the long layout
+    with ``"missing"``, an error in a label cell is a missing label: the cell is recorded as
+    missing and the row's value as ``"unlabelled"``.
     """
     return _read_range(cells, layout, labels, block=True, errors=parse_errors(errors))
 
@@ -239,14 +250,15 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool, errors: st
     rows = _as_rows(cells)
     if not rows or not rows[0]:
         raise InputError("the range is empty; select the cells that hold the data")
+    missing = errors == "missing"
     if lay == "long":
-        return _from_long_rows(rows, lab)
+        return _from_long_rows(rows, lab, missing)
     transpose = lay == "rowwise"
     col = _Collector(transpose)
 
     # label line: the first cell of every line
     heads = [r[0] for r in rows] if transpose else list(rows[0])
-    has_labels = _has_label_line(heads, len(rows[0]) if transpose else len(rows), lab, col)
+    has_labels = _has_label_line(heads, len(rows[0]) if transpose else len(rows), lab, col, missing)
     start = 1 if has_labels else 0
 
     values = _plain_block(rows, start, transpose) if block else None
@@ -254,7 +266,7 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool, errors: st
         blank_lines = [a.size == 0 for a in values]  # only floats and blanks: no float, all blank
     else:
         lines = rows if transpose else list(zip(*rows))
-        values = [_line_values(ln, i, start, col) for i, ln in enumerate(lines)]
+        values = [_line_values(ln, i, start, col, missing) for i, ln in enumerate(lines)]
         blank_lines = [all(v is None or v == "" for v in ln[start:]) for ln in lines]
 
     raw_labels, arrays, positions = _kept_lines(values, blank_lines, heads if has_labels else None)
@@ -262,27 +274,49 @@ def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool, errors: st
     if not arrays:
         raise InputError("the range holds no numbers; select the cells with the data")
     final = _group_labels(raw_labels, positions, transpose)
-    _check_every_group_has_numbers(final, raw_labels, arrays, positions, transpose)
-    return build_groups(final, arrays, col.notes, lay, "range" if has_labels else "default")
+    per_line = Counter(n.row if transpose else n.col for n in col.notes if n.action == "missing")
+    dropped = [per_line[p] for p in positions]
+    _check_every_group_has_numbers(final, raw_labels, arrays, positions, transpose, dropped)
+    return build_groups(
+        final, arrays, col.notes, lay, "range" if has_labels else "default", dropped=dropped
+    )
 
 
-def _has_label_line(heads: list[Any], line_length: int, lab: str, col: _Collector) -> bool:
+def _has_label_line(
+    heads: list[Any], line_length: int, lab: str, col: _Collector, missing: bool = False
+) -> bool:
     """Whether ``heads`` (the first cell of every line) are the groups' labels.
 
-    An error value among them stops the reading. ``lab`` is the ``labels`` argument as
-    ``auto``, ``yes`` or ``no``; ``line_length`` the number of cells in a line.
+    ``lab`` is the ``labels`` argument as ``auto``, ``yes`` or ``no``; ``line_length`` the
+    number of cells in a line. An error value among the heads stops the reading, except with
+    ``missing`` when the heads are data (no labels): then it is a missing value, read with
+    the data. With ``missing``, ``auto`` decides on the heads that are not errors.
     """
-    for i, h in enumerate(heads):
-        if error_text(h) is not None:
-            col.add(i, 0, "error", error_text(h), "rejected")
-    col.raise_errors()
+    errs = [(i, error_text(h)) for i, h in enumerate(heads) if error_text(h) is not None]
+    if errs and not missing:
+        for i, e in errs:
+            col.add(i, 0, "error", e, "rejected")
+        col.raise_errors()
     if lab == "auto":
-        nonblank = [h for h in heads if not (h is None or (isinstance(h, str) and h.strip() == ""))]
+        nonblank = [
+            h for h in heads
+            if not (h is None or (isinstance(h, str) and h.strip() == "")) and error_text(h) is None
+        ]
         has_labels = bool(nonblank) and all(_is_labelish_text(h) for h in nonblank)
     else:
         has_labels = lab == "yes"
     if has_labels and line_length < 2 and lab == "auto":
         has_labels = False  # a single row of text is data (all ignored) rather than labels
+    if has_labels and errs:
+        i, e = errs[0]
+        r, c = col.pos(i, 0)
+        more = f" (and {len(errs) - 1} more)" if len(errs) > 1 else ""
+        raise InputError(
+            f"the group label at {cell_position(r, c)} of the range is the error {e}{more}; a "
+            "group cannot be reported without its label: fix that cell, or leave its "
+            f"{'row' if col.transpose else 'column'} out of the range",
+            cells=tuple(col.pos(j, 0) for j, _ in errs),
+        )
     return has_labels
 
 
@@ -342,20 +376,28 @@ def _check_every_group_has_numbers(
     arrays: list[np.ndarray],
     positions: list[int],
     transpose: bool,
+    dropped: list[int],
 ) -> None:
     """A labelled group, or an unlabelled line, without a number is an error."""
     line_word = "row" if transpose else "column"
     for j, arr in enumerate(arrays):
         if arr.size == 0:
             if raw_labels[j] is not None:
-                raise InputError(
-                    f'group "{final[j]}" has no numbers; enter its values or '
-                    "leave it out of the range"
-                )
+                raise InputError(_no_numbers_message(final[j], dropped[j]))
+            what = "text, logical or missing values" if dropped[j] else "text or logical values"
             raise InputError(
                 f"{line_word} {positions[j] + 1} of the range has no numbers, only "
-                f"text or logical values; clear it or leave it out of the range"
+                f"{what}; clear it or leave it out of the range"
             )
+
+
+def _no_numbers_message(label: str, missing: int) -> str:
+    """A labelled group without a number; ``missing`` error cells were read as missing."""
+    why = (
+        f" (its {missing} error cell{'s' if missing != 1 else ''} "
+        f"{'were' if missing != 1 else 'was'} read as missing)" if missing else ""
+    )
+    return f'group "{label}" has no numbers{why}; enter its values or leave it out of the range'
 
 
 # --------------------------------------------------------------------------------------------
@@ -435,7 +477,16 @@ def _plain_block(rows: Sequence[Sequence[Any]], start: int, transpose: bool) -> 
 # long layout
 
 
-def _from_long_rows(rows: list[tuple], lab: str) -> Groups:
+def _from_long_rows(rows: list[tuple], lab: str, missing: bool = False) -> Groups:
+    """The long layout: a label column and a value column.
+
+    A row with a label but no number (a blank, text, a logical value or, with ``missing``, an
+    error) is recorded as ``"label-only"`` at its label cell, the one non-blank cell of it that
+    is not used (its text or error cell is recorded as well); a number without a label is
+    recorded as ``"unlabelled"``. A label without a number in any row is an error (a labelled
+    group with no numbers). With ``missing``, an error in a label cell is a missing label: the
+    label cell is recorded as missing and the row's value as unlabelled.
+    """
     width = len(rows[0])
     if width != 2:
         raise InputError(
@@ -447,56 +498,71 @@ def _from_long_rows(rows: list[tuple], lab: str) -> Groups:
     first_label, first_value = rows[0]
     if lab == "yes" or (lab == "auto" and _is_labelish_text(first_value)):
         start = 1
-    for r in range(len(rows)):
-        for c in (0, 1):
-            e = error_text(rows[r][c])
-            if e is not None:
-                col.add(r, c, "error", e, "rejected")
-    col.raise_errors()
+    if not missing:
+        for r in range(len(rows)):
+            for c in (0, 1):
+                e = error_text(rows[r][c])
+                if e is not None:
+                    col.add(r, c, "error", e, "rejected")
+        col.raise_errors()
     order: dict[str, list[float]] = {}
+    drops: Counter[str] = Counter()
     for r in range(start, len(rows)):
-        lv, vv = rows[r]
-        kind, val = classify(vv)
-        label_blank = lv is None or (isinstance(lv, str) and lv.strip() == "")
-        if kind == "blank":
-            continue
-        if kind == "number":
-            if not math.isfinite(val):
-                col.add(r, 1, "nan", val, "rejected")
-                continue
-            if label_blank:
-                raise InputError(
-                    f"the value at {cell_position(r, 1)} of the range has no group "
-                    "label; fill in its label (first column) or clear the value",
-                    cells=((r, 0),),
-                )
-            label = format_label(lv)
-            order.setdefault(label, []).append(val)
-        elif kind in ("text", "logical"):
-            col.add(r, 1, kind, val)
-            if not label_blank:
-                order.setdefault(format_label(lv), [])
-        else:
-            col.add(r, 1, kind, val, "rejected")
+        label = _long_row(rows[r], r, col, order)
+        if label is not None:
+            drops[label] += 1
     col.raise_errors()
     if not order:
         raise InputError("the range holds no numbers; select the cells with the data")
     for label, vals in order.items():
         if not vals:
-            raise InputError(
-                f'group "{label}" has no numbers; enter its values or leave it out '
-                "of the range"
-            )
+            raise InputError(_no_numbers_message(label, drops[label]))
     return build_groups(
-        list(order), [np.array(v, dtype=np.float64) for v in order.values()], col.notes, "long", "range"
+        list(order), [np.array(v, dtype=np.float64) for v in order.values()], col.notes, "long",
+        "range", dropped=[drops[label] for label in order],
     )
 
 
-def groups_from_long(labels: Sequence[Any], values: Sequence[Any]) -> Groups:
-    """Groups from two parallel columns: one label and one value per observation."""
+def _long_row(row: Sequence[Any], r: int, col: _Collector, order: dict[str, list[float]]) -> str | None:
+    """Reads row ``r`` of the long layout into ``order`` (label -> values) and records what it
+    leaves out; returns the row's label when its value is an error read as missing."""
+    lv, vv = row
+    kind, val = classify(vv)
+    lerr = error_text(lv)
+    if lerr is not None:  # only with errors="missing": a missing label
+        col.add(r, 0, "error", lerr, "missing")
+        label = None
+    elif lv is None or (isinstance(lv, str) and lv.strip() == ""):
+        label = None
+    else:
+        label = format_label(lv)
+    if kind == "number":
+        if not math.isfinite(val):
+            col.add(r, 1, "nan", val, "rejected")
+        elif label is None:
+            col.add(r, 1, "unlabelled", val)
+        else:
+            order.setdefault(label, []).append(val)
+        return None
+    if kind in ("text", "logical"):
+        col.add(r, 1, kind, val)
+    elif kind == "error":
+        col.add(r, 1, kind, val, "missing")
+    elif kind != "blank":
+        col.add(r, 1, kind, val, "rejected")
+    if label is None or kind in ("date", "other"):
+        return None
+    col.add(r, 0, "label-only", label)
+    order.setdefault(label, [])
+    return label if kind == "error" else None
+
+
+def groups_from_long(labels: Sequence[Any], values: Sequence[Any], *, errors: str = "stop") -> Groups:
+    """Groups from two parallel columns: one label and one value per observation (``errors``
+    as in :func:`groups_from_range`)."""
     if len(labels) != len(values):
         raise InputError(
             f"the label column has {len(labels)} entries but the value column has "
             f"{len(values)}; give one label per value"
         )
-    return _from_long_rows(list(zip(labels, values)), "no")
+    return _from_long_rows(list(zip(labels, values)), "no", parse_errors(errors) == "missing")

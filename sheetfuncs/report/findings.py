@@ -423,12 +423,13 @@ def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...
     only point to them."""
     g = an.groups
     notes: list[str] = []
-    typos = tuple("Possible typo: " + n for n in g.notes)
+    typos = tuple("Possible typo: " + n for n in g.case_notes)
     if typos:
         notes.append(
             f"Labels that differ only in case are kept as separate groups ({len(typos)} possible "
             f"typo{'' if len(typos) == 1 else 's'}, listed under the answer above)."
         )
+    notes += [n[:1].upper() + n[1:] + "." for n in g.notes if n not in g.case_notes]  # renames, drops
     ignored = [c for c in g.cells if c.action == "ignored"]
     if ignored:
         kinds: dict[str, int] = {}

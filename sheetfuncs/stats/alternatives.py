@@ -36,6 +36,7 @@ digits lose nothing.
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any, ClassVar
@@ -109,13 +110,19 @@ class WelchResult(_HeteroscedasticF):
     name: ClassVar[str] = "Welch"
 
 
-def welch(groups: Any, *, exact: bool | None = None) -> WelchResult:
+def welch(
+    groups: Any, *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> WelchResult:
     """Welch's heteroscedastic one-way test of equal means.
 
     Every group needs two or more values and a non-zero variance (the test weights each group
     by ``n_i / s_i^2``). See the module docstring for the formula.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g, mom = prepare_with_variances(groups, "Welch's test", exact)
+    g = as_groups(groups, missing=missing, relabel=relabel)
+    g, mom = prepare_with_variances(g, "Welch's test", exact)
     dev, var = centred_group_stats(g, mom)
     k = g.k
     ns = g.counts
@@ -158,13 +165,19 @@ class BrownForsytheResult(_HeteroscedasticF):
     name: ClassVar[str] = "Brown-Forsythe F*"
 
 
-def brown_forsythe(groups: Any, *, exact: bool | None = None) -> BrownForsytheResult:
+def brown_forsythe(
+    groups: Any, *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> BrownForsytheResult:
     """Brown–Forsythe F* for equal means (not the Brown–Forsythe test for variances, which is
     :func:`sheetfuncs.stats.variances.levene` with ``center="median"``).
 
     Every group needs two or more values; single groups may have zero variance, but not all.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g, mom = prepare_with_variances(groups, "the Brown-Forsythe F* test", exact)
+    g = as_groups(groups, missing=missing, relabel=relabel)
+    g, mom = prepare_with_variances(g, "the Brown-Forsythe F* test", exact)
     n_tot = g.n_total
     ns = g.counts
     every, each = [list(range(g.k))], [[i] for i in range(g.k)]
@@ -254,13 +267,18 @@ def _twice_ranks(values: np.ndarray) -> tuple[np.ndarray, int]:
     return out, sum(x * x * x - x for x in t)
 
 
-def kruskal(groups: Any) -> KruskalResult:
+def kruskal(
+    groups: Any, *,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> KruskalResult:
     """Kruskal–Wallis H test with the tie correction; see the module docstring.
 
     Groups of one value are allowed. All values tied (one value throughout) is an error: the
     ranks then carry no information.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g = as_groups(groups)
+    g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     allv = np.concatenate(g.arrays)
     n_tot = int(allv.size)

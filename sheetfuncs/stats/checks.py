@@ -11,7 +11,7 @@ The reading rule of :func:`checks` is documented there and in ``docs/checks.md``
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from typing import Any, ClassVar
 
@@ -173,6 +173,8 @@ def checks(
     exact: bool | None = None,
     moments: ExactMoments | FloatMoments | None = None,
     oneway: OneWayResult | None = None,
+    missing: str = "stop",
+    relabel: Mapping[str, str] | None = None,
 ) -> ChecksResult:
     """Run the assumption checks and say, in plain words, which test to read.
 
@@ -194,8 +196,10 @@ def checks(
 
     ``moments`` and ``oneway``, when given, are the groups' moments and one-way result already
     computed (by :func:`sheetfuncs.stats.analyse`), and are used instead of computing them again.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g = as_groups(groups)
+    g = as_groups(groups, missing=missing, relabel=relabel)
     a = check_alpha(alpha)
     require_two_groups(g)
     mom = moments if moments is not None else compute_moments(g, exact)

@@ -40,7 +40,7 @@ statistic and ``p = 0``, and a pair with equal means has statistic 0 and ``p = 1
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any, ClassVar
@@ -163,7 +163,8 @@ class PairwiseResult:
     variances); ``row_df`` the degrees of freedom behind each row; ``multipliers`` the factor
     that turns each row's SE into its interval half-width (for q-based methods ``q/sqrt 2``);
     ``control`` the control's label (Dunnett only); ``exact`` whether means and sums of squares
-    came from the decimal-exact path; ``notes`` plain-words remarks.
+    came from the decimal-exact path; ``notes`` plain-words remarks; ``dropped`` the missing
+    values left out of each group (``missing="drop"``, or error cells read as missing).
     """
 
     method: str
@@ -182,6 +183,7 @@ class PairwiseResult:
     exact: bool
     control: str | None = None
     notes: tuple[str, ...] = ()
+    dropped: tuple[int, ...] = ()
 
     #: The table's header row, with ``{interval}`` and ``{statistic}`` for the result's own
     #: interval label and statistic name (:meth:`header`).
@@ -303,8 +305,7 @@ def _check_variances(g: Groups, mom: ExactMoments | FloatMoments, method: str) -
     return out
 
 
-def _prepare(groups: Any, alpha: Any) -> tuple[Groups, float, ExactMoments | FloatMoments]:
-    g = as_groups(groups)
+def _prepare(g: Groups, alpha: Any) -> tuple[Groups, float, ExactMoments | FloatMoments]:
     require_two_groups(g)
     a = check_alpha(alpha)
     return g, a, compute_moments(g, None)
@@ -318,16 +319,21 @@ def _means(g: Groups, mom: ExactMoments | FloatMoments) -> tuple[float, ...]:
 # pairwise
 
 
-def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> PairwiseResult:
+def pairwise(
+    groups: Any, method: str = "tukey", alpha: float = 0.05, *,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> PairwiseResult:
     """Compare every pair of group means.
 
     ``groups`` is anything :func:`sheetfuncs.as_groups` accepts; ``method`` one of
     :data:`METHODS` (``tukey`` = Tukey–Kramer, ``games-howell``, ``bonferroni``, ``holm``,
     ``sidak``, ``scheffe``); ``alpha`` the familywise significance level. The formulas and their
     published sources are listed in the module documentation.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
     meth = parse_method(method)
-    g, a, mom = _prepare(groups, alpha)
+    g, a, mom = _prepare(as_groups(groups, missing=missing, relabel=relabel), alpha)
     k = g.k
     pairs = [(i, j) for i in range(k) for j in range(i + 1, k)]
     diffs = [_difference(mom, i, j) for i, j in pairs]
@@ -436,6 +442,7 @@ def _result(g: Groups, mom: ExactMoments | FloatMoments, meth: str, a: float, ro
         counts=g.counts, means=_means(g, mom), ms_within=ms_within, df_within=df_within,
         row_df=tuple(row_df),
         multipliers=tuple(mults), exact=mom.exact, control=control, notes=tuple(notes),
+        dropped=g.dropped,
     )
 
 
@@ -443,7 +450,10 @@ def _result(g: Groups, mom: ExactMoments | FloatMoments, meth: str, a: float, ro
 # many-to-one
 
 
-def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
+def dunnett(
+    groups: Any, control: Any, alpha: float = 0.05, *,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> PairwiseResult:
     """Compare every treatment group with one control group (Dunnett 1955, two-sided).
 
     ``control`` is the control group's label (numbers are matched by their shortest form, so
@@ -453,8 +463,10 @@ def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
     multivariate t distribution, computed by deterministic quadrature of Dunnett's
     one-dimensional reduction (see :mod:`sheetfuncs.distributions.many_to_one`), not by
     random sampling.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g = as_groups(groups)
+    g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     lab = format_label(control) if control is not None else ""
     if lab == "":

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import decimal
 import math
-from collections.abc import Iterator
+from collections.abc import Iterator, Mapping
 from fractions import Fraction
 from dataclasses import dataclass
 from typing import Any, ClassVar
@@ -45,11 +45,13 @@ class GroupSummary:
 
 @dataclass(frozen=True)
 class DescribeResult:
-    """Per-group summaries in group order, at confidence level ``conf``."""
+    """Per-group summaries in group order, at confidence level ``conf``; ``dropped`` the missing
+    values left out of each group (``missing="drop"``, or error cells read as missing)."""
 
     groups: tuple[GroupSummary, ...]
     conf: float
     exact: bool
+    dropped: tuple[int, ...] = ()
 
     #: The table's header row.
     HEADER: ClassVar[tuple[str, ...]] = (
@@ -85,9 +87,15 @@ def _median(a: np.ndarray, exact: bool) -> float:
     return lo + (hi - lo) / 2
 
 
-def describe(groups: Any, conf: float = 0.95, *, exact: bool | None = None) -> DescribeResult:
-    """Summaries of each group with a ``conf`` t interval for its mean."""
-    g = as_groups(groups)
+def describe(
+    groups: Any, conf: float = 0.95, *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> DescribeResult:
+    """Summaries of each group with a ``conf`` t interval for its mean.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
+    """
+    g = as_groups(groups, missing=missing, relabel=relabel)
     c = check_conf(conf)
     mom = compute_moments(g, exact)
     out = []
@@ -109,4 +117,4 @@ def describe(groups: Any, conf: float = 0.95, *, exact: bool | None = None) -> D
         out.append(
             GroupSummary(label, n, mean, sd, se, Interval(lo, hi), float(a.min()), _median(a, mom.exact), float(a.max()))
         )
-    return DescribeResult(tuple(out), c, mom.exact)
+    return DescribeResult(tuple(out), c, mom.exact, dropped=g.dropped)

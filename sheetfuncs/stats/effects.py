@@ -30,6 +30,7 @@ path applies, and the point estimates are formed from them exactly and rounded o
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any, ClassVar
@@ -193,13 +194,18 @@ def _overflow_f_limits(
     return Interval(_sqrt_ratio(ssb * Fraction(q_lo), ssw * n), _sqrt_ratio(ssb * Fraction(q_hi), ssw * n))
 
 
-def effect_sizes(groups: Any, conf: Any = 0.95, *, exact: bool | None = None) -> EffectSizes:
+def effect_sizes(
+    groups: Any, conf: Any = 0.95, *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> EffectSizes:
     """Eta^2, omega^2, epsilon^2 and Cohen's f of the groups, with intervals for eta^2 and f.
 
     ``groups`` is anything :func:`sheetfuncs.as_groups` accepts; ``conf`` the confidence level
     of the intervals. Formulas and sources: see the module docstring.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g = as_groups(groups)
+    g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     cf = check_conf(conf)
     res = oneway_from_moments(g, compute_moments(g, exact))

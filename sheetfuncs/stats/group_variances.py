@@ -64,7 +64,7 @@ def unit_free_moments(g: Groups, exact: bool | None) -> tuple[Groups, ExactMomen
     shift = -math.frexp(top)[1]
     scaled = Groups(
         labels=g.labels, arrays=tuple(np.ldexp(a, shift) for a in g.arrays), cells=g.cells,
-        notes=g.notes, layout=g.layout, label_source=g.label_source,
+        notes=g.notes, layout=g.layout, label_source=g.label_source, dropped=g.dropped,
     )
     return scaled, compute_moments(scaled, False)
 

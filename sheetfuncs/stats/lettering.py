@@ -147,11 +147,16 @@ class LettersResult(Mapping):
         ]
 
 
-def letters(groups: Any, method: str = "tukey", alpha: float = 0.05) -> LettersResult:
+def letters(
+    groups: Any, method: str = "tukey", alpha: float = 0.05, *,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> LettersResult:
     """Compact letter display of the pairwise comparisons (insert-and-absorb, Piepho 2004).
 
     ``method`` is any pairwise method of :func:`sheetfuncs.stats.comparisons.pairwise`; Dunnett's
     many-to-one comparisons do not compare every pair and cannot be shown as letters.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
     if isinstance(method, str) and method.strip().lower() == "dunnett":
         raise InputError(
@@ -159,7 +164,7 @@ def letters(groups: Any, method: str = "tukey", alpha: float = 0.05) -> LettersR
             "the control only; choose a pairwise method such as \"tukey\""
         )
     meth = parse_method(method)
-    res = pairwise(groups, meth, alpha)
+    res = pairwise(groups, meth, alpha, missing=missing, relabel=relabel)
     index = {lab: i for i, lab in enumerate(res.labels)}
     sep = [(index[r.group_a], index[r.group_b]) for r in res.rows if r.differs]
     cols = letter_sets(len(res.labels), sep)

@@ -14,7 +14,7 @@ sqrt(MSE * sum c_i^2 / n_i) and referred to t with N - k degrees of freedom.
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any, ClassVar
@@ -87,13 +87,18 @@ class LinearTestResult:
         ]
 
 
-def linear_test(groups: Any, pooling: Sequence[Any], *, exact: bool | None = None) -> LinearTestResult:
+def linear_test(
+    groups: Any, pooling: Sequence[Any], *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> LinearTestResult:
     """General linear test of the reduced model given by ``pooling`` (one label per group).
 
     Groups with the same pooling label share one mean in the reduced model. Pooling every group
     into one label reproduces the one-way F test.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g = as_groups(groups)
+    g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     pool = [format_label(v) if v is not None else "" for v in per_group_argument(pooling, g, "pooling labels")]
     if any(p == "" for p in pool):
@@ -176,9 +181,16 @@ def _scale_back(v: float, e: int) -> float:
         return math.copysign(math.inf, v)
 
 
-def contrast(groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: bool | None = None) -> ContrastResult:
-    """Estimate, test and interval for the contrast with the given weights (one per group, summing to 0)."""
-    g = as_groups(groups)
+def contrast(
+    groups: Any, weights: Sequence[Any], conf: float = 0.95, *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> ContrastResult:
+    """Estimate, test and interval for the contrast with the given weights (one per group,
+    summing to 0).
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
+    """
+    g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     c = check_conf(conf)
     w = _contrast_weights(weights, g)

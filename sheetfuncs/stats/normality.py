@@ -17,6 +17,7 @@ statistics and their p-values are those of :mod:`sheetfuncs.distributions.normal
 
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass
 from typing import Any, ClassVar
 
@@ -64,13 +65,18 @@ class NormalityResult:
         ]
 
 
-def shapiro_residuals(groups: Any, *, exact: bool | None = None) -> NormalityResult:
+def shapiro_residuals(
+    groups: Any, *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> NormalityResult:
     """Test the normality of the one-way residuals ``y_ij - ybar_i``.
 
     Shapiro–Wilk for 3 to 5,000 residuals; above that the D'Agostino–Pearson omnibus test (the
     result's ``method`` says which). Groups of one value are left out.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g = as_groups(groups)
+    g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     g, mom = unit_free_moments(g, exact)
     kept = [i for i, n in enumerate(g.counts) if n >= 2]

@@ -13,7 +13,7 @@ tail, computed from the survival function (:mod:`sheetfuncs.fdist`).
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any, ClassVar
@@ -40,7 +40,8 @@ class OneWayResult:
     when there is no within-group variation), ``p``; ``r_squared = SSB / SST``;
     ``residual_sd = sqrt(MSW)``; ``exact`` tells whether the decimal-exact path was used, in
     which case ``ss_between_exact``, ``ss_within_exact`` and ``ss_total_exact`` hold the exact
-    rationals (``None`` on the floating-point path).
+    rationals (``None`` on the floating-point path); ``dropped`` the missing values left out of
+    each group (``missing="drop"``, or error cells read as missing), zeros when none.
     """
 
     labels: tuple[str, ...]
@@ -65,6 +66,7 @@ class OneWayResult:
     ss_within_exact: Fraction | None = None
     ss_total_exact: Fraction | None = None
     factor: str = "Factor"
+    dropped: tuple[int, ...] = ()
 
     #: The table's header row.
     HEADER: ClassVar[tuple[str, ...]] = ("Source", "df", "SS", "MS", "F", "p")
@@ -98,6 +100,7 @@ def _finish(
     sst: Fraction | float,
     exact: bool,
     factor: str = "Factor",
+    dropped: Sequence[int] = (),
 ) -> OneWayResult:
     k = len(counts)
     n = int(sum(counts))
@@ -138,7 +141,7 @@ def _finish(
         labels=labels, counts=counts, means=means, k=k, n_total=n,
         df_between=dfb, df_within=dfw, df_total=dft,
         f=f, p=p, r_squared=r2, residual_sd=math.sqrt(msw), exact=exact, factor=factor,
-        **fields,
+        dropped=tuple(dropped) or (0,) * k, **fields,
     )
 
 
@@ -165,17 +168,22 @@ def oneway_from_moments(g: Groups, mom: ExactMoments | FloatMoments) -> OneWayRe
         check_ss_range(sst)
         check_float_zero_spread(g, sst, within=False)
         check_float_zero_spread(g, ssw, within=True)
-    return _finish(g.labels, g.counts, means, ssb, ssw, sst, mom.exact)
+    return _finish(g.labels, g.counts, means, ssb, ssw, sst, mom.exact, dropped=g.dropped)
 
 
-def oneway(groups: Any, *, exact: bool | None = None) -> OneWayResult:
+def oneway(
+    groups: Any, *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> OneWayResult:
     """One-way analysis of variance of the groups.
 
     ``groups`` is anything :func:`sheetfuncs.as_groups` accepts. ``exact=None`` uses the
     decimal-exact path whenever every value has at most 15 significant digits and the accurate
     floating-point path otherwise; ``True`` demands the exact path; ``False`` forces floats.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g = as_groups(groups)
+    g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     return oneway_from_moments(g, compute_moments(g, exact))
 

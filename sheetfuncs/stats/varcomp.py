@@ -34,6 +34,7 @@ sums of squares whenever that path applies, and the point estimates are formed e
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any, ClassVar
@@ -214,15 +215,18 @@ def _icc_interval(f: float, n1: int, n2: int, n0: float, a: float) -> Interval:
 
 
 def variance_components(
-    groups: Any, conf: Any = 0.95, *, exact: bool | None = None
+    groups: Any, conf: Any = 0.95, *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
 ) -> VarianceComponents:
     """Between- and within-group variance components with confidence intervals.
 
     ``groups`` is anything :func:`sheetfuncs.as_groups` accepts (typically lots or batches, each
     measured several times); ``conf`` the confidence level. Estimators, the effective group size
     n0 and the interval methods are described, with their sources, in the module docstring.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g = as_groups(groups)
+    g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     cf = check_conf(conf)
     res = oneway_from_moments(g, compute_moments(g, exact))

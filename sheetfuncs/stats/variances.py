@@ -20,6 +20,7 @@ from ``r_i`` itself, with ``ln r_i`` formed from the exact ratio scaled by a pow
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any, ClassVar
@@ -28,7 +29,7 @@ import numpy as np
 from scipy import stats
 
 from ..errors import InputError
-from ..input import shown
+from ..input import as_groups, shown
 from .group_variances import prepare_with_variances
 from .oneway import oneway
 from .residuals import Deviations
@@ -82,15 +83,21 @@ def _parse_center(center: Any) -> str:
     )
 
 
-def levene(groups: Any, center: str = "median", *, exact: bool | None = None) -> LeveneResult:
+def levene(
+    groups: Any, center: str = "median", *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> LeveneResult:
     """Test whether the groups' variances are equal, by Levene's method.
 
     ``center="median"`` (default) measures each value's distance from its group median
     (Brown & Forsythe 1974), ``"mean"`` from its group mean (Levene 1960). Every group needs two
     or more values.
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
     c = _parse_center(center)
-    g, mom = prepare_with_variances(groups, "Levene's test", exact)
+    g = as_groups(groups, missing=missing, relabel=relabel)
+    g, mom = prepare_with_variances(g, "Levene's test", exact)
     dev = Deviations(g, mom)
     # F is unchanged by a common unit, so the deviations stay in the exact integer unit
     z = [dev.abs_from_median(i) if c == "median" else dev.abs_from_mean(i) for i in range(g.k)]
@@ -182,13 +189,19 @@ def _bartlett_term_float(ss: float, df: int, sp2: float) -> float:
     return (v / sp2 - 1.0) - (math.log(ss) - math.log(df) - math.log(sp2))
 
 
-def bartlett(groups: Any, *, exact: bool | None = None) -> BartlettResult:
+def bartlett(
+    groups: Any, *, exact: bool | None = None,
+    missing: str = "stop", relabel: Mapping[str, str] | None = None,
+) -> BartlettResult:
     """Bartlett's chi-square test that the group variances are equal.
 
     Every group needs two or more values and a non-zero variance (the test takes logarithms of
     the variances).
+
+    ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
-    g, mom = prepare_with_variances(groups, "Bartlett's test", exact)
+    g = as_groups(groups, missing=missing, relabel=relabel)
+    g, mom = prepare_with_variances(g, "Bartlett's test", exact)
     k = g.k
     ns = g.counts
     dfw = g.n_total - k

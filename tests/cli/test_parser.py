@@ -10,7 +10,7 @@ import pytest
 from sheetfuncs.cli import build_parser, main
 from sheetfuncs.cli.parser import positive_mb, real, whole
 from sheetfuncs.input import workbook_properties
-from tests.support.cli import problem_files, run, small_csv
+from tests.support.cli import problem_files, run, small_csv, strict_json, write_csv
 
 
 @pytest.mark.parametrize(
@@ -157,3 +157,50 @@ def test_help_reads_well(capsys):
     for default in ("(default 0.05)", "(default tukey)", "(default Factor)", "(default Response)",
                     "(default 512)", "(default: the first worksheet)"):
         assert default in text, default
+
+
+# -- the reading options: --errors missing, --merge-case, --rename ------------------------------
+
+
+def na_csv(tmp_path: Path) -> Path:
+    """Invented fill weights of three heads with two #N/A cells and a case-only label typo."""
+    rows = [["Head 1", "Head 2", "head 2"], [50.2, 50.9, 50.7], ["#N/A", 50.8, 51.0],
+            [50.4, "#N/A", 50.6], [50.1, 50.7, None]]
+    return write_csv(tmp_path / "fill.csv", rows)
+
+
+def test_errors_missing_merge_case_and_rename_on_the_command_line(tmp_path, capsys):
+    path = str(na_csv(tmp_path))
+    code, out, err = run(["table", path], capsys)
+    assert code == 1 and err == (
+        "sheetfuncs: the data hold the error #N/A at row 3, column 1 of the range (and 1 more); "
+        "fix or clear that cell (cell A3 of fill.csv)\n"
+    )
+    code, out, err = run(["table", path, "--json", "--errors", "missing"], capsys)
+    assert code == 0, err
+    doc = strict_json(out)
+    assert [(g["Group"], g["n"]) for g in doc["groups"]] == [("Head 1", 3), ("Head 2", 3), ("head 2", 3)]
+    assert [(c["address"], c["action"]) for c in doc["input"]["ignored_cells"]] == [
+        ("A3", "missing"), ("B4", "missing"),
+    ]
+    code, out, err = run(["table", path, "--json", "--errors", "missing", "--merge-case"], capsys)
+    assert code == 0, err
+    doc = strict_json(out)
+    assert [(g["Group"], g["n"]) for g in doc["groups"]] == [("Head 1", 3), ("Head 2", 6)]
+    assert doc["input"]["notes"] == ['label "head 2" merged into "Head 2" (they differ only in case)']
+    code, out, err = run(["table", path, "--json", "--errors", "missing", "--rename", "head 2=Head 3",
+                          "--rename", "Head 1=Head 0"], capsys)
+    assert code == 0, err
+    assert [g["Group"] for g in strict_json(out)["groups"]] == ["Head 0", "Head 2", "Head 3"]
+
+
+@pytest.mark.parametrize("extra, message", [
+    (["--rename", "head 2"],
+     'cannot read the rename "head 2"; write it as OLD=NEW, e.g. --rename "supplier B=Supplier B"'),
+    (["--rename", "Head 9=X"],
+     'no group is labelled "Head 9", so it cannot be renamed; the labels are "Head 1", "Head 2", '
+     '"head 2"'),
+])
+def test_bad_renames_exit_1_with_one_line(tmp_path, capsys, extra, message):
+    code, out, err = run(["table", str(na_csv(tmp_path)), "--errors", "missing", *extra], capsys)
+    assert code == 1 and out == "" and err == f"sheetfuncs: {message}\n"

@@ -3,7 +3,8 @@ the engineering guide.
 
 The rules follow the host spreadsheet's own statistics functions (common practice): numbers
 count, blanks are ignored, text and logical values in a referenced range are ignored (and
-recorded), an error value anywhere stops the analysis and is named with its position.
+recorded), an error value anywhere stops the analysis and is named with its position (unless
+``errors="missing"`` reads it as a missing value, recorded with its position).
 """
 
 from __future__ import annotations
@@ -321,7 +322,11 @@ def test_long_layout_text_value_is_ignored_and_recorded():
     g = groups_from_range([["L1", 1.0], ["L2", 2.0], ["L1", "bad"], ["L2", True], ["L1", 3.0]],
                           layout="long")
     assert arrays(g) == [[1.0, 3.0], [2.0]]
-    assert notes(g) == [(2, 1, "text", "bad", "ignored"), (3, 1, "logical", True, "ignored")]
+    # each non-blank cell left out is recorded: the text (or logical) value, and its label
+    assert notes(g) == [
+        (2, 0, "label-only", "L1", "ignored"), (2, 1, "text", "bad", "ignored"),
+        (3, 0, "label-only", "L2", "ignored"), (3, 1, "logical", True, "ignored"),
+    ]
 
 
 def test_long_layout_errors_and_missing_labels():
@@ -329,8 +334,6 @@ def test_long_layout_errors_and_missing_labels():
         groups_from_range([["L1", 1.0], ["L2", "#VALUE!"]], layout="long")
     with pytest.raises(InputError, match="the error #N/A at row 2, column 1"):
         groups_from_range([["L1", 1.0], ["#N/A", 2.0]], layout="long")
-    with pytest.raises(InputError, match=r"^sheetfuncs: the value at row 2, column 2 of the range has no group label"):
-        groups_from_range([["L1", 1.0], [None, 2.0]], layout="long")
     with pytest.raises(InputError, match="a date at row 1, column 2"):
         groups_from_range([["L1", dt.date(2024, 1, 1)]], layout="long")
 
@@ -368,3 +371,156 @@ def test_groups_from_long_length_mismatch_names_both_lengths():
         "sheetfuncs: the label column has 3 entries but the value column has 2; "
         "give one label per value"
     )
+
+
+# -- errors="missing" --------------------------------------------------------------------------
+
+
+def test_errors_missing_reads_error_cells_as_missing_values_with_their_position():
+    g = groups_from_range(
+        [["Head 1", "Head 2"], [1.0, "#N/A"], [COM_NA, 2.0], [3.0, "#DIV/0!"], [4.0, 5.0]],
+        errors="missing",
+    )
+    assert arrays(g) == [[1.0, 3.0, 4.0], [2.0, 5.0]]
+    assert notes(g) == [
+        (1, 1, "error", "#N/A", "missing"), (2, 0, "error", "#N/A", "missing"),
+        (3, 1, "error", "#DIV/0!", "missing"),
+    ]
+    assert g.dropped == (1, 2)
+
+
+def test_errors_missing_rowwise_counts_per_row():
+    g = groups_from_range([["Zone A", 1.0, "#VALUE!", 2.0], ["Zone B", COM_SPILL, 3.0, 4.0]],
+                          layout="rowwise", errors="missing")
+    assert arrays(g) == [[1.0, 2.0], [3.0, 4.0]] and g.dropped == (1, 1)
+    assert notes(g) == [(0, 2, "error", "#VALUE!", "missing"), (1, 1, "error", "#SPILL!", "missing")]
+
+
+def test_errors_stop_is_still_the_default():
+    with pytest.raises(InputError) as e:
+        groups_from_range([["A", "B"], [1.0, "#N/A"], [2.0, 3.0]])
+    assert str(e.value) == (
+        "sheetfuncs: the data hold the error #N/A at row 2, column 2 of the range; fix or clear "
+        "that cell"
+    )
+
+
+def test_errors_option_is_checked():
+    with pytest.raises(InputError) as e:
+        groups_from_range([["A", "B"], [1.0, 2.0]], errors="skip")
+    assert str(e.value) == (
+        'sheetfuncs: errors must be "stop" (an error cell stops the reading) or "missing" (error '
+        'cells are missing values), not "skip"'
+    )
+
+
+def test_errors_missing_still_stops_on_dates_and_nan():
+    with pytest.raises(InputError, match="^sheetfuncs: a date at row 2, column 2"):
+        groups_from_range([["A", "B"], [1.0, dt.date(2024, 1, 1)], [2.0, 3.0]], errors="missing")
+    with pytest.raises(InputError, match=r"^sheetfuncs: NaN \(not a number\) at row 2, column 1"):
+        groups_from_range([["A", "B"], [float("nan"), "#N/A"], [2.0, 3.0]], errors="missing")
+
+
+@pytest.mark.parametrize("layout, cells, where", [
+    ("wide", [["A", "#N/A", "C"], [1.0, 2.0, 3.0], [4.0, 5.0, 6.0]], "row 1, column 2 of the range is the error #N/A; a group cannot be reported without its label: fix that cell, or leave its column"),
+    ("rowwise", [["A", 1.0, 2.0], [COM_NA, 3.0, 4.0]], "row 2, column 1 of the range is the error #N/A; a group cannot be reported without its label: fix that cell, or leave its row"),
+])
+def test_errors_missing_an_error_in_the_label_line_still_stops(layout, cells, where):
+    with pytest.raises(InputError) as e:
+        groups_from_range(cells, layout=layout, errors="missing")
+    assert str(e.value) == f"sheetfuncs: the group label at {where} out of the range"
+    assert len(e.value.cells) == 1
+
+
+def test_errors_missing_label_errors_count_the_rest():
+    with pytest.raises(InputError) as e:
+        groups_from_range([["#REF!", "B", "#N/A"], [1.0, 2.0, 3.0]], labels=True, errors="missing")
+    assert "is the error #REF! (and 1 more); a group" in str(e.value)
+    assert e.value.cells == ((0, 0), (0, 2))
+
+
+def test_errors_missing_first_row_of_numbers_and_errors_is_data():
+    # labels="auto": the non-error cells of the first row are numbers, so the row is data
+    g = groups_from_range([[1.0, "#N/A"], [2.0, 3.0], [4.0, 5.0]], errors="missing")
+    assert g.labels == ("Group 1", "Group 2") and arrays(g) == [[1.0, 2.0, 4.0], [3.0, 5.0]]
+    assert notes(g) == [(0, 1, "error", "#N/A", "missing")]
+    g = groups_from_range([["#N/A", "x"], [2.0, 3.0]], labels=False, errors="missing")
+    assert arrays(g) == [[2.0], [3.0]] and g.dropped == (1, 0)
+
+
+def test_errors_missing_a_group_of_errors_only_has_no_numbers():
+    with pytest.raises(InputError) as e:
+        groups_from_range([["A", "B"], [1.0, "#N/A"], [2.0, "#N/A"]], errors="missing")
+    assert str(e.value) == (
+        'sheetfuncs: group "B" has no numbers (its 2 error cells were read as missing); enter '
+        "its values or leave it out of the range"
+    )
+    with pytest.raises(InputError, match=r"its 1 error cell was read as missing\)"):
+        groups_from_range([["A", "B"], [1.0, "#N/A"], [2.0, None]], errors="missing")
+    with pytest.raises(InputError) as e:
+        groups_from_range([[1.0, "#N/A"], [2.0, "x"]], errors="missing")
+    assert str(e.value) == (
+        "sheetfuncs: column 2 of the range has no numbers, only text, logical or missing values; "
+        "clear it or leave it out of the range"
+    )
+
+
+def test_errors_missing_gives_the_same_groups_as_the_cleaned_range():
+    dirty = [["L1", "L2", "L3"], [1.2, "#N/A", 3.1], ["#DIV/0!", 2.2, 3.3], [1.4, 2.6, COM_NA]]
+    clean = [["L1", "L2", "L3"], [1.2, None, 3.1], [None, 2.2, 3.3], [1.4, 2.6, None]]
+    a, b = groups_from_range(dirty, errors="missing"), groups_from_range(clean)
+    assert a.labels == b.labels and arrays(a) == arrays(b)
+    assert a.dropped == (1, 1, 1) and b.dropped == (0, 0, 0)
+
+
+# -- long layout: label-only and unlabelled rows, errors="missing" -----------------------------
+
+
+def test_long_layout_label_without_value_is_recorded_at_its_label_cell():
+    g = groups_from_range([["Lot", "g"], ["L1", 1.0], ["L2", None], ["L2", 2.0], ["L1", ""]],
+                          layout="long")
+    assert arrays(g) == [[1.0], [2.0]]
+    assert notes(g) == [(2, 0, "label-only", "L2", "ignored"), (4, 0, "label-only", "L1", "ignored")]
+
+
+def test_long_layout_value_without_label_is_recorded_not_an_error():
+    g = groups_from_range([["L1", 1.0], [None, 2.0], ["  ", 3.0], ["L1", 4.0]], layout="long")
+    assert arrays(g) == [[1.0, 4.0]]
+    assert notes(g) == [(1, 1, "unlabelled", 2.0, "ignored"), (2, 1, "unlabelled", 3.0, "ignored")]
+
+
+def test_long_layout_a_label_with_only_label_only_rows_has_no_numbers():
+    with pytest.raises(InputError) as e:
+        groups_from_range([["L1", 1.0], ["L2", None], ["L1", 2.0], ["L2", None]], layout="long")
+    assert str(e.value) == (
+        'sheetfuncs: group "L2" has no numbers; enter its values or leave it out of the range'
+    )
+
+
+def test_long_layout_errors_missing():
+    g = groups_from_range(
+        [["Lot", "g"], ["L1", 1.0], ["L1", "#N/A"], ["L2", 2.0], ["#REF!", 3.0], [COM_NA, "#N/A"]],
+        layout="long", errors="missing",
+    )
+    assert g.labels == ("L1", "L2") and arrays(g) == [[1.0], [2.0]] and g.dropped == (1, 0)
+    assert notes(g) == [
+        (2, 0, "label-only", "L1", "ignored"), (2, 1, "error", "#N/A", "missing"),
+        (4, 0, "error", "#REF!", "missing"), (4, 1, "unlabelled", 3.0, "ignored"),
+        (5, 0, "error", "#N/A", "missing"), (5, 1, "error", "#N/A", "missing"),
+    ]
+
+
+def test_long_layout_errors_missing_a_label_with_only_errors_has_no_numbers():
+    with pytest.raises(InputError) as e:
+        groups_from_range([["L1", 1.0], ["L2", "#N/A"], ["L1", 2.0]], layout="long", errors="missing")
+    assert str(e.value) == (
+        'sheetfuncs: group "L2" has no numbers (its 1 error cell was read as missing); enter its '
+        "values or leave it out of the range"
+    )
+
+
+def test_groups_from_long_takes_errors_too():
+    g = groups_from_long(["A", "A", "B"], [1.0, "#N/A", 2.0], errors="missing")
+    assert arrays(g) == [[1.0], [2.0]] and g.dropped == (1, 0)
+    with pytest.raises(InputError, match="the error #N/A at row 2, column 2"):
+        groups_from_long(["A", "A", "B"], [1.0, "#N/A", 2.0])

@@ -4,6 +4,7 @@ non-normal residuals in small groups), and shown on the Findings sheet."""
 from __future__ import annotations
 
 from sheetfuncs import groups_from_range
+from sheetfuncs.input import relabel
 from sheetfuncs.report.context import prepare
 from sheetfuncs.report.findings import findings, percent_words
 
@@ -89,6 +90,13 @@ def test_findings_typo_notes_appear_once(tmp_path):
     assert fi.text().count(fi.typo_notes[0]) == 1
     sheet = findings_text(write_in(tmp_path, g))
     assert sheet.count(fi.typo_notes[0]) == 1
+
+
+def test_findings_merged_labels_are_not_called_typos(tmp_path):
+    g = groups_from_range([["Lot a", "Lot A", "Lot b"], [1.0, 2.0, 1.5], [1.2, 2.2, 1.4], [1.1, 2.1, 1.6]])
+    fi = findings(prepare(relabel(g, merge_case=True)))
+    assert fi.typo_notes == () and "Possible typo" not in fi.text()
+    assert 'Label "Lot A" merged into "Lot a" (they differ only in case).' in fi.text()
 
 
 def test_findings_percent_wording():

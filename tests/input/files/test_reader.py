@@ -156,3 +156,50 @@ def test_same_file_under_two_names(tmp_path, monkeypatch):
     assert not same_file(Path("lots.xlsx"), Path("other.xlsx"))
     os.link(tmp_path / "lots.xlsx", tmp_path / "hard.xlsx")
     assert same_file(Path("hard.xlsx"), Path("lots.xlsx"))  # one file on disk
+
+
+# --------------------------------------------------------------------------------------------
+# missing values and label fixes through a workbook
+
+
+def na_book(tmp_path: Path) -> Path:
+    """Invented fill weights of three heads on sheet "Fill", block B2:D6, with two #N/A cells
+    and a case-only typo in a label."""
+    rows = [["Head 1", "Head 2", "head 2"], [50.2, 50.9, 50.7], ["#N/A", 50.8, 51.0],
+            [50.4, "#N/A", 50.6], [50.1, 50.7, None]]
+    return make_book(tmp_path / "fill.xlsx", {"Fill": rows}, at="B2")
+
+
+def test_read_groups_errors_missing_reads_na_as_missing_values(tmp_path):
+    path = na_book(tmp_path)
+    loaded = read_groups(path, cell_range="B2:D6", errors="missing")
+    g = loaded.groups
+    assert g.labels == ("Head 1", "Head 2", "head 2")
+    assert [a.tolist() for a in g.arrays] == [[50.2, 50.4, 50.1], [50.9, 50.8, 50.7], [50.7, 51.0, 50.6]]
+    assert g.dropped == (1, 1, 0)
+    r = loaded.reading
+    assert r.missing == 2 and r.balanced
+    assert [(x.ref, x.reason, x.kind) for x in r.left_out] == [
+        ("B4", "error value, read as a missing value", "missing"),
+        ("C5", "error value, read as a missing value", "missing"),
+    ]
+
+
+def test_read_groups_errors_stop_names_the_na_cell(tmp_path):
+    with pytest.raises(InputError) as ei:
+        read_groups(na_book(tmp_path), cell_range="B2:D6")
+    assert str(ei.value) == (
+        "sheetfuncs: the data hold the error #N/A at row 3, column 1 of the range (and 1 more); "
+        "fix or clear that cell (cell 'Fill'!B4 of fill.xlsx)"
+    )
+
+
+def test_read_groups_merge_case_and_rename(tmp_path):
+    path = na_book(tmp_path)
+    merged = read_groups(path, cell_range="B2:D6", errors="missing", merge_case=True)
+    assert merged.groups.labels == ("Head 1", "Head 2") and merged.groups.counts == (3, 6)
+    assert merged.groups.dropped == (1, 1)
+    assert merged.reading.notes == ('label "head 2" merged into "Head 2" (they differ only in case)',)
+    renamed = read_groups(path, cell_range="B2:D6", errors="missing", rename=["head 2=Head 3"])
+    assert renamed.groups.labels == ("Head 1", "Head 2", "Head 3")
+    assert renamed.reading.notes == ('label "head 2" renamed to "Head 3"',)
