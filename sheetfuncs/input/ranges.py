@@ -208,7 +208,8 @@ def _is_labelish_text(v: Any) -> bool:
 
 
 def groups_from_range(
-    cells: Any, layout: str = "wide", labels: Any = "auto", *, errors: str = "stop"
+    cells: Any, layout: str = "wide", labels: Any = "auto", *, errors: str = "stop",
+    unlabelled: str = "stop",
 ) -> Groups:
     """Clean a spreadsheet range into :class:`Groups`.
 
@@ -228,8 +229,28 @@ def groups_from_range(
     the reading either way: a group cannot be reported without its label. In the long layout
     with ``"missing"``, an error in a label cell is a missing label: the cell is recorded as
     missing and the row's value as ``"unlabelled"``.
+
+    ``unlabelled`` says what a number without a label in the long layout does: ``"stop"``
+    (default: an error naming the cell, since a worksheet function has no log to show it in)
+    or ``"log"`` (left out and recorded, for readers that show every cell left out); with
+    ``errors="missing"`` it is always recorded.
     """
-    return _read_range(cells, layout, labels, block=True, errors=parse_errors(errors))
+    err = parse_errors(errors)
+    g = _read_range(cells, layout, labels, block=True, errors=err)
+    if unlabelled != "log" and err != "missing":
+        stop_unlabelled(g)
+    return g
+
+
+def stop_unlabelled(g: Groups) -> None:
+    """An error for the first number without a label in ``g``'s cells, if there is one."""
+    first = next((c for c in g.cells if c.kind == "unlabelled"), None)
+    if first is not None:
+        raise InputError(
+            f"the value at {first.position} of the range has no group label; fill in its "
+            "label (first column) or clear the value",
+            cells=((first.row, 0),),
+        )
 
 
 def parse_errors(errors: Any) -> str:
@@ -565,4 +586,8 @@ def groups_from_long(labels: Sequence[Any], values: Sequence[Any], *, errors: st
             f"the label column has {len(labels)} entries but the value column has "
             f"{len(values)}; give one label per value"
         )
-    return _from_long_rows(list(zip(labels, values)), "no", parse_errors(errors) == "missing")
+    missing = parse_errors(errors) == "missing"
+    g = _from_long_rows(list(zip(labels, values)), "no", missing)
+    if not missing:
+        stop_unlabelled(g)
+    return g

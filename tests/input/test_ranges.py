@@ -483,10 +483,19 @@ def test_long_layout_label_without_value_is_recorded_at_its_label_cell():
     assert notes(g) == [(2, 0, "label-only", "L2", "ignored"), (4, 0, "label-only", "L1", "ignored")]
 
 
-def test_long_layout_value_without_label_is_recorded_not_an_error():
-    g = groups_from_range([["L1", 1.0], [None, 2.0], ["  ", 3.0], ["L1", 4.0]], layout="long")
+def test_long_layout_value_without_label_is_recorded_for_files_and_an_error_in_a_cell():
+    rows = [["L1", 1.0], [None, 2.0], ["  ", 3.0], ["L1", 4.0]]
+    g = groups_from_range(rows, layout="long", unlabelled="log")  # as read_groups reads a file
     assert arrays(g) == [[1.0, 4.0]]
     assert notes(g) == [(1, 1, "unlabelled", 2.0, "ignored"), (2, 1, "unlabelled", 3.0, "ignored")]
+    with pytest.raises(InputError) as e:  # a worksheet function has no log to show it in
+        groups_from_range(rows, layout="long")
+    assert e.value.reason == (
+        "the value at row 2, column 2 of the range has no group label; fill in its label (first "
+        "column) or clear the value"
+    )
+    with pytest.raises(InputError, match="no group label"):
+        groups_from_long(["L1", None], [1.0, 2.0])
 
 
 def test_long_layout_a_label_with_only_label_only_rows_has_no_numbers():

@@ -381,6 +381,7 @@ PROBLEMS = [
     ("unknown layout", "SF_TABLE", (wide(GROUPS), "tall"), "unknown layout"),
     ("bad labels option", "SF_TABLE", (wide(GROUPS), MISSING, "maybe"), "labels must be"),
     ("long layout width", "SF_TABLE", (wide(GROUPS), "long"), "exactly two columns"),
+    ("long value without label", "SF_TABLE", ([["L", "V"], ["A", 1.0], [None, 2.0], ["B", 3.0]], "long"), "no group label"),
     ("conf out of range", "SF_GROUPS", (wide(GROUPS), MISSING, MISSING, 1.5), "strictly between 0 and 1"),
     ("conf as text", "SF_CONTRAST", (wide(GROUPS), [list(WEIGHTS)], MISSING, MISSING, "high"), "must be a number"),
     ("conf as a logical", "SF_GROUPS", (wide(GROUPS), MISSING, MISSING, True), "must be a number"),

@@ -205,7 +205,8 @@ def read_groups(
             "it is the right file (or range) and that the data were saved"
         )
     try:
-        groups = groups_from_range(block.rows, layout=layout, labels=labels, errors=errors)
+        groups = groups_from_range(block.rows, layout=layout, labels=labels, errors=errors,
+                                   unlabelled="log")
     except InputError as e:
         if e.cells:
             r, c = e.cells[0]
