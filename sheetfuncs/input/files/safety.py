@@ -165,9 +165,10 @@ def _check_head(p: Path, head: bytes) -> None:
                 f"{p.name} is encrypted (password-protected); remove the password "
                 "in a spreadsheet program (save a copy without one) and read that copy"
             )
+        named = "" if p.suffix.lower() == ".xls" else " (whatever its name says)"
         raise InputError(
-            f"{p.name} is in the old binary .xls format, not .xlsx; save it as "
-            ".xlsx (Excel Workbook) and try again"
+            f"{p.name} is an old binary .xls workbook{named}, which sheetfuncs does not "
+            "read; save it as .xlsx (Excel Workbook) and try again"
         )
     if head[:4] not in (ZIP_MAGIC, ZIP_EMPTY):
         what = "is empty" if not head else "is not an .xlsx workbook (not a zip archive)"
