@@ -13,6 +13,7 @@ relationships (ECMA-376 Part 2) and parsed with defusedxml.
 from __future__ import annotations
 
 import datetime as _dt
+import io
 import os
 import warnings
 import zipfile
@@ -25,6 +26,7 @@ from ...errors import InputError
 from ..cells import RangeRef, parse_range
 from ..source import InputSource
 from .block import PROGRESS_STEP, CellBlock, Progress, cell_block, trim_rows
+from .filetype import WORKBOOK_SUFFIXES
 from .tables import table_range, workbook_tables
 from .safety import (
     DEFAULT_SIZE_LIMIT, bomb_message, check_archive, damaged_error, defusedxml_refused,
@@ -48,8 +50,10 @@ def _open_workbook(p: Path, data_only: bool):
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
         try:
+            # openpyxl goes by the name: a workbook under another name is handed over in memory
+            source = p if p.suffix.lower() in WORKBOOK_SUFFIXES else io.BytesIO(p.read_bytes())
             return openpyxl.load_workbook(
-                p, read_only=True, data_only=data_only, keep_vba=False, keep_links=False
+                source, read_only=True, data_only=data_only, keep_vba=False, keep_links=False
             )
         except InputError:
             raise
