@@ -26,8 +26,7 @@ DEMO_SHEET = "Hardness"
 def run_demo(args: argparse.Namespace) -> int:
     from ..input import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
 
-    out = Path(args.output)
-    check_report_name(out)
+    out = check_report_name(args.output)
     if out.is_dir():
         raise InputError(f"{out} is a folder; give a file name such as demo.xlsx")
     check_output_folder(out)

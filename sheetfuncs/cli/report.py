@@ -40,8 +40,7 @@ def report_outputs(args: argparse.Namespace) -> list[tuple[Path, Path]]:
                 f"-o names one report but {len(inputs)} inputs were given; use "
                 "--out-dir DIR for several inputs"
             )
-        out = Path(args.output)
-        check_report_name(out)
+        out = check_report_name(args.output, out_dir=True)
         pairs = [(inputs[0], out)]
     else:
         folder = Path(args.out_dir)

@@ -343,7 +343,7 @@ def _ambiguity_message(p: Path, where: str, field: str, why: str) -> str:
     if why == "comma-in-point":
         return (
             f'"{field}" at {where} of {p.name} is a number with a decimal comma; '
-            "add --decimal-comma (decimal_comma=True) to read such numbers"
+            "give --decimal-comma (Python: decimal_comma=True) to read such numbers"
         )
     if why == "comma":
         return (

@@ -387,7 +387,7 @@ def test_existing_report_is_kept_unless_forced(tmp_path, capsys):
     assert not [p for p in tmp_path.iterdir() if p.name.startswith(".") or p.suffix == ".tmp"]
     (tmp_path / "folder.xlsx").mkdir()
     assert main(["report", str(src), "-o", str(tmp_path / "folder.xlsx"), "--force"]) == 1
-    assert "is a folder" in capsys.readouterr().err
+    assert "folder.xlsx names a folder; give -o a file name" in capsys.readouterr().err
 
 
 @pytest.mark.parametrize("kind", ["csv", "xlsx"])
