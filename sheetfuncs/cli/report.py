@@ -113,4 +113,5 @@ def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[
         alpha=args.alpha, method=args.method, control=args.control,
         factor=args.factor, response=args.response, unit=args.unit, title=args.title,
         force=args.force, source=loaded.source, progress=prog,
+        **({} if args.max_groups is None else {"max_groups": args.max_groups}),
     )

@@ -142,13 +142,13 @@ def test_input_never_overwritten(tmp_path):
 
 def test_temp_file_then_rename_and_nothing_left_on_error(tmp_path, monkeypatch):
     moves = []
-    real_replace = os.replace
+    real_link = os.link
 
-    def spy(src, dst):
+    def spy(src, dst):  # a new report is put in place by a hard link (kept if dst exists)
         moves.append((Path(src), Path(dst)))
-        return real_replace(src, dst)
+        return real_link(src, dst)
 
-    monkeypatch.setattr(writer_mod.os, "replace", spy)
+    monkeypatch.setattr(writer_mod.os, "link", spy)
     path = write_in(tmp_path, CLEAR)
     (src, dst), = moves
     assert dst == path and src.parent == path.parent and src != path and not src.exists()
