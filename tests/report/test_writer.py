@@ -259,3 +259,81 @@ def test_a_folder_that_refuses_new_files_gets_a_clear_message(tmp_path, monkeypa
         "Permission denied); choose a folder you can write to"
     )
     assert list(tmp_path.iterdir()) == []
+
+
+# --------------------------------------------------------------------------------------------
+# a file that appears at the output path while the report is written
+
+
+def _appearing(monkeypatch, path: Path) -> None:
+    """Make a file appear at ``path`` while the workbook is built (another program, a second
+    run with the same output)."""
+    real_build = writer_mod.build_workbook
+
+    def build_then_someone_writes(*args, **kw):
+        wb = real_build(*args, **kw)
+        path.write_bytes(b"written by someone else meanwhile")
+        return wb
+
+    monkeypatch.setattr(writer_mod, "build_workbook", build_then_someone_writes)
+
+
+def test_file_that_appears_during_a_run_is_kept(tmp_path, monkeypatch):
+    path = tmp_path / "r.xlsx"
+    _appearing(monkeypatch, path)
+    with pytest.raises(InputError) as ei:
+        write_report(CLEAR, path)
+    assert str(ei.value) == (
+        f"sheetfuncs: {str(path)!r} appeared while the report was being written and is kept; "
+        "use --force (force=True) to replace it, or choose another name"
+    )
+    assert path.read_bytes() == b"written by someone else meanwhile"
+    assert [p.name for p in tmp_path.iterdir()] == ["r.xlsx"]  # no temp file left
+
+
+def test_file_that_appears_during_a_run_is_replaced_with_force(tmp_path, monkeypatch):
+    path = tmp_path / "r.xlsx"
+    _appearing(monkeypatch, path)
+    assert write_report(CLEAR, path, force=True) == path
+    assert openpyxl.load_workbook(path).sheetnames[0] == "Findings"
+    assert [p.name for p in tmp_path.iterdir()] == ["r.xlsx"]
+
+
+def test_without_hard_links_the_name_is_reserved_exclusively(tmp_path, monkeypatch):
+    def no_links(src, dst):
+        raise PermissionError(1, "Operation not permitted")  # as on a file system without links
+
+    monkeypatch.setattr(writer_mod.os, "link", no_links)
+    path = write_in(tmp_path, CLEAR)
+    assert openpyxl.load_workbook(path).sheetnames[0] == "Findings"
+    other = tmp_path / "other.xlsx"
+    _appearing(monkeypatch, other)
+    with pytest.raises(InputError, match="appeared while the report was being written and is kept"):
+        write_report(CLEAR, other)
+    assert other.read_bytes() == b"written by someone else meanwhile"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["other.xlsx", "r.xlsx"]
+
+
+# --------------------------------------------------------------------------------------------
+# the limit on groups
+
+
+def test_more_groups_than_the_limit_is_one_line(tmp_path):
+    groups = {f"Lot {i}": [5.0 + i / 100, 5.1 + i / 100] for i in range(1, 102)}  # invented
+    with pytest.raises(InputError) as ei:
+        write_report(groups, tmp_path / "r.xlsx")
+    assert str(ei.value) == (
+        "sheetfuncs: the data have 101 groups, more than the 100 a report takes (its "
+        "comparisons grow with the square of the number of groups); give --max-groups 101 "
+        "(Python: max_groups=101) to write it anyway, or use sheetfuncs table"
+    )
+    assert list(tmp_path.iterdir()) == []
+    small = {k: groups[k] for k in list(groups)[:4]}
+    with pytest.raises(InputError, match="the data have 4 groups, more than the 3 a report"):
+        write_report(small, tmp_path / "r.xlsx", max_groups=3)
+    for bad in (0, 2.5, True, "10"):
+        with pytest.raises(InputError) as ei:
+            write_report(small, tmp_path / "r.xlsx", max_groups=bad)
+        assert ei.value.reason == (
+            f"the limit on groups must be a whole number of at least 1, not {bad!r}")
+    assert write_report(small, tmp_path / "r.xlsx", max_groups=4).exists()
