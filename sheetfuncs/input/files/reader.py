@@ -129,7 +129,9 @@ def read_cells(
                 f'"{name}" is not a range like A1:F40, and a CSV file has no '
                 "defined names"
             )
-        return read_delimited(p, ref, decimal_comma, delimiter, size_limit, progress, shown)
+        return read_delimited(
+            p, ref, decimal_comma, delimiter, size_limit, progress, shown, max_fields
+        )
     except PermissionError:
         raise InputError(
             f"no permission to read {p}; check the file's access rights"
