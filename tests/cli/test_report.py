@@ -113,18 +113,11 @@ def test_max_groups_option_and_its_default(tmp_path, capsys):
 
 
 def test_report_that_appears_during_the_run_is_kept(tmp_path, capsys, monkeypatch):
-    import sheetfuncs.report.writer as writer_mod
+    from tests.support.race import appear_while_writing
 
     src = small_csv(tmp_path)
     out = tmp_path / "r.xlsx"
-    real_build = writer_mod.build_workbook
-
-    def second_run_meanwhile(*args, **kw):
-        wb = real_build(*args, **kw)
-        out.write_bytes(b"the other run's report")
-        return wb
-
-    monkeypatch.setattr(writer_mod, "build_workbook", second_run_meanwhile)
+    appear_while_writing(monkeypatch, out, b"the other run's report")  # a second run, say
     code, stdout, err = run(["report", str(src), "-o", str(out)], capsys)
     assert code == 1 and stdout == ""
     assert err == (

@@ -22,6 +22,7 @@ from sheetfuncs.report import SHEET_ORDER, write_report
 from sheetfuncs.report.formats import P_FORMAT
 
 from tests.support import nist
+from tests.support.race import appear_while_writing
 from tests.support.scenarios import CLEAR, INFINITE, NAMES, NONE, cells_text, name_cell, write_in
 
 # ---------------------------------------------------------------------------------------------
@@ -266,16 +267,7 @@ def test_a_folder_that_refuses_new_files_gets_a_clear_message(tmp_path, monkeypa
 
 
 def _appearing(monkeypatch, path: Path) -> None:
-    """Make a file appear at ``path`` while the workbook is built (another program, a second
-    run with the same output)."""
-    real_build = writer_mod.build_workbook
-
-    def build_then_someone_writes(*args, **kw):
-        wb = real_build(*args, **kw)
-        path.write_bytes(b"written by someone else meanwhile")
-        return wb
-
-    monkeypatch.setattr(writer_mod, "build_workbook", build_then_someone_writes)
+    appear_while_writing(monkeypatch, path, b"written by someone else meanwhile")
 
 
 def test_file_that_appears_during_a_run_is_kept(tmp_path, monkeypatch):

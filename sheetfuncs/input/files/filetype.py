@@ -15,7 +15,7 @@ import zipfile
 from pathlib import Path
 
 from ...errors import InputError
-from .safety import CFB_MAGIC, ZIP_EMPTY, ZIP_MAGIC
+from .safety import CFB_MAGIC, ZIP_EMPTY, ZIP_MAGIC, looks_like_text
 
 __all__ = ["WORKBOOK_SUFFIXES", "CSV_SUFFIXES", "file_type", "kind_by_name"]
 
@@ -108,13 +108,5 @@ def _zip_kind(p: Path) -> tuple[str, tuple[str, ...]]:
 
 
 def _is_text(head: bytes) -> bool:
-    """Whether the first bytes look like text: UTF-8 (or a byte-order mark), no NUL bytes."""
-    if head.startswith((b"\xff\xfe", b"\xfe\xff")):
-        return True
-    if b"\x00" in head:
-        return False
-    try:
-        head.decode("utf-8")
-    except UnicodeDecodeError as e:
-        return e.start > len(head) - 4  # cut inside a character at the end
-    return True
+    """Whether the first bytes look like text: UTF-8 (or UTF-16 with a byte-order mark)."""
+    return head.startswith((b"\xff\xfe", b"\xfe\xff")) or looks_like_text(head)

@@ -27,7 +27,7 @@ from ...errors import InputError
 __all__ = [
     "DEFAULT_SIZE_LIMIT", "CFB_MAGIC", "ZIP_MAGIC", "ZIP_EMPTY",
     "check_archive", "check_file_size", "openpyxl_uses_defusedxml", "defusedxml_refused",
-    "size_text", "limit_hint", "bomb_message", "damaged_error",
+    "size_text", "limit_hint", "bomb_message", "damaged_error", "looks_like_text",
 ]
 
 #: Default limit on the total uncompressed size of a workbook (and on the size of a CSV file).
@@ -210,7 +210,11 @@ def _check_directory(p: Path, zf: zipfile.ZipFile, size_limit: int) -> None:
 
 def _looks_like_text(p: Path) -> bool:
     with open(p, "rb") as fh:
-        chunk = fh.read(4096)
+        return looks_like_text(fh.read(4096))
+
+
+def looks_like_text(chunk: bytes) -> bool:
+    """Whether the first bytes of a file look like UTF-8 text (no NUL bytes)."""
     if b"\x00" in chunk:
         return False
     try:
