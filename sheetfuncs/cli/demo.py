@@ -2,7 +2,7 @@
 
 A rerun replaces, without asking, only the default output ``sheetfuncs-demo.xlsx`` or a workbook
 that is itself a sheetfuncs demo report (its document properties say so); any other existing
-file is kept unless ``--force``.
+file is kept unless ``--force``, also one that appears while the demo is written.
 """
 
 from __future__ import annotations
@@ -26,12 +26,13 @@ DEMO_SHEET = "Hardness"
 def run_demo(args: argparse.Namespace) -> int:
     from ..input import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
 
-    out = Path(args.output)
-    check_report_name(out)
+    out = check_report_name(args.output)
     if out.is_dir():
         raise InputError(f"{out} is a folder; give a file name such as demo.xlsx")
     check_output_folder(out)
-    if (out.exists() or out.is_symlink()) and not args.force and not replaceable_demo(out):
+    present = out.exists() or out.is_symlink()
+    replace = args.force or (present and replaceable_demo(out))
+    if present and not replace:
         raise InputError(
             f"{out} already exists and is not a sheetfuncs demo report, so it is "
             "kept; choose another name with -o, or add --force to replace it"
@@ -42,7 +43,7 @@ def run_demo(args: argparse.Namespace) -> int:
         written = write_report_file(
             demo_groups(), out,
             factor=DEMO_FACTOR, response=DEMO_RESPONSE, unit=DEMO_UNIT, title=DEMO_TITLE,
-            force=True, source=InputSource(path=None, sheet=DEMO_SHEET), progress=prog,
+            force=replace, source=InputSource(path=None, sheet=DEMO_SHEET), progress=prog,
         )
     finally:
         prog.finish()

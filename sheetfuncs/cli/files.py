@@ -1,8 +1,7 @@
 """Files the commands write: the report's name, the report writer, and file-system errors.
 
-``report`` and ``demo`` both write report workbooks (.xlsx only: reports never carry macros)
-through :func:`sheetfuncs.report.write_report`; a file-system error becomes one line that names
-the file.
+``report`` and ``demo`` both write report workbooks (.xlsx only) through
+:func:`sheetfuncs.report.write_report`; a file-system error becomes one line that names the file.
 """
 
 from __future__ import annotations
@@ -27,12 +26,24 @@ def os_reason(e: OSError, what: str | os.PathLike[str] | None = None) -> str:
     return f"{where}: {reason}" if where is not None else reason
 
 
-def check_report_name(path: Path) -> None:
-    """A report is an .xlsx file; any other name is a usage error."""
+def check_report_name(given: str | os.PathLike[str], *, out_dir: bool = False) -> Path:
+    """The report's path from ``-o``: an .xlsx file name. A folder or any other name is refused
+    in one line; ``out_dir`` says whether the command has ``--out-dir`` to suggest. A name
+    ending in a slash, or not in .xlsx, is a usage error (exit code 2); an existing folder an
+    input error (exit code 1: the file system decides it)."""
+    text = os.fspath(given)
+    path = Path(text)
+    seps = tuple(s for s in (os.sep, os.altsep, "/") if s)
+    if text.endswith(seps) or path.is_dir():
+        hint = (f", or give --out-dir {text} to write the report into that folder" if out_dir
+                else f", such as {path / 'report.xlsx'}")
+        problem = f"-o {text} names a folder; give -o a file name ending in .xlsx{hint}"
+        raise UsageError(problem) if text.endswith(seps) else InputError(problem)
     if path.suffix.lower() != ".xlsx":
         raise UsageError(
-            f'the report must be an .xlsx file, not "{path.name}" (reports never carry macros)'
+            f'the report must be an .xlsx file, not "{path.name}"; give -o a name ending in .xlsx'
         )
+    return path
 
 
 def check_output_folder(out: Path) -> None:

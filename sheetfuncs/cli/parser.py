@@ -20,7 +20,7 @@ from ..input import DEFAULT_MAX_CELLS, DEFAULT_MAX_FIELDS, DEFAULT_SIZE_LIMIT
 
 __all__ = [
     "UsageError", "CommandParser", "DEFAULT_DEMO_OUTPUT", "build_parser", "parse_args",
-    "read_options", "positive_mb", "real", "whole", "count",
+    "read_options", "positive_mb", "real", "whole", "count", "REPORT_MAX_GROUPS",
 ]
 
 DEFAULT_DEMO_OUTPUT = "sheetfuncs-demo.xlsx"
@@ -45,6 +45,11 @@ class CommandParser(argparse.ArgumentParser):
         where = f"{cmd}: " if cmd else ""
         self.print_usage(sys.stderr)
         self.exit(2, message(f"{where}{text} (see: {self.prog} --help)") + "\n")
+
+
+#: The report writer's default limit on groups (sheetfuncs.report.DEFAULT_MAX_GROUPS, which the
+#: tests compare), for the help text: the report layer is imported only when a report is written.
+REPORT_MAX_GROUPS = 100
 
 
 # --------------------------------------------------------------------------------------------
@@ -229,6 +234,9 @@ def add_report_command(sub: Any) -> None:
                           "is created if it does not exist)")
     io_.add_argument("--force", action="store_true",
                      help="replace a report that already exists (default: keep it and stop)")
+    io_.add_argument("--max-groups", type=count, default=None, metavar="N",
+                     help="refuse to write a report on more than N groups (default "
+                          f"{REPORT_MAX_GROUPS}; the comparisons grow with the square of N)")
     add_read_options(rep)
     a = rep.add_argument_group("analysis")
     add_alpha(a)

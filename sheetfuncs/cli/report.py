@@ -40,8 +40,7 @@ def report_outputs(args: argparse.Namespace) -> list[tuple[Path, Path]]:
                 f"-o names one report but {len(inputs)} inputs were given; use "
                 "--out-dir DIR for several inputs"
             )
-        out = Path(args.output)
-        check_report_name(out)
+        out = check_report_name(args.output, out_dir=True)
         pairs = [(inputs[0], out)]
     else:
         folder = Path(args.out_dir)
@@ -116,5 +115,6 @@ def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[
         alpha=args.alpha, method=args.method, control=args.control,
         factor=args.factor, response=args.response, unit=args.unit, title=args.title,
         force=args.force, source=loaded.source, reading=loaded.reading, progress=prog,
+        **({} if args.max_groups is None else {"max_groups": args.max_groups}),
     )
     return loaded.reading.summary(loaded.groups.labels, loaded.groups.counts)

@@ -1,7 +1,9 @@
 """``sheetfuncs table``: the one-way table, the checks and the group summary of one input.
 
-The results come from :func:`sheetfuncs.stats.analyse`, the same call the report makes, and are
-printed as aligned text (default), JSON (``--json``, for pipelines) or CSV (``--csv``).
+The results come from the same core calls :func:`sheetfuncs.stats.analyse` makes for the report
+(moments, one-way table, checks, group summary; not the pairwise comparisons, which ``table``
+does not show and which grow with the square of the number of groups), and are printed as
+aligned text (default), JSON (``--json``, for pipelines) or CSV (``--csv``).
 """
 
 from __future__ import annotations
@@ -32,10 +34,16 @@ CAUTION = (
 
 def analysis(loaded: LoadedGroups, alpha: float, factor: str) -> tuple[Any, Any, list[list[Any]]]:
     """The checks, the group summary and the one-way table (rows named by ``factor``)."""
-    from ..stats import analyse
+    from ..input import check_alpha
+    from ..stats import checks, compute_moments, describe, oneway_from_moments, require_two_groups
 
-    an = analyse(loaded.groups, alpha=alpha, conf=0.95)  # group intervals at 95 %, whatever alpha
-    return an.checks, an.describe, an.oneway.table(factor)
+    g = loaded.groups
+    a = check_alpha(alpha)
+    require_two_groups(g)
+    mom = compute_moments(g)
+    ow = oneway_from_moments(g, mom)
+    # as analyse() computes them; group intervals at 95 %, whatever alpha
+    return checks(g, a, moments=mom, oneway=ow), describe(g, 0.95), ow.table(factor)
 
 
 def run_table(args: argparse.Namespace) -> int:

@@ -512,7 +512,8 @@ def _from_long_rows(rows: list[tuple], lab: str, missing: bool = False) -> Group
     if width != 2:
         raise InputError(
             f"the long layout needs exactly two columns (group label, value); "
-            f"the range has {width}"
+            f"the range has {width}: give only the label and value columns (command line: "
+            "--range, e.g. --range A1:B40)"
         )
     col = _Collector(transpose=True)  # line = row, idx = column
     start = 0

@@ -42,7 +42,7 @@ def test_input_problems_exit_1_with_one_line(tmp_path, capsys, argv_tail, fragme
     "argv, fragment",
     [
         (["table", "folder"], "folder is a folder, not a file"),
-        (["table", "fake.xlsx"], "fake.xlsx is not an .xlsx workbook"),
+        (["table", "fake.xlsx"], "fake.xlsx is a text (CSV) file, not a workbook; rename it to .csv"),
         (["table", "header.csv"], "holds only a row of labels and no values"),
         (["table", "one.csv"], 'at least two groups are needed to compare means, got 1 (only "A")'),
         (["table", "lots.csv", "--alpha", "5"], "alpha must lie strictly between 0 and 1"),
@@ -56,7 +56,11 @@ def test_input_problems_exit_1_with_one_line(tmp_path, capsys, argv_tail, fragme
         (["report", "lots.xlsx", "-o", "lots.xlsx"], "would overwrite the input"),
         (["report", "lots.xlsx", "-o", "./lots.xlsx", "--force"], "would overwrite the input"),
         (["report", "lots.csv", "-o", "nowhere/r.xlsx"], "the folder nowhere does not exist"),
-        (["report", "lots.csv", "-o", "folder"], "must be an .xlsx file"),
+        (["report", "lots.csv", "-o", "folder"], "-o folder names a folder; give -o a file name "
+         "ending in .xlsx, or give --out-dir folder to write the report into that folder"),
+        (["report", "lots.csv", "-o", "r.pdf"], "must be an .xlsx file"),
+        (["report", "lots.csv", "-o", "out/"], "-o out/ names a folder; give -o a file name "
+         "ending in .xlsx, or give --out-dir out/ to write the report into that folder"),
         (["table", "lots.xlsx", "--range", "D:D"], 'the range D:D of sheet "Lots" in lots.xlsx is empty'),
         (["table", "lots.csv", "--range", "F2:G9"], "the range F2:G9 of lots.csv holds no values"),
     ],
@@ -66,7 +70,7 @@ def test_each_input_problem_gives_one_line(tmp_path, capsys, monkeypatch, argv, 
     problem_files(tmp_path)
     code, out, err = run(argv, capsys)
     lines = err.splitlines()
-    if fragment == "must be an .xlsx file":
+    if fragment == "must be an .xlsx file" or "out/" in fragment:
         assert code == 2 and len(lines) == 2 and fragment in lines[1]
         return
     assert code == 1 and out == "", err

@@ -13,10 +13,30 @@ from sheetfuncs.errors import InputError
 
 
 def test_a_report_is_an_xlsx_file():
-    check_report_name(Path("out/Lots.XLSX"))  # the suffix in any case
+    assert check_report_name("out/Lots.XLSX") == Path("out/Lots.XLSX")  # the suffix in any case
     for name in ("r.xlsm", "r.csv", "report"):
-        with pytest.raises(UsageError, match=f'not "{name}" \\(reports never carry macros\\)'):
+        with pytest.raises(UsageError) as ei:
             check_report_name(Path("out") / name)
+        assert str(ei.value) == (
+            f'the report must be an .xlsx file, not "{name}"; give -o a name ending in .xlsx'
+        )
+
+
+def test_o_naming_a_folder_suggests_out_dir(tmp_path):
+    with pytest.raises(UsageError) as ei:
+        check_report_name("reports/", out_dir=True)
+    assert str(ei.value) == (
+        "-o reports/ names a folder; give -o a file name ending in .xlsx, or give --out-dir "
+        "reports/ to write the report into that folder"
+    )
+    folder = tmp_path / "out.xlsx"  # a folder, whatever its name says
+    folder.mkdir()
+    with pytest.raises(InputError) as ei:
+        check_report_name(str(folder))
+    assert ei.value.reason == (
+        f"-o {folder} names a folder; give -o a file name ending in .xlsx, such as "
+        f"{folder / 'report.xlsx'}"
+    )
 
 
 def test_the_output_folder_must_exist(tmp_path):

@@ -76,3 +76,58 @@ def test_usage_errors_found_after_parsing(tmp_path, capsys):
     c = small_csv(tmp_path / "sub", "a.csv")
     code, _, err = run(["report", str(a), str(c), "--out-dir", str(tmp_path / "out")], capsys)
     assert code == 2 and "would both be written to" in err
+
+
+def test_three_thousand_groups_are_answered_in_one_line(tmp_path):
+    # invented: 3,000 lots of two values each, in a wide CSV
+    from tests.support.measure import measure_cli
+
+    header = ",".join(f"Lot {i}" for i in range(1, 3001))
+    rows = [",".join(f"{5 + (i % 7) / 100 + j / 10:.2f}" for i in range(3000)) for j in range(2)]
+    src = tmp_path / "lots.csv"
+    src.write_text("\n".join([header, *rows]) + "\n")
+    got = measure_cli("report", str(src), "-o", "r.xlsx", cwd=tmp_path)
+    assert got.code == 1 and got.out == ""
+    assert got.err == (
+        "sheetfuncs: lots.csv: the data have 3,000 groups, more than the 100 a report takes (its "
+        "comparisons grow with the square of the number of groups); give --max-groups 3000 "
+        "(Python: max_groups=3000) to write it anyway, or use sheetfuncs table\n"
+    )
+    assert got.seconds < 30 and got.peak_mb < 1024  # the bound for hostile inputs
+    assert not (tmp_path / "r.xlsx").exists()
+    table = measure_cli("table", str(src), "--json", cwd=tmp_path)  # no comparisons: quick
+    assert table.code == 0, table.err
+    assert table.seconds < 30 and table.peak_mb < 1024
+
+
+def test_max_groups_option_and_its_default(tmp_path, capsys):
+    from sheetfuncs.cli.parser import REPORT_MAX_GROUPS
+    from sheetfuncs.report import DEFAULT_MAX_GROUPS
+
+    assert REPORT_MAX_GROUPS == DEFAULT_MAX_GROUPS  # the help text states the writer's default
+    src = small_csv(tmp_path)  # three groups
+    code, _, err = run(["report", str(src), "-o", str(tmp_path / "r.xlsx"), "--max-groups",
+                        "2"], capsys)
+    assert code == 1 and err.startswith("sheetfuncs: lots.csv: the data have 3 groups, more than the 2 ")
+    code, _, err = run(["report", str(src), "-o", str(tmp_path / "r.xlsx"), "--max-groups",
+                        "3"], capsys)
+    assert code == 0, err
+
+
+def test_report_that_appears_during_the_run_is_kept(tmp_path, capsys, monkeypatch):
+    from tests.support.race import appear_while_writing
+
+    src = small_csv(tmp_path)
+    out = tmp_path / "r.xlsx"
+    appear_while_writing(monkeypatch, out, b"the other run's report")  # a second run, say
+    code, stdout, err = run(["report", str(src), "-o", str(out)], capsys)
+    assert code == 1 and stdout == ""
+    assert err == (
+        f"sheetfuncs: lots.csv: {str(out)!r} appeared while the report was being written and is kept; "
+        "use --force (force=True) to replace it, or choose another name\n"
+    )
+    assert out.read_bytes() == b"the other run's report"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["lots.csv", "r.xlsx"]
+    code, stdout, err = run(["report", str(src), "-o", str(out), "--force"], capsys)
+    assert code == 0 and stdout == f"wrote {out}\n"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["lots.csv", "r.xlsx"]

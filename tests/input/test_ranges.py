@@ -343,7 +343,8 @@ def test_long_layout_needs_two_columns():
         groups_from_range([["L1", 1.0, 2.0]], layout="long")
     assert str(e.value) == (
         "sheetfuncs: the long layout needs exactly two columns (group label, value); "
-        "the range has 3"
+        "the range has 3: give only the label and value columns (command line: --range, "
+        "e.g. --range A1:B40)"
     )
 
 

@@ -22,6 +22,7 @@ from sheetfuncs.report import SHEET_ORDER, write_report
 from sheetfuncs.report.formats import P_FORMAT
 
 from tests.support import nist
+from tests.support.race import appear_while_writing
 from tests.support.scenarios import CLEAR, INFINITE, NAMES, NONE, cells_text, name_cell, write_in
 
 # ---------------------------------------------------------------------------------------------
@@ -142,13 +143,13 @@ def test_input_never_overwritten(tmp_path):
 
 def test_temp_file_then_rename_and_nothing_left_on_error(tmp_path, monkeypatch):
     moves = []
-    real_replace = os.replace
+    real_link = os.link
 
-    def spy(src, dst):
+    def spy(src, dst):  # a new report is put in place by a hard link (kept if dst exists)
         moves.append((Path(src), Path(dst)))
-        return real_replace(src, dst)
+        return real_link(src, dst)
 
-    monkeypatch.setattr(writer_mod.os, "replace", spy)
+    monkeypatch.setattr(writer_mod.os, "link", spy)
     path = write_in(tmp_path, CLEAR)
     (src, dst), = moves
     assert dst == path and src.parent == path.parent and src != path and not src.exists()
@@ -259,3 +260,72 @@ def test_a_folder_that_refuses_new_files_gets_a_clear_message(tmp_path, monkeypa
         "Permission denied); choose a folder you can write to"
     )
     assert list(tmp_path.iterdir()) == []
+
+
+# --------------------------------------------------------------------------------------------
+# a file that appears at the output path while the report is written
+
+
+def _appearing(monkeypatch, path: Path) -> None:
+    appear_while_writing(monkeypatch, path, b"written by someone else meanwhile")
+
+
+def test_file_that_appears_during_a_run_is_kept(tmp_path, monkeypatch):
+    path = tmp_path / "r.xlsx"
+    _appearing(monkeypatch, path)
+    with pytest.raises(InputError) as ei:
+        write_report(CLEAR, path)
+    assert str(ei.value) == (
+        f"sheetfuncs: {str(path)!r} appeared while the report was being written and is kept; "
+        "use --force (force=True) to replace it, or choose another name"
+    )
+    assert path.read_bytes() == b"written by someone else meanwhile"
+    assert [p.name for p in tmp_path.iterdir()] == ["r.xlsx"]  # no temp file left
+
+
+def test_file_that_appears_during_a_run_is_replaced_with_force(tmp_path, monkeypatch):
+    path = tmp_path / "r.xlsx"
+    _appearing(monkeypatch, path)
+    assert write_report(CLEAR, path, force=True) == path
+    assert openpyxl.load_workbook(path).sheetnames[0] == "Findings"
+    assert [p.name for p in tmp_path.iterdir()] == ["r.xlsx"]
+
+
+def test_without_hard_links_the_name_is_reserved_exclusively(tmp_path, monkeypatch):
+    def no_links(src, dst):
+        raise PermissionError(1, "Operation not permitted")  # as on a file system without links
+
+    monkeypatch.setattr(writer_mod.os, "link", no_links)
+    path = write_in(tmp_path, CLEAR)
+    assert openpyxl.load_workbook(path).sheetnames[0] == "Findings"
+    other = tmp_path / "other.xlsx"
+    _appearing(monkeypatch, other)
+    with pytest.raises(InputError, match="appeared while the report was being written and is kept"):
+        write_report(CLEAR, other)
+    assert other.read_bytes() == b"written by someone else meanwhile"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["other.xlsx", "r.xlsx"]
+
+
+# --------------------------------------------------------------------------------------------
+# the limit on groups
+
+
+def test_more_groups_than_the_limit_is_one_line(tmp_path):
+    groups = {f"Lot {i}": [5.0 + i / 100, 5.1 + i / 100] for i in range(1, 102)}  # invented
+    with pytest.raises(InputError) as ei:
+        write_report(groups, tmp_path / "r.xlsx")
+    assert str(ei.value) == (
+        "sheetfuncs: the data have 101 groups, more than the 100 a report takes (its "
+        "comparisons grow with the square of the number of groups); give --max-groups 101 "
+        "(Python: max_groups=101) to write it anyway, or use sheetfuncs table"
+    )
+    assert list(tmp_path.iterdir()) == []
+    small = {k: groups[k] for k in list(groups)[:4]}
+    with pytest.raises(InputError, match="the data have 4 groups, more than the 3 a report"):
+        write_report(small, tmp_path / "r.xlsx", max_groups=3)
+    for bad in (0, 2.5, True, "10"):
+        with pytest.raises(InputError) as ei:
+            write_report(small, tmp_path / "r.xlsx", max_groups=bad)
+        assert ei.value.reason == (
+            f"the limit on groups must be a whole number of at least 1, not {bad!r}")
+    assert write_report(small, tmp_path / "r.xlsx", max_groups=4).exists()

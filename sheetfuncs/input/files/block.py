@@ -31,7 +31,9 @@ class CellBlock:
     logical values, error texts such as ``"#N/A"``, dates); ``source`` says where the block's
     top-left cell is, so that a 0-based ``(row, col)`` of the block has an address
     (``source.full_address(row, col)``). ``kind`` is ``"workbook"`` or ``"csv"``; ``ref`` the
-    block's A1 reference (e.g. ``"A1:D9"``); ``delimiter`` the CSV field separator.
+    block's A1 reference (e.g. ``"A1:D9"``); ``delimiter`` the CSV field separator; ``notes``
+    what the reader wants the user told about how the file was read (one line each, e.g. a
+    workbook named ``.xls``, or the totals row of a spreadsheet table left out).
     """
 
     rows: tuple[tuple[Any, ...], ...]
@@ -39,6 +41,7 @@ class CellBlock:
     kind: str
     ref: str
     delimiter: str | None = None
+    notes: tuple[str, ...] = ()
 
     @property
     def n_rows(self) -> int:
@@ -54,13 +57,16 @@ class CellBlock:
 
 
 def cell_block(
-    rows: list[tuple[Any, ...]], source: InputSource, kind: str, delimiter: str | None = None
+    rows: list[tuple[Any, ...]], source: InputSource, kind: str, delimiter: str | None = None,
+    notes: tuple[str, ...] = (),
 ) -> CellBlock:
     """The block of the trimmed, non-empty ``rows`` whose top-left cell ``source`` names."""
     width = max(len(r) for r in rows)
     first_row, first_col = source.first_row, source.first_col
     ref = a1_range(first_row, first_col, first_row + len(rows) - 1, first_col + width - 1)
-    return CellBlock(rows=tuple(rows), source=source, kind=kind, ref=ref, delimiter=delimiter)
+    return CellBlock(
+        rows=tuple(rows), source=source, kind=kind, ref=ref, delimiter=delimiter, notes=notes
+    )
 
 
 def is_blank(v: Any) -> bool:

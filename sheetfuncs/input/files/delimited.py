@@ -25,6 +25,7 @@ from ...errors import InputError
 from ..cells import ERROR_TEXTS, RangeRef, column_letters
 from ..source import InputSource
 from .block import PROGRESS_STEP, CellBlock, Progress, cell_block, trim_rows
+from .records import RecordLines, TooManyFields
 from .safety import CFB_MAGIC, ZIP_EMPTY, ZIP_MAGIC, check_file_size
 
 __all__ = ["csv_value", "detect_delimiter", "read_delimited"]
@@ -45,18 +46,25 @@ def read_delimited(
     size_limit: int,
     progress: Progress | None,
     shown: str | None = None,
+    max_fields: int | None = None,
 ) -> CellBlock:
     """The block of a CSV file's fields (all of it, or the range ``ref``), trimmed.
 
-    ``shown`` is the range as the user gave it, for messages. See :func:`.reader.read_cells`.
+    ``shown`` is the range as the user gave it, for messages; ``max_fields`` limits the fields
+    of one record (``None``: no limit). See :func:`.reader.read_cells`.
     """
+    if max_fields is not None and (isinstance(max_fields, bool) or not isinstance(max_fields, int)
+                                   or max_fields < 1):
+        raise InputError(
+            f"the limit on fields must be a whole number of at least 1, not {max_fields!r}"
+        )
     check_file_size(p, size_limit)
     text = _decode(p, p.read_bytes())
     if text.strip() == "":
         raise InputError(f"{p.name} is empty; check that it is the right file")
     delimiter = _field_separator(text, delimiter)
     # with a decimal comma and comma separators, numbers must be quoted; the field rules apply
-    rows = _read_records(p, text, delimiter, ref, decimal_comma, progress)
+    rows = _read_records(p, text, delimiter, ref, decimal_comma, progress, max_fields)
     r1 = ref.min_row if ref else 1
     c1 = ref.min_col if ref else 1
     trimmed, _, fr, fc = trim_rows(rows, r1, c1, ref, [])
@@ -88,8 +96,12 @@ def _read_records(
     ref: RangeRef | None,
     decimal_comma: bool,
     progress: Progress | None,
+    max_fields: int | None = None,
 ) -> list[tuple[Any, ...]]:
-    """The records of the range (every record without one), each field read by :func:`csv_value`."""
+    """The records of the range (every record without one), each field read by :func:`csv_value`.
+
+    The lines reach the parser through :class:`RecordLines`, which stops a record with more
+    than ``max_fields`` fields before it is built and notices a quote that is never closed."""
     r1 = ref.min_row if ref else 1
     c1 = ref.min_col if ref else 1
     r2 = ref.max_row if ref else None
@@ -97,11 +109,14 @@ def _read_records(
     lines = text.count("\n") + 1
     rows: list[tuple[Any, ...]] = []
     step = max(PROGRESS_STEP // 4, 1)
-    reader = csv.reader(io.StringIO(text, newline=""), delimiter=delimiter)
+    feed = RecordLines(text, delimiter, max_fields)
+    reader: Any = None
     r = 0
     width = 0  # fields per record, from the first one read: progress counts cells
     try:
+        reader = csv.reader(feed, delimiter=delimiter)
         for rec in reader:
+            feed.fresh = True  # the next line handed to the parser starts a record
             r += 1
             if r < r1:
                 continue
@@ -115,13 +130,34 @@ def _read_records(
             if progress is not None and r % step == 0:
                 progress("reading", min(reader.line_num, lines) * width, lines * width)
     except csv.Error as e:
+        raise InputError(_parse_message(p, feed, reader, e)) from None
+    except TooManyFields as e:
         raise InputError(
-            f"{p.name} is not well-formed CSV near line {reader.line_num} ({e}); "
-            "check its quotes"
+            f"line {e.line} of {p.name} has more than {e.limit:,} fields, the limit for one "
+            "line; check its separators and line ends, or give --max-fields N (Python: "
+            "max_fields=N) to read it"
         ) from None
+    if feed.ended_inside:
+        raise InputError(
+            f'the quote (") opened on line {feed.open_quote_line() or feed.line_of(feed.start)} '
+            f"of {p.name} is never closed, so the rest of the file would be one text field; "
+            "close or remove it and try again"
+        )
     if progress is not None:
         progress("reading", lines * max(width, 1), lines * max(width, 1))
     return rows
+
+
+def _parse_message(p: Path, feed: RecordLines, reader: Any, e: csv.Error) -> str:
+    """What to say when the parser stops: a quote left open, or the parser's own reason."""
+    opened = feed.open_quote_line()
+    if opened is not None:
+        return (
+            f'the quote (") opened on line {opened} of {p.name} is not closed within '
+            f"{csv.field_size_limit():,} characters; close or remove it and try again"
+        )
+    line = reader.line_num if reader is not None else 1
+    return f"{p.name} is not well-formed CSV near line {line} ({e}); check its quotes"
 
 
 def _record_values(
@@ -343,7 +379,7 @@ def _ambiguity_message(p: Path, where: str, field: str, why: str) -> str:
     if why == "comma-in-point":
         return (
             f'"{field}" at {where} of {p.name} is a number with a decimal comma; '
-            "add --decimal-comma (decimal_comma=True) to read such numbers"
+            "give --decimal-comma (Python: decimal_comma=True) to read such numbers"
         )
     if why == "comma":
         return (

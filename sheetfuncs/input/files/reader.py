@@ -13,7 +13,7 @@ number grammar of their fields) and :mod:`.block` (the block of cells both reade
 from __future__ import annotations
 
 import os
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import TYPE_CHECKING, Any, TypedDict
 
@@ -26,6 +26,7 @@ from ..reading import LeftOut, Reading, cell_content
 from ..source import InputSource
 from .block import CellBlock, Progress, is_blank
 from .delimited import read_delimited
+from .filetype import CSV_SUFFIXES, WORKBOOK_SUFFIXES, file_type
 from .safety import DEFAULT_SIZE_LIMIT
 from .xlsx import read_workbook
 
@@ -45,8 +46,6 @@ __all__ = [
     "read_groups",
 ]
 
-WORKBOOK_SUFFIXES = (".xlsx", ".xlsm", ".xltx", ".xltm")
-CSV_SUFFIXES = (".csv", ".tsv", ".txt")
 #: Default limit on the cells read from one file (``--max-cells``).
 DEFAULT_MAX_CELLS = 20_000_000
 #: Default limit on the fields of one CSV line (``--max-fields``), as many as a sheet has columns.
@@ -80,27 +79,9 @@ class ReadOptions(TypedDict, total=False):
 
 
 def input_kind(path: str | os.PathLike[str]) -> str:
-    """``"workbook"`` or ``"csv"`` from the file name; an InputError for anything else."""
-    p = Path(path)
-    suffix = p.suffix.lower()
-    if suffix in WORKBOOK_SUFFIXES:
-        return "workbook"
-    if suffix in CSV_SUFFIXES:
-        return "csv"
-    if suffix == ".xls":
-        raise InputError(
-            f"{p.name} is an old binary .xls workbook, which sheetfuncs does not "
-            "read; save it as .xlsx (Excel Workbook) and try again"
-        )
-    if suffix in (".ods", ".numbers", ".xlsb"):
-        raise InputError(
-            f"{p.name} is a {suffix} file, which sheetfuncs does not read; save it "
-            "as .xlsx or .csv and try again"
-        )
-    raise InputError(
-        f"cannot tell what kind of file {p.name} is; give an .xlsx or .xlsm "
-        "workbook or a .csv file"
-    )
+    """``"workbook"`` or ``"csv"``, judged by the file's first bytes (by its name when it does not
+    exist); an InputError for anything else (see :mod:`.filetype`)."""
+    return file_type(Path(path))[0]
 
 
 def read_cells(
@@ -128,7 +109,7 @@ def read_cells(
     p = Path(path)
     if p.is_dir():
         raise InputError(f"{p} is a folder, not a file; give the file to read")
-    kind = input_kind(p)
+    kind, notes = file_type(p)
     if not p.exists():
         raise InputError(f"{p} does not exist; check the file name and folder")
     if size_limit is None or size_limit <= 0:
@@ -137,7 +118,8 @@ def read_cells(
     sheet = _sheet_argument(sheet, ref)
     try:
         if kind == "workbook":
-            return read_workbook(p, sheet, ref, name, size_limit, progress, shown)
+            block = read_workbook(p, sheet, ref, name, size_limit, progress, shown)
+            return replace(block, notes=notes + block.notes) if notes else block
         if sheet is not None:
             raise InputError(
                 f"{p.name} is a CSV file, which has no sheets; leave out the sheet"
@@ -147,7 +129,9 @@ def read_cells(
                 f'"{name}" is not a range like A1:F40, and a CSV file has no '
                 "defined names"
             )
-        return read_delimited(p, ref, decimal_comma, delimiter, size_limit, progress, shown)
+        return read_delimited(
+            p, ref, decimal_comma, delimiter, size_limit, progress, shown, max_fields
+        )
     except PermissionError:
         raise InputError(
             f"no permission to read {p}; check the file's access rights"

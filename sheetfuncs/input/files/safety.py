@@ -27,7 +27,7 @@ from ...errors import InputError
 __all__ = [
     "DEFAULT_SIZE_LIMIT", "CFB_MAGIC", "ZIP_MAGIC", "ZIP_EMPTY",
     "check_archive", "check_file_size", "openpyxl_uses_defusedxml", "defusedxml_refused",
-    "size_text", "limit_hint", "bomb_message", "damaged_error",
+    "size_text", "limit_hint", "bomb_message", "damaged_error", "looks_like_text",
 ]
 
 #: Default limit on the total uncompressed size of a workbook (and on the size of a CSV file).
@@ -165,9 +165,10 @@ def _check_head(p: Path, head: bytes) -> None:
                 f"{p.name} is encrypted (password-protected); remove the password "
                 "in a spreadsheet program (save a copy without one) and read that copy"
             )
+        named = "" if p.suffix.lower() == ".xls" else " (whatever its name says)"
         raise InputError(
-            f"{p.name} is in the old binary .xls format, not .xlsx; save it as "
-            ".xlsx (Excel Workbook) and try again"
+            f"{p.name} is an old binary .xls workbook{named}, which sheetfuncs does not "
+            "read; save it as .xlsx (Excel Workbook) and try again"
         )
     if head[:4] not in (ZIP_MAGIC, ZIP_EMPTY):
         what = "is empty" if not head else "is not an .xlsx workbook (not a zip archive)"
@@ -209,7 +210,11 @@ def _check_directory(p: Path, zf: zipfile.ZipFile, size_limit: int) -> None:
 
 def _looks_like_text(p: Path) -> bool:
     with open(p, "rb") as fh:
-        chunk = fh.read(4096)
+        return looks_like_text(fh.read(4096))
+
+
+def looks_like_text(chunk: bytes) -> bool:
+    """Whether the first bytes of a file look like UTF-8 text (no NUL bytes)."""
     if b"\x00" in chunk:
         return False
     try:

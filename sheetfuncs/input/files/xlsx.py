@@ -13,6 +13,7 @@ relationships (ECMA-376 Part 2) and parsed with defusedxml.
 from __future__ import annotations
 
 import datetime as _dt
+import io
 import os
 import warnings
 import zipfile
@@ -25,6 +26,8 @@ from ...errors import InputError
 from ..cells import RangeRef, parse_range
 from ..source import InputSource
 from .block import PROGRESS_STEP, CellBlock, Progress, cell_block, trim_rows
+from .filetype import WORKBOOK_SUFFIXES
+from .tables import table_range, workbook_tables
 from .safety import (
     DEFAULT_SIZE_LIMIT, bomb_message, check_archive, damaged_error, defusedxml_refused,
     openpyxl_uses_defusedxml,
@@ -47,8 +50,10 @@ def _open_workbook(p: Path, data_only: bool):
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
         try:
+            # openpyxl goes by the name: a workbook under another name is handed over in memory
+            source = p if p.suffix.lower() in WORKBOOK_SUFFIXES else io.BytesIO(p.read_bytes())
             return openpyxl.load_workbook(
-                p, read_only=True, data_only=data_only, keep_vba=False, keep_links=False
+                source, read_only=True, data_only=data_only, keep_vba=False, keep_links=False
             )
         except InputError:
             raise
@@ -89,22 +94,51 @@ def _pick_sheet(wb, p: Path, sheet: str | None):
     )
 
 
-def _defined_range(wb, p: Path, name: str) -> RangeRef:
+def _named_range(wb, p: Path, name: str, sheet: str | None) -> tuple[RangeRef, tuple[str, ...]]:
+    """The cells a defined name or a spreadsheet table (``FillWeights``, ``FillWeights[#All]``,
+    ``FillWeights[#Data]``, see :mod:`.tables`) refers to, with notes; the sheet they are on
+    must agree with ``sheet`` when it is given."""
+    names = _defined_names(wb)
     dn = None
-    try:
-        dn = wb.defined_names.get(name)
-        if dn is None:
-            for key, val in wb.defined_names.items():
-                if key.casefold() == name.casefold():
-                    dn = val
-                    break
-    except Exception:  # unusual defined-name tables: treat as absent
-        dn = None
-    if dn is None:
+    if "[" not in name:
+        dn = names.get(name) or next(
+            (v for k, v in names.items() if k.casefold() == name.casefold()), None)
+    if dn is not None:
+        ref, notes, what = _defined_range(p, name, dn), (), f'the name "{name}"'
+    else:
+        tables = workbook_tables(p)
+        found = table_range(tables, name, p.name)
+        if found is None:
+            raise InputError(_unknown_name(p, name, list(names), [t.name for t in tables]))
+        table, ref, notes = found
+        what = f'the table "{table.name}"'
+    if sheet is not None and sheet.strip().casefold() != (ref.sheet or "").casefold():
         raise InputError(
-            f'"{name}" is neither a range like A1:F40 nor a name defined in '
-            f"{p.name}; check the range"
+            f'{what} is on sheet "{ref.sheet}", not "{sheet.strip()}"; leave out the '
+            "sheet (--sheet) or give an A1 range"
         )
+    return ref, notes
+
+
+def _defined_names(wb) -> dict:
+    try:
+        return dict(wb.defined_names.items())
+    except Exception:  # unusual defined-name tables: treat as absent
+        return {}
+
+
+def _unknown_name(p: Path, name: str, names: list[str], tables: list[str]) -> str:
+    """The message for a range that is neither A1 nor a name of the workbook."""
+    known = [f'"{n}"' for n in names if not n.startswith("_xlnm.")][:8]
+    known += [f'"{t}" (table)' for t in tables[:8]]
+    has = f", which has {', '.join(known)}" if known else ", which has no names or tables"
+    return (
+        f'"{name}" is neither a range like A1:F40 nor a name or table in '
+        f"{p.name}{has}; check the range"
+    )
+
+
+def _defined_range(p: Path, name: str, dn) -> RangeRef:
     try:
         dests = list(dn.destinations)
     except Exception:
@@ -158,13 +192,9 @@ def read_workbook(
     check_archive(p, size_limit)
     wb = _open_workbook(p, data_only=True)
     try:
+        notes: tuple[str, ...] = ()
         if name is not None:
-            ref = _defined_range(wb, p, name)
-            if sheet is not None and sheet.strip().casefold() != (ref.sheet or "").casefold():
-                raise InputError(
-                    f'the name "{name}" refers to sheet "{ref.sheet}", not '
-                    f'"{sheet}"; leave out the sheet or give an A1 range'
-                )
+            ref, notes = _named_range(wb, p, name, sheet)
             sheet = ref.sheet
         ws = _pick_sheet(wb, p, sheet)
         rows, suspects, first_row, first_col = _read_sheet(ws, ref, progress, p.name)
@@ -176,7 +206,7 @@ def read_workbook(
         raise InputError(_empty_message(p, title, ref, name, shown, len(wb.sheetnames)))
     if suspects:
         _check_formulas(p, title, suspects, source)
-    return cell_block(rows, source, "workbook")
+    return cell_block(rows, source, "workbook", notes=notes)
 
 
 def _empty_message(

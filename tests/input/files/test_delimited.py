@@ -128,8 +128,12 @@ def test_csv_utf16_with_bom_and_tabs(tmp_path):
 def test_csv_messages(tmp_path):
     p = tmp_path / "eu.csv"
     p.write_text("A;B\n1,5;2,5\n1,7;2,9\n")
-    with pytest.raises(InputError, match=r'"1,5" at A2 of eu\.csv is a number with a decimal comma; add --decimal-comma'):
+    with pytest.raises(InputError) as ei:
         read_cells(p)
+    assert str(ei.value) == (
+        'sheetfuncs: "1,5" at A2 of eu.csv is a number with a decimal comma; give '
+        "--decimal-comma (Python: decimal_comma=True) to read such numbers"
+    )
     p = tmp_path / "latin1.csv"
     p.write_bytes("Bühne,B\n1,2\n".encode("latin-1"))
     with pytest.raises(InputError, match=r"latin1\.csv is not UTF-8 text \(byte 0xFC at offset 1\)"):
@@ -181,3 +185,83 @@ def test_nist_atmwtag_csv_with_decimal_comma_and_semicolons(tmp_path):
     res = oneway(loaded.groups)
     assert math.isclose(res.f, ds.certified.f, rel_tol=1e-12)
     assert math.isclose(res.ss_within, ds.certified.ss_within, rel_tol=1e-12)
+
+
+# --------------------------------------------------------------------------------------------
+# quotes that are never closed, and lines with too many fields
+
+
+def _csv_error(tmp_path, text: str, **kw) -> str:
+    p = tmp_path / "q.csv"
+    p.write_text(text, encoding="utf-8")
+    with pytest.raises(InputError) as ei:
+        read_cells(p, **kw)
+    return str(ei.value)
+
+
+def test_quote_never_closed_names_its_line(tmp_path):
+    # invented: 40 values after a stray quote would otherwise become one text cell
+    body = "".join(f"{5 + i / 100:.2f},{6 + i / 100:.2f}\n" for i in range(20))
+    text = 'Line A,Line B\n5.10,"6.10\n' + body
+    assert _csv_error(tmp_path, text) == (
+        'sheetfuncs: the quote (") opened on line 2 of q.csv is never closed, so the rest of '
+        "the file would be one text field; close or remove it and try again"
+    )
+    # a quoted field over two lines before it does not shift the count
+    text = 'A,B\n"two\nlines",1\n2,"3\n4,5\n'
+    assert "opened on line 4 of q.csv is never closed" in _csv_error(tmp_path, text)
+    # a doubled quote inside a quoted field is not its end
+    assert "opened on line 2 of q.csv" in _csv_error(tmp_path, 'A,B\n1,"a""\n5,6\n')
+
+
+def test_long_open_quote_is_named_too(tmp_path):
+    text = "A,B\n1,2\n3,\"4" + "x" * 200_000 + "\n5,6\n"
+    assert _csv_error(tmp_path, text) == (
+        'sheetfuncs: the quote (") opened on line 3 of q.csv is not closed within 131,072 '
+        "characters; close or remove it and try again"
+    )
+
+
+def test_closed_quotes_and_quotes_inside_text_still_read(tmp_path):
+    p = tmp_path / "ok.csv"
+    p.write_text('Lot,Note\n"A, first",5" pipe\n"B ""x""",\'q\n', encoding="utf-8")
+    assert read_cells(p).rows == (("Lot", "Note"), ("A, first", '5" pipe'), ('B "x"', "'q"))
+
+
+@pytest.mark.parametrize("quoted", [False, True])
+def test_line_with_too_many_fields(tmp_path, quoted):
+    q = '"' if quoted else ""
+    rows = ["A,B,C", "1,2,3", ",".join(f"{q}{i}{q}" for i in range(10)), "4,5,6"]
+    assert _csv_error(tmp_path, "\n".join(rows) + "\n", max_fields=5) == (
+        "sheetfuncs: line 3 of q.csv has more than 5 fields, the limit for one line; check "
+        "its separators and line ends, or give --max-fields N (Python: max_fields=N) to read it"
+    )
+    p = tmp_path / "q.csv"
+    assert read_cells(p, max_fields=10).n_cols == 10
+    # separators inside quotes are not fields
+    p.write_text('A,B\n"1,2,3,4,5,6",7\n', encoding="utf-8")
+    assert read_cells(p, max_fields=2).rows[1] == ("1,2,3,4,5,6", 7.0)
+    with pytest.raises(InputError) as ei:
+        read_cells(p, max_fields=0)
+    assert ei.value.reason == "the limit on fields must be a whole number of at least 1, not 0"
+
+
+def test_fifty_megabytes_on_one_line_is_answered_in_one_line(tmp_path):
+    # the issue's case: 12.5 million fields on one line; the bound is the issue's (30 s, 1 GB)
+    from tests.support.measure import measure_cli
+
+    p = tmp_path / "one.csv"
+    with open(p, "w", encoding="utf-8") as fh:
+        chunk = ",".join(f"{i % 10}.{i % 7}" for i in range(1_000_000))
+        for _ in range(12):
+            fh.write(chunk + ",")
+        fh.write(",".join("5.0" for _ in range(500_000)) + "\n")
+    assert p.stat().st_size >= 50_000_000  # 12.5 million fields of four bytes with their commas
+    got = measure_cli("table", str(p), cwd=tmp_path)
+    assert got.code == 1 and got.out == ""
+    assert got.err == (
+        "sheetfuncs: line 1 of one.csv has more than 16,384 fields, the limit for one line; "
+        "check its separators and line ends, or give --max-fields N (Python: max_fields=N) to "
+        "read it\n"
+    )
+    assert got.seconds < 30 and got.peak_mb < 1024
