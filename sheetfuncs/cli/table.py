@@ -33,17 +33,13 @@ CAUTION = (
 
 
 def analysis(loaded: LoadedGroups, alpha: float, factor: str) -> tuple[Any, Any, list[list[Any]]]:
-    """The checks, the group summary and the one-way table (rows named by ``factor``)."""
-    from ..input import check_alpha
-    from ..stats import checks, compute_moments, describe, oneway_from_moments, require_two_groups
+    """The checks, the group summary and the one-way table (rows named by ``factor``), from the
+    core's one call; the comparisons, which table does not show, are not computed."""
+    from ..stats import analyse
 
-    g = loaded.groups
-    a = check_alpha(alpha)
-    require_two_groups(g)
-    mom = compute_moments(g)
-    ow = oneway_from_moments(g, mom)
-    # as analyse() computes them; group intervals at 95 %, whatever alpha
-    return checks(g, a, moments=mom, oneway=ow), describe(g, 0.95), ow.table(factor)
+    # group intervals at 95 %, whatever alpha
+    an = analyse(loaded.groups, alpha=alpha, conf=0.95, comparisons=False)
+    return an.checks, an.describe, an.oneway.table(factor)
 
 
 def run_table(args: argparse.Namespace) -> int:

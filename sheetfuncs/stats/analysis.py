@@ -95,11 +95,14 @@ def _checked(result: Any, what: str, chk: ChecksResult) -> Any:
 
 
 def analyse(
-    groups: Any, *, alpha: Any = 0.05, method: Any = "tukey", control: Any = None, conf: Any = None
+    groups: Any, *, alpha: Any = 0.05, method: Any = "tukey", control: Any = None, conf: Any = None,
+    comparisons: bool = True,
 ) -> Analysis:
     """Run every analysis once (see the module docstring). The group intervals and the effect
     sizes' intervals are at ``conf``, by default ``1 - alpha``; the comparisons' intervals are
-    at ``1 - alpha``."""
+    at ``1 - alpha``. ``comparisons=False`` leaves out the pairwise comparisons, the letters and
+    Dunnett's comparisons (their number grows with the square of the number of groups): they
+    are then :class:`Unavailable` (``None`` for the two optional ones)."""
     g = as_groups(groups)
     a = check_alpha(alpha)
     level = 1.0 - a if conf is None else check_conf(conf)
@@ -109,13 +112,14 @@ def analyse(
     mom = compute_moments(g)
     ow = oneway_from_moments(g, mom)
     chk = checks(g, a, moments=mom, oneway=ow)
-    let = attempt("letters", lambda: letters(g, m, a))
-    if isinstance(let, LettersResult):
-        pw: PairwiseResult | Unavailable = let.comparisons  # the comparisons the letters were drawn from
+    if not comparisons:
+        skipped = "not computed: comparisons were not asked for"
+        let = Unavailable("letters", skipped)
+        pw = Unavailable(METHOD_NAMES[m], skipped)
     else:
-        pw = attempt(METHOD_NAMES[m], lambda: pairwise(g, m, a))
+        let, pw = _letters_and_pairs(g, m, a)
     gh = None
-    if chk.variances_unequal and m != "games-howell":
+    if comparisons and chk.variances_unequal and m != "games-howell":
         gh = attempt(METHOD_NAMES["games-howell"], lambda: pairwise(g, "games-howell", a))
     return Analysis(
         groups=g, alpha=a, conf=level, method=m, control=ctrl, moments=mom, oneway=ow,
@@ -123,6 +127,19 @@ def analyse(
         welch=_checked(chk.welch, "Welch", chk), kruskal=_checked(chk.kruskal, "Kruskal-Wallis", chk),
         effects=attempt("effect sizes", lambda: effect_sizes(g, level)),
         pairwise=pw,
-        dunnett=attempt("Dunnett", lambda: dunnett(g, ctrl, a)) if ctrl is not None else None,
+        dunnett=(attempt("Dunnett", lambda: dunnett(g, ctrl, a))
+                 if ctrl is not None and comparisons else None),
         letters=let, unequal_pairs=gh,
     )
+
+
+def _letters_and_pairs(g: Groups, m: str, a: float) -> tuple[
+        LettersResult | Unavailable, PairwiseResult | Unavailable]:
+    """The letters and the comparisons they were drawn from (or the comparisons alone, when the
+    letters could not be drawn)."""
+    let = attempt("letters", lambda: letters(g, m, a))
+    if isinstance(let, LettersResult):
+        pw: PairwiseResult | Unavailable = let.comparisons  # the comparisons the letters were drawn from
+    else:
+        pw = attempt(METHOD_NAMES[m], lambda: pairwise(g, m, a))
+    return let, pw

@@ -67,3 +67,14 @@ def test_the_interval_level_is_one_minus_alpha_unless_given():
     assert an.pairwise == sf.pairwise(HEADS, "tukey", 0.01)  # comparisons stay at alpha
     with pytest.raises(sf.InputError, match="confidence level"):
         analyse(HEADS, conf=1.5)
+
+
+def test_without_comparisons_the_rest_is_the_same():
+    # common practice: leaving out the comparisons changes nothing else
+    full = analyse(HEADS, alpha=0.05, control="Head 1")
+    short = analyse(HEADS, alpha=0.05, control="Head 1", comparisons=False)
+    assert (short.oneway, short.describe, short.checks, short.effects) == (
+        full.oneway, full.describe, full.checks, full.effects)
+    assert isinstance(short.pairwise, Unavailable) and isinstance(short.letters, Unavailable)
+    assert short.pairwise.reason == "not computed: comparisons were not asked for"
+    assert short.dunnett is None and short.unequal_pairs is None
