@@ -52,7 +52,7 @@ from ..distributions import (
     f_critical, f_tail, many_to_one_critical, many_to_one_tails, range_critical, range_criticals,
     range_tails,
 )
-from ..input import Groups, as_groups, check_alpha, format_label, shown
+from ..input import Groups, as_groups, check_alpha, check_range, format_label, shown
 from .moments import TOO_LARGE, ExactMoments, FloatMoments, compute_moments, rounded
 from .oneway import oneway_from_moments, require_two_groups
 from .interval import Interval
@@ -303,10 +303,21 @@ def _check_variances(g: Groups, mom: ExactMoments | FloatMoments, method: str) -
     return out
 
 
+#: The smallest alpha for comparisons: the studentized-range and many-to-one critical values
+#: are solved (and checked) down to it; published tables stop at 0.001.
+MIN_ALPHA = 1e-10
+
+
+def check_comparison_alpha(alpha: Any) -> float:
+    """The family-wise alpha of a comparison: a number from 1e-10 to 0.5."""
+    check_alpha(alpha)  # not a number, or outside (0, 1): the general message
+    return check_range(alpha, "alpha", MIN_ALPHA, 0.5, "0.05")
+
+
 def _prepare(groups: Any, alpha: Any) -> tuple[Groups, float, ExactMoments | FloatMoments]:
     g = as_groups(groups)
     require_two_groups(g)
-    a = check_alpha(alpha)
+    a = check_comparison_alpha(alpha)
     return g, a, compute_moments(g, None)
 
 
@@ -468,7 +479,7 @@ def dunnett(groups: Any, control: Any, alpha: float = 0.05) -> PairwiseResult:
             f'the control "{lab}" is not one of the groups ({shown}); give the '
             "control's label exactly as it appears"
         )
-    a = check_alpha(alpha)
+    a = check_comparison_alpha(alpha)
     mom = compute_moments(g, None)
     c = g.labels.index(lab)
     msw, df, msw_x = _pooled(g, mom)
