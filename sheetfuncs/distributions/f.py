@@ -105,8 +105,9 @@ def _limit_critical(a: float, d1: float, d2: float, regime: str) -> float:
     """The upper-``a`` point in a limit (see :func:`limit_regime`)."""
     if regime == "both":
         return 1.0
-    if regime == "df1":
-        return d2 / (2.0 * float(special.gammaincinv(d2 / 2.0, a)))
+    if regime == "df1":  # a lower chi-square point of 0 (tiny alpha) puts x beyond any double
+        low = float(special.gammaincinv(d2 / 2.0, a))
+        return d2 / (2.0 * low) if low > 0.0 else math.inf
     return 2.0 * float(special.gammainccinv(d1 / 2.0, a)) / d1
 
 

@@ -122,7 +122,7 @@ def welch(groups: Any, *, exact: bool | None = None) -> WelchResult:
     for i, label in enumerate(g.labels):
         if mom.ss_group(i) == 0:
             raise _zero_variance_error(label, "Welch's test")
-        if var[i] == 0:
+        if var[i] < 1e-300 * max(var):  # (the largest is near 1) its weight would overflow
             raise InputError(
                 f'the variance of group "{label}" is more than 10^300 times smaller '
                 "than the largest, so Welch's weights cannot be formed; check the data's units"

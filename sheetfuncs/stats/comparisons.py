@@ -40,6 +40,7 @@ statistic and ``p = 0``, and a pair with equal means has statistic 0 and ``p = 1
 from __future__ import annotations
 
 import math
+import sys
 from collections.abc import Callable
 from dataclasses import dataclass
 from fractions import Fraction
@@ -53,7 +54,7 @@ from ..distributions import (
     range_tails,
 )
 from ..input import Groups, as_groups, check_alpha, check_range, format_label, shown
-from .moments import TOO_LARGE, ExactMoments, FloatMoments, compute_moments, rounded
+from .moments import TOO_LARGE, TOO_SMALL, ExactMoments, FloatMoments, compute_moments, rounded
 from .oneway import oneway_from_moments, require_two_groups
 from .interval import Interval
 
@@ -297,6 +298,8 @@ def _check_variances(g: Groups, mom: ExactMoments | FloatMoments, method: str) -
                 'use a pooled method such as "tukey", or check the measurement resolution'
             )
         var = rounded(Fraction(ss) / (n - 1)) if mom.exact else float(ss) / (n - 1)
+        if var < sys.float_info.min:  # a variance that underflows cannot weigh its group
+            raise InputError(TOO_SMALL)
         if not math.isfinite(var):
             raise InputError(TOO_LARGE)
         out.append(var)
@@ -347,6 +350,19 @@ def pairwise(groups: Any, method: str = "tukey", alpha: float = 0.05) -> Pairwis
     return _pooled_pairs(g, mom, meth, a, pairs, diffs)
 
 
+def _welch_df(vi: float, ni: int, vj: float, nj: int) -> float:
+    """Welch's df of a pair, ``(a + b)^2 / (a^2/(ni-1) + b^2/(nj-1))`` with ``a = vi/ni`` and
+    ``b = vj/nj``, from the shares ``a/(a+b)`` and ``b/(a+b)``: free of overflow and underflow
+    for variances anywhere in the double range (both are positive)."""
+    if vi >= vj:
+        t = (vj / vi) * (ni / nj)  # b / a, at most ni / nj
+        ra, rb = 1.0 / (1.0 + t), t / (1.0 + t)
+    else:
+        t = (vi / vj) * (nj / ni)  # a / b
+        ra, rb = t / (1.0 + t), 1.0 / (1.0 + t)
+    return 1.0 / (ra * ra / (ni - 1) + rb * rb / (nj - 1))
+
+
 def _games_howell(g: Groups, mom: ExactMoments | FloatMoments, a: float,
                   pairs: list[tuple[int, int]], diffs: list[float]) -> PairwiseResult:
     """Every pair by Games & Howell's method: each pair's own variances and Welch df."""
@@ -355,11 +371,8 @@ def _games_howell(g: Groups, mom: ExactMoments | FloatMoments, a: float,
     var = _check_variances(g, mom, "Games–Howell")
     ses, row_df, stat = [], [], []
     for (i, j), d in zip(pairs, diffs):
-        va, vb = var[i] / counts[i], var[j] / counts[j]
-        ses.append(math.sqrt(va + vb))
-        row_df.append(
-            (va + vb) ** 2 / (va * va / (counts[i] - 1) + vb * vb / (counts[j] - 1))
-        )
+        ses.append(math.hypot(math.sqrt(var[i] / counts[i]), math.sqrt(var[j] / counts[j])))
+        row_df.append(_welch_df(var[i], counts[i], var[j], counts[j]))
         stat.append(abs(_ratio(d, ses[-1])) * _SQRT2)
     # one call each: the tails of all pairs, and one critical value per distinct Welch df
     ps = range_tails(stat, k, row_df).tolist()
