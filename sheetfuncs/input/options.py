@@ -32,7 +32,10 @@ def shown(value: Any) -> str:
             return str(int(value))
         return repr(value)
     if isinstance(value, int):
-        return str(value) if abs(value) < 10**16 else f"{decimal.Decimal(value):.6g}"
+        if abs(value) < 10**16:
+            return str(value)
+        mant, exp = f"{decimal.Decimal(value):.5e}".split("e")  # any size, unlike float()
+        return f"{mant.rstrip('0').rstrip('.')}e{exp}"
     text = str(value)
     return text if len(text) <= _SHOWN_TEXT else text[: _SHOWN_TEXT - 1] + "…"
 

@@ -46,6 +46,7 @@ from scipy import stats
 from ..errors import InputError
 from ..distributions import f_tail
 from ..input import as_groups
+from .moments import rounded
 from .group_variances import centred_group_stats, prepare_with_variances
 from .oneway import require_two_groups
 
@@ -176,7 +177,7 @@ def brown_forsythe(groups: Any, *, exact: bool | None = None) -> BrownForsytheRe
             raise _all_zero_error()
         f_x = ssb / denom
         df2_x = denom * denom / sum((c * c / (n - 1) for c, n in zip(parts, ns)), Fraction(0))
-        f, df2 = float(f_x), float(df2_x)
+        f, df2 = rounded(f_x), rounded(df2_x)  # F* beyond the largest double is infinite
     else:
         # centred means and variances in a common unit (F* and df2 do not depend on it)
         dev, var = centred_group_stats(g, mom)
