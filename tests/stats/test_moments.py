@@ -262,7 +262,7 @@ def _fraction_ss(groups: list[list[float]]) -> tuple[Fraction, Fraction]:
     return within, sum(((x - grand) ** 2 for x in every), Fraction(0))
 
 
-def _as_groups(groups: list[list[float]]) -> Groups:
+def _as_groups(groups: list[list[float]]) -> sf.Groups:
     return as_groups({f"G{i}": g for i, g in enumerate(groups)})
 
 
