@@ -39,9 +39,8 @@ class GroupSummary:
     max: float
 
     def row(self) -> list[Any]:
-        """The table row; the SD, SE and interval of a one-value group are blank (undefined)."""
-        spread = [self.sd, self.se, *self.ci] if self.n > 1 else [None] * 4
-        return [self.label, self.n, self.mean, *spread, self.min, self.median, self.max]
+        return [self.label, self.n, self.mean, self.sd, self.se, *self.ci,
+                self.min, self.median, self.max]
 
 
 @dataclass(frozen=True)
