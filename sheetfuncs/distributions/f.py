@@ -33,7 +33,7 @@ from scipy import optimize, special
 from ..errors import InputError
 from ..input import as_real, check_alpha, shown
 
-__all__ = ["f_tail", "f_critical", "check_df"]
+__all__ = ["f_tail", "f_critical", "check_df", "limit_regime", "MIN_DF"]
 
 #: Below this log-prefactor (about 1e-200) the tail is evaluated in log space.
 _DEEP_LOG = -460.0
@@ -41,17 +41,74 @@ _HALF_LOG_2PI = 0.5 * math.log(2.0 * math.pi)
 _MAX_CF_TERMS = 100_000
 
 
+#: The smallest degrees of freedom accepted: below it the critical values near alpha = 1 lose
+#: their accuracy (checked against mpmath), and no analysis of variance has fewer than one.
+MIN_DF = 0.5
+#: Up to this size both degrees of freedom go through the incomplete beta function (checked
+#: against mpmath and scipy); beyond it the limits of :func:`limit_regime` apply.
+_DIRECT_DF = 1e15
+#: One df this many times the other is infinite to double precision: F(d1, d2) differs from
+#: its one-df limit by a relative O(d_small / d_large).
+_LIMIT_RATIO = 1e30
+#: Both df this large: F is 1 to double precision (its SD, sqrt(2/d1 + 2/d2), is below 1e-18).
+_BOTH_INFINITE = 1e36
+
+
 def check_df(df1: float, df2: float) -> tuple[float, float]:
-    """Validate degrees of freedom (positive and finite; non-integers are allowed)."""
+    """Validate degrees of freedom: finite numbers from :data:`MIN_DF` up (non-integers allowed)."""
     out = []
     for name, v in (("df1", df1), ("df2", df2)):
         f = as_real(v)
         if f is None:
             raise InputError(f"{name} must be a number, not {shown(v)}")
-        if not (math.isfinite(f) and f > 0):
-            raise InputError(f"{name} must be a positive number, not {shown(v)}")
+        if not (math.isfinite(f) and f >= MIN_DF):
+            raise InputError(
+                f"{name} must be a positive number of at least {MIN_DF:g} (degrees of "
+                f"freedom), not {shown(v)}"
+            )
         out.append(f)
     return out[0], out[1]
+
+
+def limit_regime(d1: float, d2: float) -> str | None:
+    """How F(d1, d2) is evaluated: None (directly), ``"df1"`` (df1 infinite to double
+    precision: F is ``df2 / chi2(df2)``), ``"df2"`` (F is ``chi2(df1) / df1``), ``"both"`` (F
+    is 1), or ``"none"`` when both are large but neither limit holds to full accuracy."""
+    small, large = min(d1, d2), max(d1, d2)
+    if large <= _DIRECT_DF:
+        return None
+    if small >= _BOTH_INFINITE:
+        return "both"
+    if large >= _LIMIT_RATIO * small:
+        return "df1" if d1 > d2 else "df2"
+    return "none"
+
+
+def _no_limit(df1: float, df2: float) -> InputError:
+    return InputError(
+        f"the F distribution with df1 = {shown(df1)} and df2 = {shown(df2)} cannot be computed "
+        f"to full accuracy (both are above {_DIRECT_DF:.0e} but not {_LIMIT_RATIO:.0e} times "
+        "apart); check the degrees of freedom"
+    )
+
+
+def _limit_tail(x: float, d1: float, d2: float, regime: str) -> float:
+    """P(F > x) in a limit (see :func:`limit_regime`), from the chi-square (gamma) tails."""
+    if regime == "both":
+        return 1.0 if x < 1.0 else (0.5 if x == 1.0 else 0.0)
+    if regime == "df1":  # P(d2 / chi2 > x) = P(chi2(d2) < d2 / x)
+        return float(special.gammainc(d2 / 2.0, d2 / (2.0 * x)))
+    return float(special.gammaincc(d1 / 2.0, d1 * x / 2.0))  # P(chi2(d1) > d1 x)
+
+
+def _limit_critical(a: float, d1: float, d2: float, regime: str) -> float:
+    """The upper-``a`` point in a limit (see :func:`limit_regime`)."""
+    if regime == "both":
+        return 1.0
+    if regime == "df1":  # a lower chi-square point of 0 (tiny alpha) puts x beyond any double
+        low = float(special.gammaincinv(d2 / 2.0, a))
+        return d2 / (2.0 * low) if low > 0.0 else math.inf
+    return 2.0 * float(special.gammainccinv(d1 / 2.0, a)) / d1
 
 
 # --------------------------------------------------------------------------------------------
@@ -185,7 +242,16 @@ def f_tail(x: float, df1: float, df2: float) -> float:
         return 1.0
     if math.isinf(xv):
         return 0.0
-    return _tail(xv, d1, d2)
+    regime = limit_regime(d1, d2)
+    if regime == "none":
+        raise _no_limit(df1, df2)
+    p = _tail(xv, d1, d2) if regime is None else _limit_tail(xv, d1, d2, regime)
+    if not 0.0 <= p <= 1.0:
+        raise InputError(
+            f"the F tail at {shown(x)} with df1 = {shown(df1)} and df2 = {shown(df2)} cannot be "
+            "computed to full accuracy; check the degrees of freedom"
+        )
+    return p
 
 
 def _newton_critical(x: float, a: float, d1: float, d2: float) -> float | None:
@@ -244,6 +310,11 @@ def f_critical(alpha: float, df1: float, df2: float) -> float:
     """The x with P(F > x) = alpha for F ~ F(df1, df2); ``inf`` beyond the largest double."""
     d1, d2 = check_df(df1, df2)
     a = check_alpha(alpha)
+    regime = limit_regime(d1, d2)
+    if regime == "none":
+        raise _no_limit(df1, df2)
+    if regime is not None:
+        return _checked_critical(_limit_critical(a, d1, d2, regime), alpha, df1, df2)
     with special.errstate(all="ignore"):
         if a < 0.5:
             w = float(special.betaincinv(d2 / 2.0, d1 / 2.0, a))  # w = d2 / (d2 + d1 x)
@@ -255,4 +326,14 @@ def f_critical(alpha: float, df1: float, df2: float) -> float:
         polished = _newton_critical(x, a, d1, d2)
         if polished is not None:
             return polished
-    return _solve_critical(a, d1, d2)
+    return _checked_critical(_solve_critical(a, d1, d2), alpha, df1, df2)
+
+
+def _checked_critical(x: float, alpha: float, df1: float, df2: float) -> float:
+    """A critical value, or an InputError when the solver found none (never NaN)."""
+    if math.isnan(x) or x < 0.0:
+        raise InputError(
+            f"the critical F for alpha = {shown(alpha)} with df1 = {shown(df1)} and df2 = "
+            f"{shown(df2)} cannot be computed to full accuracy; check the degrees of freedom"
+        )
+    return x

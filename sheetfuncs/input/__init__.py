@@ -21,7 +21,8 @@ from .labels import parse_rename, relabel
 from .reading import LeftOut, Reading, cell_content, sheet_ref
 from .groups import CellNote, Groups, as_groups, first_duplicate, format_label
 from .options import (
-    as_real, check_alpha, check_conf, check_number, check_probability, one_line, shown,
+    as_real, check_alpha, check_conf, check_number, check_probability, check_range, check_whole,
+    one_line, shown,
 )
 from .ranges import groups_from_long, groups_from_range, parse_errors
 from .source import InputSource
@@ -33,7 +34,7 @@ __all__ = [
     "DEFAULT_MAX_CELLS", "DEFAULT_MAX_FIELDS", "DEFAULT_SIZE_LIMIT", "CellBlock", "LoadedGroups", "read_cells", "read_groups",
     "same_file", "workbook_properties",
     "CellNote", "Groups", "as_groups", "first_duplicate", "format_label", "groups_from_long", "groups_from_range",
-    "as_real", "check_alpha", "check_conf", "check_number", "check_probability", "one_line",
-    "shown",
+    "as_real", "check_alpha", "check_conf", "check_number", "check_probability", "check_range",
+    "check_whole", "one_line", "shown",
     "InputSource", "LeftOut", "Reading", "cell_content", "sheet_ref", "parse_rename", "relabel", "parse_errors",
 ]

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import decimal
 import math
 from typing import Any
 
@@ -9,8 +10,11 @@ from ..errors import InputError
 
 __all__ = [
     "check_conf", "check_alpha", "check_probability", "check_number", "one_line", "shown",
-    "as_real",
+    "as_real", "check_whole", "check_range",
 ]
+
+#: Longest text a message quotes from a cell (a longer one is cut with "…").
+_SHOWN_TEXT = 60
 
 
 def shown(value: Any) -> str:
@@ -21,14 +25,19 @@ def shown(value: Any) -> str:
     if isinstance(value, bool):
         return "TRUE" if value else "FALSE"
     if isinstance(value, str):
-        return f'"{value}"'
+        text = " ".join(value.split())
+        return f'"{text}"' if len(text) <= _SHOWN_TEXT else f'"{text[:_SHOWN_TEXT - 1]}…"'
     if isinstance(value, float):
         if math.isfinite(value) and value == int(value) and abs(value) < 1e16:
             return str(int(value))
         return repr(value)
     if isinstance(value, int):
-        return str(value)
-    return str(value)
+        if abs(value) < 10**16:
+            return str(value)
+        mant, exp = f"{decimal.Decimal(value):.5e}".split("e")  # any size, unlike float()
+        return f"{mant.rstrip('0').rstrip('.')}e{exp}"
+    text = str(value)
+    return text if len(text) <= _SHOWN_TEXT else text[: _SHOWN_TEXT - 1] + "…"
 
 
 def as_real(value: Any) -> float | None:
@@ -63,6 +72,28 @@ def check_probability(value: Any, name: str, example: str) -> float:
             f"{name} must lie strictly between 0 and 1 (e.g. {example}), not {shown(value)}"
         )
     return v
+
+
+def check_range(value: Any, name: str, low: float, high: float, example: str) -> float:
+    """A number from ``low`` to ``high`` (both included), or an InputError that names the
+    argument and the range, e.g. ``alpha must be a number from 1e-10 to 0.5 (e.g. 0.05)``."""
+    v = check_number(value, name)
+    if not (low <= v <= high):
+        raise InputError(
+            f"{name} must be a number from {low:g} to {high:g} (e.g. {example}), not {shown(value)}"
+        )
+    return v
+
+
+def check_whole(value: Any, name: str, low: int, high: int) -> int:
+    """A whole number from ``low`` to ``high``, or an InputError that names the argument and the
+    range, e.g. ``k (the number of groups) must be a whole number from 2 to 10,000, not 1e+308``."""
+    v = check_number(value, name)
+    if not (low <= v <= high) or v != math.floor(v):
+        raise InputError(
+            f"{name} must be a whole number from {low:,} to {high:,}, not {shown(value)}"
+        )
+    return int(v)
 
 
 def check_conf(conf: Any) -> float:

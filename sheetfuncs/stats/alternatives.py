@@ -47,6 +47,7 @@ from scipy import stats
 from ..errors import InputError
 from ..distributions import f_tail
 from ..input import as_groups
+from .moments import rounded
 from .group_variances import centred_group_stats, prepare_with_variances
 from .oneway import require_two_groups
 
@@ -129,7 +130,7 @@ def welch(
     for i, label in enumerate(g.labels):
         if mom.ss_group(i) == 0:
             raise _zero_variance_error(label, "Welch's test")
-        if var[i] == 0:
+        if var[i] < 1e-300 * max(var):  # (the largest is near 1) its weight would overflow
             raise InputError(
                 f'the variance of group "{label}" is more than 10^300 times smaller '
                 "than the largest, so Welch's weights cannot be formed; check the data's units"
@@ -189,7 +190,7 @@ def brown_forsythe(
             raise _all_zero_error()
         f_x = ssb / denom
         df2_x = denom * denom / sum((c * c / (n - 1) for c, n in zip(parts, ns)), Fraction(0))
-        f, df2 = float(f_x), float(df2_x)
+        f, df2 = rounded(f_x), rounded(df2_x)  # F* beyond the largest double is infinite
     else:
         # centred means and variances in a common unit (F* and df2 do not depend on it)
         dev, var = centred_group_stats(g, mom)

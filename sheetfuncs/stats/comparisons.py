@@ -40,6 +40,7 @@ statistic and ``p = 0``, and a pair with equal means has statistic 0 and ``p = 1
 from __future__ import annotations
 
 import math
+import sys
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from fractions import Fraction
@@ -52,8 +53,8 @@ from ..distributions import (
     f_critical, f_tail, many_to_one_critical, many_to_one_tails, range_critical, range_criticals,
     range_tails,
 )
-from ..input import Groups, as_groups, check_alpha, format_label, shown
-from .moments import TOO_LARGE, ExactMoments, FloatMoments, compute_moments, rounded
+from ..input import Groups, as_groups, check_alpha, check_range, format_label, shown
+from .moments import TOO_LARGE, TOO_SMALL, ExactMoments, FloatMoments, compute_moments, rounded
 from .oneway import oneway_from_moments, require_two_groups
 from .interval import Interval
 
@@ -299,15 +300,28 @@ def _check_variances(g: Groups, mom: ExactMoments | FloatMoments, method: str) -
                 'use a pooled method such as "tukey", or check the measurement resolution'
             )
         var = rounded(Fraction(ss) / (n - 1)) if mom.exact else float(ss) / (n - 1)
+        if var < sys.float_info.min:  # a variance that underflows cannot weigh its group
+            raise InputError(TOO_SMALL)
         if not math.isfinite(var):
             raise InputError(TOO_LARGE)
         out.append(var)
     return out
 
 
+#: The smallest alpha for comparisons: the studentized-range and many-to-one critical values
+#: are solved (and checked) down to it; published tables stop at 0.001.
+MIN_ALPHA = 1e-10
+
+
+def check_comparison_alpha(alpha: Any) -> float:
+    """The family-wise alpha of a comparison: a number from 1e-10 to 0.5."""
+    check_alpha(alpha)  # not a number, or outside (0, 1): the general message
+    return check_range(alpha, "alpha", MIN_ALPHA, 0.5, "0.05")
+
+
 def _prepare(g: Groups, alpha: Any) -> tuple[Groups, float, ExactMoments | FloatMoments]:
     require_two_groups(g)
-    a = check_alpha(alpha)
+    a = check_comparison_alpha(alpha)
     return g, a, compute_moments(g, None)
 
 
@@ -342,6 +356,19 @@ def pairwise(
     return _pooled_pairs(g, mom, meth, a, pairs, diffs)
 
 
+def _welch_df(vi: float, ni: int, vj: float, nj: int) -> float:
+    """Welch's df of a pair, ``(a + b)^2 / (a^2/(ni-1) + b^2/(nj-1))`` with ``a = vi/ni`` and
+    ``b = vj/nj``, from the shares ``a/(a+b)`` and ``b/(a+b)``: free of overflow and underflow
+    for variances anywhere in the double range (both are positive)."""
+    if vi >= vj:
+        t = (vj / vi) * (ni / nj)  # b / a, at most ni / nj
+        ra, rb = 1.0 / (1.0 + t), t / (1.0 + t)
+    else:
+        t = (vi / vj) * (nj / ni)  # a / b
+        ra, rb = t / (1.0 + t), 1.0 / (1.0 + t)
+    return 1.0 / (ra * ra / (ni - 1) + rb * rb / (nj - 1))
+
+
 def _games_howell(g: Groups, mom: ExactMoments | FloatMoments, a: float,
                   pairs: list[tuple[int, int]], diffs: list[float]) -> PairwiseResult:
     """Every pair by Games & Howell's method: each pair's own variances and Welch df."""
@@ -350,11 +377,8 @@ def _games_howell(g: Groups, mom: ExactMoments | FloatMoments, a: float,
     var = _check_variances(g, mom, "Games–Howell")
     ses, row_df, stat = [], [], []
     for (i, j), d in zip(pairs, diffs):
-        va, vb = var[i] / counts[i], var[j] / counts[j]
-        ses.append(math.sqrt(va + vb))
-        row_df.append(
-            (va + vb) ** 2 / (va * va / (counts[i] - 1) + vb * vb / (counts[j] - 1))
-        )
+        ses.append(math.hypot(math.sqrt(var[i] / counts[i]), math.sqrt(var[j] / counts[j])))
+        row_df.append(_welch_df(var[i], counts[i], var[j], counts[j]))
         stat.append(abs(_ratio(d, ses[-1])) * _SQRT2)
     # one call each: the tails of all pairs, and one critical value per distinct Welch df
     ps = range_tails(stat, k, row_df).tolist()
@@ -480,7 +504,7 @@ def dunnett(
             f'the control "{lab}" is not one of the groups ({shown}); give the '
             "control's label exactly as it appears"
         )
-    a = check_alpha(alpha)
+    a = check_comparison_alpha(alpha)
     mom = compute_moments(g, None)
     c = g.labels.index(lab)
     msw, df, msw_x = _pooled(g, mom)

@@ -257,7 +257,7 @@ def _scaled_weights(w: list[float]) -> tuple[list[float], int]:
         raise InputError("all contrast weights are zero; give weights such as 1, -1, 0")
     if abs(total) > 1e-12 * abs_sum:
         raise InputError(
-            f"contrast weights must sum to zero, but they sum to {math.fsum(w):.6g}; "
+            f"contrast weights must sum to zero, but they sum to {_scale_back(total, e):.6g}; "
             "adjust them (e.g. 1, -0.5, -0.5)"
         )
     return ws, e

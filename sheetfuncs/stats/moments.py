@@ -40,7 +40,7 @@ from ..input import Groups
 
 __all__ = [
     "ExactMoments", "FloatMoments", "compute_moments", "decimal_parts", "check_ss_range",
-    "check_float_zero_spread",
+    "check_float_zero_spread", "scaled", "unit_fsum",
 ]
 
 _CHUNK = 32768
@@ -126,6 +126,14 @@ class FloatMoments:
     (a double near the data), accurate to the last bits even when the data share many leading
     digits, so that differences between means (and the between-group sum of squares) keep
     their accuracy where ``mean_[i] - mean_[j]`` would cancel.
+
+    The moments are computed on the data scaled by ``2**-exp2`` (an exact scaling, chosen from
+    the largest magnitude so that no square can overflow or underflow), and ``unit_dev`` and
+    ``unit_m2`` keep the deviations and sums of squares in that unit: the sums of squares
+    (:meth:`ss_within_parts`, :meth:`ss_between`) are formed there and scaled back once, so
+    they are accurate whenever the result is a double, and ``inf`` (or 0) only when the result
+    itself is beyond the double range. ``m2`` and ``dev`` are the same quantities in the data's
+    unit (``inf`` where they overflow).
     """
 
     n: tuple[int, ...]
@@ -133,6 +141,9 @@ class FloatMoments:
     m2: tuple[float, ...]
     shift: float = 0.0
     dev: tuple[float, ...] | None = None
+    exp2: int = 0
+    unit_dev: tuple[float, ...] | None = None
+    unit_m2: tuple[float, ...] | None = None
 
     exact = False
 
@@ -142,6 +153,12 @@ class FloatMoments:
     def mean(self, g: int) -> float:
         return self.mean_[g]
 
+    def _unit(self) -> tuple[tuple[float, ...], tuple[float, ...], int]:
+        """Deviations and sums of squares in the unit ``2**exp2``, and ``exp2``."""
+        if self.unit_dev is not None and self.unit_m2 is not None:
+            return self.unit_dev, self.unit_m2, self.exp2
+        return self.deviations(), self.m2, 0
+
     def deviations(self) -> tuple[float, ...]:
         """Group means minus :attr:`shift`, accurate (see the class docstring)."""
         if self.dev is not None:
@@ -149,23 +166,51 @@ class FloatMoments:
         return tuple(m - self.shift for m in self.mean_)
 
     def mean_differences(self, ref: int = 0) -> tuple[float, ...]:
-        """``mean(g) - mean(ref)`` for every group, without cancellation."""
-        d = self.deviations()
-        return tuple(x - d[ref] for x in d)
+        """``mean(g) - mean(ref)`` for every group, without cancellation (``+-inf`` beyond
+        the double range)."""
+        d, _, e = self._unit()
+        return tuple(scaled(x - d[ref], e) for x in d)
 
     def ss_within_parts(self, parts: Sequence[Sequence[int]]) -> float:
         """Sum of squares about the part means, the groups of each part sharing one mean."""
-        d = self.deviations()
+        d, m2, e = self._unit()
         total = 0.0
         for p in parts:
             n = sum(self.n[g] for g in p)
             m = math.fsum(self.n[g] * d[g] for g in p) / n
-            terms = [self.m2[g] for g in p] + [self.n[g] * ((d[g] - m) * (d[g] - m)) for g in p]
-            total += math.fsum(terms) if all(map(math.isfinite, terms)) else math.inf
-        return total
+            terms = [m2[g] for g in p] + [self.n[g] * ((d[g] - m) * (d[g] - m)) for g in p]
+            total += unit_fsum(terms)
+        return scaled(total, 2 * e)
+
+    def ss_between(self) -> float:
+        """The between-group sum of squares ``sum n_i (mean_i - grand mean)**2``."""
+        d, _, e = self._unit()
+        n = sum(self.n)
+        grand = math.fsum(c * m for c, m in zip(self.n, d)) / n
+        return scaled(unit_fsum([c * ((m - grand) * (m - grand)) for c, m in zip(self.n, d)]), 2 * e)
 
     def ss_group(self, g: int) -> float:
         return self.m2[g]
+
+
+def scaled(x: float, e: int) -> float:
+    """``x * 2**e``, exact unless it leaves the double range: ``+-inf`` above, rounded below."""
+    if not math.isfinite(x):
+        return x
+    try:
+        return math.ldexp(x, e)
+    except OverflowError:
+        return math.inf if x > 0 else -math.inf
+
+
+def unit_fsum(terms: Sequence[float]) -> float:
+    """``math.fsum`` of terms, ``inf`` when a term or the sum is beyond the double range."""
+    if not all(map(math.isfinite, terms)):
+        return math.inf
+    try:
+        return math.fsum(terms)
+    except OverflowError:
+        return math.inf
 
 
 # --------------------------------------------------------------------------------------------
@@ -237,14 +282,36 @@ def _shifted_sums(a: np.ndarray, c: float, buf: np.ndarray) -> tuple[float, floa
     return math.fsum(s1), math.fsum(s2)
 
 
+#: Data whose largest magnitude lies within ``2**-_SAFE_EXP2 .. 2**_SAFE_EXP2`` are summed as
+#: they are: no square (of up to 2**40 values) can overflow, nor a difference of two distinct
+#: values square to below the normal range.
+_SAFE_EXP2 = 300
+
+
 def _float_moments(arrays: Sequence[np.ndarray]) -> FloatMoments:
-    """Floating-point moments (see :func:`_float_moments_impl`); overflow shows as inf in the
-    moments, and the analyses turn it into a message (:func:`check_ss_range`)."""
-    with np.errstate(over="ignore", invalid="ignore"):
-        return _float_moments_impl(arrays)
+    """Floating-point moments (see :func:`_float_moments_impl`), overflow-safe.
+
+    When the largest magnitude is beyond ``2**+-300`` the data are first scaled by a power of
+    two (exact, apart from values that become subnormal, which are then below the result's
+    precision), so that values up to 1.8e308 and down to the subnormals are summed without
+    overflow or underflow; the moments keep that unit (:class:`FloatMoments`).
+    """
+    top = max((max(float(a.max()), -float(a.min())) for a in arrays if a.size), default=0.0)
+    e = 0
+    if top > 0 and math.isfinite(top) and not 2.0**-_SAFE_EXP2 < top < 2.0**_SAFE_EXP2:
+        e = math.frexp(top)[1]
+        arrays = [np.ldexp(a, -e) for a in arrays]
+    with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+        ns, means, m2s, shift, devs = _float_moments_impl(arrays)
+    return FloatMoments(
+        ns, tuple(scaled(m, e) for m in means), tuple(scaled(m, 2 * e) for m in m2s),
+        scaled(shift, e), tuple(scaled(d, e) for d in devs), e, devs, m2s,
+    )
 
 
-def _float_moments_impl(arrays: Sequence[np.ndarray]) -> FloatMoments:
+def _float_moments_impl(
+    arrays: Sequence[np.ndarray],
+) -> tuple[tuple[int, ...], tuple[float, ...], tuple[float, ...], float, tuple[float, ...]]:
     """Per group, the corrected sums about a shift ``t`` near the mean (Chan, Golub & LeVeque 1983):
     ``e = x - t``, mean ``= t + sum(e)/n``, ``M2 = sum(e^2) - sum(e)^2/n``.
 
@@ -275,7 +342,7 @@ def _float_moments_impl(arrays: Sequence[np.ndarray]) -> FloatMoments:
         means.append(t + s1 / n)
         devs.append((t - shift) + s1 / n)
         m2s.append(max(m2, 0.0))
-    return FloatMoments(tuple(ns), tuple(means), tuple(m2s), float(shift or 0.0), tuple(devs))
+    return tuple(ns), tuple(means), tuple(m2s), float(shift or 0.0), tuple(devs)
 
 
 class _NotExact(Exception):

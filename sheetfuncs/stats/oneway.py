@@ -158,12 +158,8 @@ def oneway_from_moments(g: Groups, mom: ExactMoments | FloatMoments) -> OneWayRe
         means = tuple(float(m) for m in mom.means())
     else:
         means = mom.means()
-        dev = mom.deviations()  # means minus a common shift, without cancellation
-        n = sum(mom.n)
         check_ss_range(ssw)
-        grand = math.fsum(c * m for c, m in zip(mom.n, dev)) / n
-        terms = [c * ((m - grand) * (m - grand)) for c, m in zip(mom.n, dev)]
-        ssb = math.fsum(terms) if all(map(math.isfinite, terms)) else math.inf
+        ssb = mom.ss_between()  # from the means minus a common shift, without cancellation
         sst = ssb + ssw
         check_ss_range(sst)
         check_float_zero_spread(g, sst, within=False)

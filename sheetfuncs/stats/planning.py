@@ -31,9 +31,10 @@ from scipy import optimize
 
 from ..errors import InputError
 from ..distributions import f_critical, ncf_sf
-from ..input import check_alpha, check_number, check_probability, shown
+from ..input import check_alpha, check_number, check_probability, check_whole, shown
 
 __all__ = [
+    "MAX_GROUPS",
     "power",
     "sample_size",
     "detectable_effect",
@@ -42,28 +43,23 @@ __all__ = [
 ]
 
 #: The largest group size :func:`sample_size` searches (beyond it the plan is not practical).
-MAX_PER_GROUP = 10**12
+MAX_PER_GROUP = 10**11  # with k <= MAX_GROUPS, df2 stays within the F tail's direct range (1e15)
 
 
 # --------------------------------------------------------------------------------------------
 # argument checks
 
 
-def _whole(value: Any, name: str, minimum: int) -> int:
-    v = check_number(value, name)
-    if v != math.floor(v) or v < minimum:
-        raise InputError(
-            f"{name} must be a whole number of at least {minimum}, not {shown(value)}"
-        )
-    return int(v)
+#: The most groups a plan takes (a real study has far fewer; the noncentral F is checked up to it).
+MAX_GROUPS = 10_000
 
 
 def _groups_arg(k: Any) -> int:
-    return _whole(k, "k (the number of groups)", 2)
+    return check_whole(k, "k (the number of groups)", 2, MAX_GROUPS)
 
 
 def _n_arg(n: Any) -> int:
-    return _whole(n, "n (values per group)", 2)
+    return check_whole(n, "n (values per group)", 2, MAX_PER_GROUP)
 
 
 def _f_arg(cohens_f: Any) -> float:

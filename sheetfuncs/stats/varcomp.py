@@ -37,13 +37,14 @@ import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 from fractions import Fraction
+from collections.abc import Callable
 from typing import Any, ClassVar
 
 from scipy import stats
 
 from ..distributions import f_critical
 from ..input import as_groups, check_conf
-from .moments import compute_moments
+from .moments import compute_moments, scaled
 from .oneway import oneway_from_moments, require_two_groups
 from .interval import Interval
 
@@ -201,6 +202,21 @@ def _total_mls(s1: float, s2: float, n1: int, n2: int, n0: float, a: float) -> I
     return Interval(max(low, 0.0), high)
 
 
+def _unit_free(
+    interval: Callable[[float, float, int, int, float, float], Interval],
+    s1: float, s2: float, n1: int, n2: int, n0: float, a: float,
+) -> Interval:
+    """An MLS ``interval`` computed on the mean squares divided by the larger of them (the
+    intervals scale with the mean squares), so that their squares cannot overflow for values
+    near the top of the double range; the ends are scaled back (``+inf`` beyond it)."""
+    u = max(s1, s2)
+    if u == 0 or not math.isfinite(u):
+        return interval(s1, s2, n1, n2, n0, a)
+    e = math.frexp(u)[1]
+    iv = interval(math.ldexp(s1, -e), math.ldexp(s2, -e), n1, n2, n0, a)
+    return Interval(scaled(iv.low, e), scaled(iv.high, e))
+
+
 def _icc_interval(f: float, n1: int, n2: int, n0: float, a: float) -> Interval:
     """Searle (1971) F-based interval for s_b^2 / (s_b^2 + s_w^2)."""
     if math.isinf(f):
@@ -249,7 +265,8 @@ def variance_components(
     return VarianceComponents(
         within=s2, between=float(between_x), total=float(total_x), icc=icc, n0=n0,
         within_ci=Interval(n2 * s2 / float(stats.chi2.isf(a, n2)), n2 * s2 / float(stats.chi2.ppf(a, n2))),
-        between_ci=_between_mls(s1, s2, n1, n2, n0, a), total_ci=_total_mls(s1, s2, n1, n2, n0, a),
+        between_ci=_unit_free(_between_mls, s1, s2, n1, n2, n0, a),
+        total_ci=_unit_free(_total_mls, s1, s2, n1, n2, n0, a),
         icc_ci=_icc_interval(res.f, n1, n2, n0, a), conf=cf, method=METHOD,
         notes=tuple(_notes(float(between_raw_x), balanced, n0, s2, n1, k)),
         between_raw=float(between_raw_x), ms_between=s1, ms_within=s2, df_between=n1,

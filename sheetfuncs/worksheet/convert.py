@@ -6,8 +6,8 @@ trimmed); a per-group range (pooling labels, contrast weights, the columns of gr
 checked for error cells (:func:`check_range_errors`) and read as one flat list
 (:func:`per_group_column`).
 
-Out: one value as a cell holds it (:func:`to_cell`: infinity as the largest double, NaN and
-``None`` as blank), a table as a rectangle of cells (:func:`shape_result`), and an input
+Out: one value as a cell holds it (:func:`to_cell`: infinity as the largest double, ``None``
+as blank, NaN a bug), a table as a rectangle of cells (:func:`shape_result`), and an input
 problem as the one line of text the cell shows (:func:`cell_message`).
 
 The rules are the worksheet-function conventions of the project guide. An argument is known
@@ -38,6 +38,8 @@ __all__ = [
     "to_cell",
     "shape_result",
     "cell_message",
+    "bug_message",
+    "NotANumber",
 ]
 
 #: The largest double: what a cell shows for an infinite result (the host cannot hold infinity).
@@ -145,9 +147,15 @@ def per_group_column(cells: Any, arg: ArgSpec) -> list[Any] | None:
 # shaping out
 
 
+class NotANumber(ArithmeticError):
+    """A result that promises a number came out as NaN: a bug to report, never a blank cell."""
+
+
 def to_cell(value: Any) -> Any:
-    """One result value as a cell holds it: numbers as float, inf as the largest double, NaN and
-    ``None`` as blank (``None``), text and logicals as they are."""
+    """One result value as a cell holds it: numbers as float, inf as the largest double,
+    ``None`` (a cell the result leaves empty on purpose) as blank, text and logicals as they
+    are. NaN raises :class:`NotANumber`: a number the core could not form is never shown as a
+    blank."""
     if value is None or isinstance(value, str):
         return value
     if isinstance(value, (bool, np.bool_)):
@@ -155,7 +163,7 @@ def to_cell(value: Any) -> Any:
     if isinstance(value, (numbers.Real, decimal.Decimal)):
         v = float(value)
         if math.isnan(v):
-            return None
+            raise NotANumber("a result came out as NaN")
         if math.isinf(v):
             return MAX_DOUBLE if v > 0 else -MAX_DOUBLE
         return v
@@ -175,3 +183,11 @@ def cell_message(err: InputError) -> str:
     """An input problem as the one line of text the cell shows."""
     text = message(err.reason)
     return text if len(text) <= _MESSAGE_MAX else text[: _MESSAGE_MAX - 1] + "…"
+
+
+def bug_message(name: str, err: BaseException) -> str:
+    """The one line a cell shows for an unforeseen error in worksheet function ``name``:
+    ``sheetfuncs: SF_PAIRS could not compute this (OverflowError); please report it with the
+    cell values``."""
+    kind = "a result that is not a number" if isinstance(err, NotANumber) else type(err).__name__
+    return message(f"{name} could not compute this ({kind}); please report it with the cell values")

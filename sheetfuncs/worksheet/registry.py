@@ -30,9 +30,13 @@ conversion itself is :mod:`sheetfuncs.worksheet.convert`):
 * options arrive as cell values: text (``layout``, ``factor_name``), a logical or the text
   ``"auto"`` (``labels``), numbers (``conf``, ``alpha``, degrees of freedom);
 * tables come back as rows (header row first); scalars as plain numbers; infinity as the largest
-  double, 1.7976931348623157E+308, so that comparisons still work; NaN and ``None`` as blank cells;
+  double, 1.7976931348623157E+308, so that comparisons still work; ``None`` as a blank cell;
 * an :class:`~sheetfuncs.errors.InputError` comes back as its one line of text
-  (``sheetfuncs: ...``) in the cell; only a bug surfaces as a traceback.
+  (``sheetfuncs: ...``) in the cell;
+* the last guard: any other exception, and a NaN where a number is promised (never shown as a
+  blank), comes back as one line that names the function and asks for a report
+  (``sheetfuncs: SF_PAIRS could not compute this (OverflowError); please report it with the
+  cell values``); no traceback ever reaches the cell.
 
 Adding a function
 -----------------
@@ -72,7 +76,7 @@ import xlwings as xw
 
 from ..errors import InputError
 from ..input import format_label
-from .convert import cell_message, normalise, shape_result
+from .convert import bug_message, cell_message, normalise, shape_result
 
 __all__ = [
     "CATEGORY", "KINDS", "RESULTS", "DIALOG_LIMIT", "REQUIRED", "MISSING",
@@ -291,6 +295,8 @@ def worksheet_function(
                 return shape_result(inner(*given), result)
             except InputError as err:
                 return cell_message(err)
+            except Exception as err:  # the last guard: one line in the cell, never a traceback
+                return bug_message(inner.__name__, err)
 
         cell_function.__doc__ = description
         record = Function(

@@ -4,8 +4,10 @@ stderr with exit code 1, the console script and ``python -m sheetfuncs`` run ``m
 from __future__ import annotations
 
 import os
+import signal
 import subprocess
 import sys
+import time
 import tomllib
 from importlib import import_module
 from pathlib import Path
@@ -122,3 +124,70 @@ def test_python_dash_m_sheetfuncs(tmp_path):
     assert bad.stderr.count("\n") == 1 and "Traceback" not in bad.stderr
     usage = _py(cwd=tmp_path)
     assert usage.returncode == 2 and "usage: sheetfuncs" in usage.stderr
+
+
+# --------------------------------------------------------------------------------------------
+# the last guard and Ctrl-C (issue 10)
+
+
+def _broken(args):
+    raise OverflowError("intermediate overflow in fsum")
+
+
+def test_an_unforeseen_error_is_one_line_asking_for_a_report(capsys, monkeypatch):
+    monkeypatch.delenv("SHEETFUNCS_DEBUG", raising=False)
+    monkeypatch.setattr(commands, "COMMANDS", {**COMMANDS, "plan": _broken})
+    code, out, err = run(["plan", "--groups", "3", "--effect", "0.25"], capsys)
+    assert code == commands.EXIT_BUG == 3 and out == ""
+    assert err == (
+        "sheetfuncs: plan stopped on an unexpected error (OverflowError); please report it as a "
+        "bug with the command line and the input file (set SHEETFUNCS_DEBUG=1 to see the details)\n"
+    )
+
+
+def test_sheetfuncs_debug_shows_the_traceback(capsys, monkeypatch):
+    monkeypatch.setenv("SHEETFUNCS_DEBUG", "1")
+    monkeypatch.setattr(commands, "COMMANDS", {**COMMANDS, "plan": _broken})
+    code, _, err = run(["plan", "--groups", "3", "--effect", "0.25"], capsys)
+    assert code == 3
+    assert err.startswith("Traceback (most recent call last):")
+    assert "OverflowError: intermediate overflow in fsum" in err
+    assert err.splitlines()[-1].startswith("sheetfuncs: plan stopped on an unexpected error")
+
+
+def test_an_interrupt_in_process_is_one_line(capsys, monkeypatch):
+    def interrupted(args):
+        raise KeyboardInterrupt
+
+    monkeypatch.setattr(commands, "COMMANDS", {**COMMANDS, "plan": interrupted})
+    hook = sys.unraisablehook
+    code, out, err = run(["plan", "--groups", "3", "--effect", "0.25"], capsys)
+    assert (code, out, err) == (130, "", "sheetfuncs: interrupted\n")
+    assert sys.unraisablehook is hook  # the hook silenced during the clean-up is restored
+
+
+def test_ctrl_c_during_a_report_prints_one_line_and_leaves_no_file(tmp_path):
+    # 200,000 invented values (4 columns), long enough to interrupt while the report is written
+    src = tmp_path / "big.csv"
+    with open(src, "w", encoding="utf-8") as fh:
+        fh.write("A,B,C,D\n")
+        for i in range(50_000):
+            fh.write(f"{10 + i % 7 * 0.1:.1f},{11 + i % 5 * 0.1:.1f},{9 + i % 3 * 0.1:.1f},{10.5 + i % 11 * 0.01:.2f}\n")
+    out_dir = tmp_path / "out"
+    out_dir.mkdir()
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "sheetfuncs", "report", str(src), "-o", str(out_dir / "r.xlsx")],
+        cwd=tmp_path, env=env, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+    )
+    # wait until the writer has started (its temporary file appears), then about a second more
+    deadline = time.monotonic() + 120
+    while not any(out_dir.iterdir()) and proc.poll() is None and time.monotonic() < deadline:
+        time.sleep(0.05)
+    time.sleep(1.0)
+    assert proc.poll() is None, "the report finished before it could be interrupted"
+    proc.send_signal(signal.SIGINT)
+    out, err = proc.communicate(timeout=120)
+    assert proc.returncode == 130
+    assert err.splitlines() == ["sheetfuncs: interrupted"], err[:2000]
+    assert list(out_dir.iterdir()) == []  # no report, no temporary file

@@ -47,3 +47,33 @@ def test_one_line_reads_a_row_or_a_column():
     assert one_line([1, 2], "weights") == [1, 2] and one_line(5, "weights") == [5]
     with pytest.raises(InputError, match="weights fill a block of 2 rows and 2 columns"):
         one_line([[1, 2], [3, 4]], "weights")
+
+
+# --------------------------------------------------------------------------------------------
+# short forms and ranges (issue 10)
+
+
+def test_shown_keeps_huge_numbers_and_long_text_short():
+    from sheetfuncs.input import shown
+    assert shown(19 * 10**309) == "1.9e+310"  # was all 311 digits
+    assert shown(10**15) == "1000000000000000"
+    assert shown(1e308) == "1e+308"
+    assert shown("a" * 300) == '"' + "a" * 59 + '…"'
+    assert shown("two\nlines") == '"two lines"'
+
+
+def test_check_whole_and_check_range_name_the_argument_and_the_range():
+    from sheetfuncs.input import check_range, check_whole
+    assert check_whole(12.0, "k (the number of groups)", 2, 10_000) == 12
+    for bad, text in ((1e308, "1e+308"), (1.5, "1.5"), (1, "1"), (10_001, "10001")):
+        with pytest.raises(InputError) as info:
+            check_whole(bad, "k (the number of groups)", 2, 10_000)
+        assert info.value.reason == (
+            f"k (the number of groups) must be a whole number from 2 to 10,000, not {text}"
+        )
+    with pytest.raises(InputError, match="k must be a number, not TRUE"):
+        check_whole(True, "k", 2, 10)
+    assert check_range(0.05, "alpha", 1e-10, 0.5, "0.05") == 0.05
+    with pytest.raises(InputError) as info:
+        check_range(5e-324, "alpha", 1e-10, 0.5, "0.05")
+    assert info.value.reason == "alpha must be a number from 1e-10 to 0.5 (e.g. 0.05), not 5e-324"

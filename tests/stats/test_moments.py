@@ -247,3 +247,66 @@ def test_sums_of_squares_beyond_the_double_range_are_rejected(exact):
         sf.oneway([[1e200, 2e200, 3e200], [5e200, 7e200]], exact=exact)
     with pytest.raises(InputError, match="^sheetfuncs: the values differ by too little for double-precision"):
         sf.oneway([[1e-300, 2e-300, 3e-300], [5e-300, 6e-300]], exact=exact)
+
+
+# --------------------------------------------------------------------------------------------
+# overflow-safe float moments (issue 10): the data are summed in a power-of-two unit
+
+
+def _fraction_ss(groups: list[list[float]]) -> tuple[Fraction, Fraction]:
+    """Reference: exact rational arithmetic (fractions): within and total sums of squares."""
+    fr = [[Fraction(x) for x in g] for g in groups]
+    within = sum((sum((x - sum(g) / len(g)) ** 2 for x in g) for g in fr), Fraction(0))
+    every = [x for g in fr for x in g]
+    grand = sum(every) / len(every)
+    return within, sum(((x - grand) ** 2 for x in every), Fraction(0))
+
+
+def _as_groups(groups: list[list[float]]) -> sf.Groups:
+    return as_groups({f"G{i}": g for i, g in enumerate(groups)})
+
+
+@pytest.mark.parametrize("scale", [1e-300, 1e-160, 1e100, 1e140, 1e150])
+@pytest.mark.parametrize("exact", [False, None])
+def test_sums_of_squares_at_extreme_scales_match_fractions(scale, exact):
+    # 17-digit values force the float path when exact is None; the SS stay below 1e300
+    base = [[0.30000000000000004, 1.25, 2.5], [3.75, 0.1 + 0.7, 4.0], [2.0, 2.125, 1 / 3]]
+    groups = [[x * scale for x in g] for g in base]
+    mom = compute_moments(_as_groups(groups), exact)
+    within, total = _fraction_ss(groups)
+    if float(total) < 1e-290:
+        return  # below the double range of a sum of squares: the analyses say so
+    assert mom.ss_within_parts([[0], [1], [2]]) == pytest.approx(float(within), rel=1e-14)
+    assert mom.ss_within_parts([[0, 1, 2]]) == pytest.approx(float(total), rel=1e-14)
+
+
+@pytest.mark.parametrize("groups", [
+    [[1e154, -1.2e154, 0.30000000000000004], [1.1e154, -0.9e154, 0.5e154]],
+    [[1e200, 2e200, 3.0000000000000004e200], [-1e200, 0.0, 1e200]],
+    [[1e300, -1e300, 0.30000000000000004], [1.7e308, -1.7e308, 1e308]],
+    [[-1e308, 1e308, 1.7976931348623157e308], [-1.7976931348623157e308, 5e-324, 1.0]],
+])
+def test_sums_of_squares_beyond_the_double_range_are_inf_not_an_error(groups):
+    # reference: exact rational arithmetic (fractions): the SS exceed the largest double
+    mom = compute_moments(_as_groups(groups), False)
+    within, total = _fraction_ss(groups)
+    assert total > Fraction(1e300)
+    ssw, sst = mom.ss_within_parts([[0], [1]]), mom.ss_within_parts([[0, 1]])
+    for got, ref in ((ssw, within), (sst, total)):
+        if ref >= Fraction(1.7976931348623157e308):
+            assert got == math.inf
+        else:
+            assert got == pytest.approx(float(ref), rel=1e-13)
+    assert all(math.isfinite(m) for m in mom.means())
+
+
+def test_subnormal_values_are_summed_in_a_normal_unit():
+    # reference: exact rational arithmetic (fractions); the SS itself underflows to 0, the
+    # analyses then say the values differ by too little (check_float_zero_spread)
+    groups = [[5e-324, 1e-323, 1.5e-323], [2e-323, 2.5e-323, 3.0000000000000004e-310]]
+    mom = compute_moments(_as_groups(groups), False)
+    assert mom.exp2 < -1000
+    within, _ = _fraction_ss(groups)
+    unit = mom.ss_within_parts([[0], [1]])
+    assert unit == float(within) == 0.0 or unit == pytest.approx(float(within), rel=1e-13)
+    assert mom.means()[0] == 1e-323  # the mean of 1, 2 and 3 times the smallest subnormal

@@ -18,7 +18,7 @@ import pytest
 from sheetfuncs.errors import InputError
 from sheetfuncs.udfs import SF_TABLE
 from sheetfuncs.worksheet.convert import (
-    MAX_DOUBLE, cell_message, check_range_errors, normalise, per_group_column, shape_result,
+    MAX_DOUBLE, NotANumber, cell_message, check_range_errors, normalise, per_group_column, shape_result,
     to_cell,
 )
 from sheetfuncs.worksheet.registry import Arg
@@ -108,10 +108,13 @@ def test_per_group_column() -> None:
 
 
 def test_to_cell() -> None:
-    # GUIDE.md: infinity as the largest double, NaN and None as blank, numbers as plain floats
+    # GUIDE.md: infinity as the largest double, None as blank, numbers as plain floats; a NaN
+    # is a number the core failed to form, never a blank (issue 10)
     assert to_cell(math.inf) == MAX_DOUBLE == 1.7976931348623157e308
     assert to_cell(-math.inf) == -MAX_DOUBLE
-    assert to_cell(math.nan) is None and to_cell(None) is None
+    assert to_cell(None) is None
+    with pytest.raises(NotANumber):
+        to_cell(math.nan)
     assert type(to_cell(np.float64(2.5))) is float and to_cell(np.int64(3)) == 3.0
     assert type(to_cell(7)) is float
     assert to_cell(True) is True and to_cell(np.bool_(False)) is False
@@ -123,9 +126,11 @@ def test_to_cell() -> None:
 
 def test_shape_result() -> None:
     assert shape_result(math.inf, "scalar") == MAX_DOUBLE
-    assert shape_result([("Source", "df"), ("Factor", 2, math.nan)], "table") == [
+    assert shape_result([("Source", "df"), ("Factor", 2, None)], "table") == [
         ["Source", "df", None], ["Factor", 2.0, None],
     ]
+    with pytest.raises(NotANumber):
+        shape_result([("Source", "df"), ("Factor", math.nan)], "table")
 
 
 def test_tables_come_back_rectangular_with_blanks() -> None:

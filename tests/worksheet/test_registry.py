@@ -101,8 +101,11 @@ def test_input_error_becomes_one_line_and_bugs_do_not() -> None:
         return Fraction(1, 3) if x > 0 else object()
 
     assert SF_BROKEN(1.0) == 1 / 3
-    with pytest.raises(TypeError):
-        SF_BROKEN(-1.0)  # a bug surfaces as a traceback, not as a message
+    # a bug becomes the last guard's one line, naming the function and asking for a report
+    assert SF_BROKEN(-1.0) == (
+        "sheetfuncs: SF_BROKEN could not compute this (TypeError); please report it with the "
+        "cell values"
+    )
 
 
 def test_decorator_checks_the_wrapper_against_its_record() -> None:

@@ -98,7 +98,12 @@ SF_SSB, SF_SSW, SF_SST, SF_DFB, SF_DFW, SF_DFT, SF_MSB, SF_MSW, SF_F, SF_P, SF_R
     example=ON_SHEET_EXAMPLE,
 )
 def SF_GROUPS(data: Any, layout: Any = None, labels: Any = None, conf: Any = None) -> Any:
-    return describe(groups_from_range(data, layout, labels), conf).table()
+    res = describe(groups_from_range(data, layout, labels), conf)
+    # a one-value group has no SD, SE or interval: blank on purpose (a NaN would be a bug)
+    return [list(res.HEADER)] + [
+        row if s.n > 1 else row[:3] + [None] * 4 + row[7:]
+        for s, row in zip(res.groups, res.table()[1:])
+    ]
 
 
 _COUNTS = Arg(
