@@ -17,7 +17,7 @@ from openpyxl import Workbook
 from openpyxl.workbook.defined_name import DefinedName
 
 from ..errors import InputError
-from ..input import InputSource, Reading, as_groups, same_file
+from ..input import InputSource, LoadedGroups, Reading, as_groups, same_file
 from .context import ReportContext, prepare
 from .findings import findings
 from .grid import safe_text
@@ -147,7 +147,8 @@ def write_report(
     """Write the formatted result workbook of a one-way analysis to ``path`` (an ``.xlsx``).
 
     ``groups`` is anything :func:`sheetfuncs.as_groups` accepts (readers pass the
-    :class:`~sheetfuncs.Groups` from :func:`~sheetfuncs.groups_from_range`); ``alpha`` the
+    :class:`~sheetfuncs.Groups` from :func:`~sheetfuncs.groups_from_range`), or what
+    :func:`sheetfuncs.read_groups` returns (its ``source`` and ``reading`` come with it); ``alpha`` the
     significance level (intervals are at ``1 - alpha``); ``method`` the pairwise method;
     ``control`` a group label for Dunnett's comparisons with a control; ``factor``,
     ``response``, ``unit`` and ``title`` name things in the report; ``source`` an
@@ -163,6 +164,10 @@ def write_report(
     the input file (``source.path``) is never overwritten. Returns the path written. Raises
     :class:`~sheetfuncs.InputError` with a one-line message for bad input or options.
     """
+    if isinstance(groups, LoadedGroups):  # what read_groups returned: its source and reading too
+        source = groups.source if source is None else source
+        reading = groups.reading if reading is None else reading
+        groups = groups.groups
     source = _check_source(source)
     target = _check_target(path, force, source)
     groups = _check_group_count(as_groups(groups), max_groups)
@@ -172,9 +177,16 @@ def write_report(
                  response=response, unit=unit, title=title, reading=reading)
     if progress is not None:
         progress("analysis", 1, 1)
+    _write_workbook(an, target, source=source, progress=progress, row_limit=_row_limit, force=force)
+    return target
+
+
+def _write_workbook(an: ReportContext, target: Path, *, source: InputSource | None,
+                    progress: Progress | None, row_limit: int, force: bool) -> None:
+    """Build the workbook and put it at ``target`` through a temporary file."""
     tmp = _temp_file(target)
     try:
-        wb = build_workbook(an, source=source, progress=progress, row_limit=_row_limit)
+        wb = build_workbook(an, source=source, progress=progress, row_limit=row_limit)
         if progress is not None:
             progress("saving", 0, 1)
         _save(wb, tmp, target, force)
@@ -186,7 +198,6 @@ def write_report(
         raise
     if progress is not None:
         progress("saving", 1, 1)
-    return target
 
 
 def _temp_file(target: Path) -> Path:

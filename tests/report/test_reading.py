@@ -67,3 +67,11 @@ def test_report_of_a_file_logs_every_left_out_cell_and_counts_the_account(tmp_pa
 def test_reading_must_be_a_reading(tmp_path):
     with pytest.raises(InputError, match="reading must be a sheetfuncs.input.Reading or None, not dict"):
         prepare(CLEAR, reading={"block": "A1:B2"})
+
+
+def test_write_report_takes_what_read_groups_returned(tmp_path):
+    rows = [["A", "B"], [1.2, 2.0], ["n/a", 2.5], [1.5, 2.4], [1.1, 2.2]]
+    loaded = read_groups(write_csv(tmp_path / "lab.csv", rows), cell_range="A1:B5")
+    wb = openpyxl.load_workbook(write_in(tmp_path, loaded))
+    assert wb["Data"]["F2"].value == "A3"  # the reading's log, with the cell's address
+    assert "Read A1:B5 of lab.csv (the range given)" in cells_text(wb["Findings"])
