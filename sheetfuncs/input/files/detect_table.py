@@ -63,8 +63,9 @@ def _wide(rows: Rows, cells: SheetCells, labels: str) -> Table:
         raise _no_data(rows, cells)
     r0, last = data[0], data[-1]
     above = r0 - 1 if r0 - 1 in rows.runs else None
-    units = above if above is not None and is_unit_row(rows.values(above)) else None
-    h = (units - 1 if units - 1 in rows.runs else None) if units is not None else above
+    units = above if above is not None and above - 1 in rows.runs and is_unit_row(rows.values(above)) and any(
+        is_label(v) for v in rows.values(above - 1)) else None
+    h = units - 1 if units is not None else above
     header, data = _lot_header(rows, cells, labels, h, r0, data, acc)
     head = header if header is not None else h
     value_cols = _sort_columns(rows, column_stats(rows, data, head), head, len(data), acc, cells)
@@ -97,6 +98,16 @@ def _lot_header(rows: Rows, cells: SheetCells, labels: str, h: int | None, r0: i
     return r0, data[1:]
 
 
+def _numbered(stats: dict[int, Any], c: int, n_data: int) -> bool:
+    """Whether column ``c`` numbers the rows: the first column, a run of consecutive whole
+    numbers (step 1) in every one of at least 3 data rows, with another column of numbers."""
+    st = stats[c]
+    return (
+        c == min(stats) and st.consecutive and st.numbers == n_data >= 3 and st.numbers_only
+        and sum(1 for s in stats.values() if s.numbers) >= 2
+    )
+
+
 def _sort_columns(rows: Rows, stats: dict[int, Any], head: int | None, n_data: int, acc: Account,
                   cells: SheetCells) -> list[int]:
     """The value columns; identifier, label, date and summary columns go to ``acc``."""
@@ -105,7 +116,7 @@ def _sort_columns(rows: Rows, stats: dict[int, Any], head: int | None, n_data: i
     for c, st in sorted(stats.items()):
         title = rows.value(head, c) if head is not None else None
         name = format_label(title) if is_label(title) else None
-        if is_identifier_header(title) or (st.consecutive and st.numbers == n_data >= 3 and st.numbers_only):
+        if is_identifier_header(title) or _numbered(stats, c, n_data):
             acc.column(c, f"identifier column ({name})" if name else "identifier column", "identifier")
         elif summary_word(title) or c in rows.summary_cols:
             acc.column(c, f"summary column ({name})" if name else "summary column", "summary")
@@ -182,7 +193,7 @@ def _long(rows: Rows, cells: SheetCells, labels: str) -> Table:
     cols = []
     for c, st in sorted(stats.items()):
         title = rows.value(header, c) if header is not None else None
-        if is_identifier_header(title) or (st.consecutive and st.numbers == len(body) >= 3 and st.numbers_only):
+        if is_identifier_header(title) or _numbered(stats, c, len(body)):
             name = format_label(title) if is_label(title) else None
             acc.column(c, f"identifier column ({name})" if name else "identifier column", "identifier")
         else:

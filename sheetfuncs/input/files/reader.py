@@ -335,7 +335,7 @@ def range_reading(block: CellBlock, groups: Groups) -> Reading:
     """The account of a block read as a whole (a range given, or a block found): every
     non-blank cell is a value, a label, or a cell the range rules noted."""
     src = block.source
-    read = sum(1 for row in block.rows for v in row if not is_blank(v))
+    read = sum(len(row) - row.count(None) - row.count("") for row in block.rows)
     left = tuple(
         LeftOut.of(
             [(src.first_row + note.row, src.first_col + note.col)],
