@@ -17,6 +17,7 @@ from ..cells import a1_range, column_letters
 from ..groups import format_label
 from ..reading import sheet_ref
 from .detect_rows import Account, Block, Rows, Table, column_stats, is_label, lot_row, read_rows
+from .block import is_blank
 from .sheetcells import SheetCells
 from .words import is_identifier_header, is_unit_row, summary_word
 
@@ -79,7 +80,7 @@ def _wide(rows: Rows, cells: SheetCells, labels: str) -> Table:
 def _lot_header(rows: Rows, cells: SheetCells, labels: str, h: int | None, r0: int,
                 data: list[int], acc: Account) -> tuple[int | None, list[int]]:
     """The first data row as the header when it holds lot numbers (see :func:`lot_row`)."""
-    if labels != "auto" or (h is not None and any(is_label(v) for v in rows.values(h))):
+    if labels != "auto" or (h is not None and sum(1 for v in rows.values(h) if is_label(v)) > 1):
         return None, data
     lot = lot_row(rows, r0, data)
     where = _where(cells, r0, rows.block.left, r0, rows.block.right)
@@ -147,8 +148,9 @@ def _header(rows: Rows, cells: SheetCells, labels: str, h: int | None, r0: int, 
     if labels == "no":
         return None, data
     over = [rows.value(h, c) for c in value_cols] if h is not None else []
+    title = h is not None and len(value_cols) > 1 and sum(1 for v in rows.values(h) if not is_blank(v)) == 1
     if labels == "yes":
-        if h is not None and any(v is not None for v in over):
+        if h is not None and not title and any(not is_blank(v) for v in over):
             return h, data
         return r0, data[1:]
     if h is None:
@@ -156,8 +158,7 @@ def _header(rows: Rows, cells: SheetCells, labels: str, h: int | None, r0: int, 
     named = [v for v in over if is_label(v)]
     if len(named) == len(value_cols):
         return h, data
-    row = rows.values(h)
-    if not named and sum(1 for v in row if v is not None and v != "") == 1:
+    if not named and title:
         return None, data  # a title or note right above the numbers
     missing = [c for c, v in zip(value_cols, over) if not is_label(v)]
     where = _where(cells, h, min(value_cols), h, max(value_cols))
