@@ -17,43 +17,32 @@ from __future__ import annotations
 
 from bisect import bisect_right
 from collections.abc import Callable
-from dataclasses import dataclass
-from typing import Any
+from dataclasses import replace
 
 from ...errors import InputError
 from ..reading import LeftOut, sheet_ref
 from .block import is_blank
-from .detect_rows import Block, read_rows, shape_of
+from .detect_rows import Block, Table, read_rows, row_counts, shape_of
 from .detect_table import read_table
 from .sheetcells import Run, SheetCells
 from .words import is_signoff, summary_word
 
 __all__ = ["Found", "blocks_of", "detect"]
 
-@dataclass(frozen=True)
-class Found:
-    """What detection decided: the rectangle ``top..bottom`` x ``left..right`` handed to the
-    range rules, the cells inside it ``blanked`` (left out), the ``labels`` to pass (``"yes"``
-    or ``"no"``), every cell left out (``left_out``) and the ``notes``."""
-
-    top: int
-    left: int
-    bottom: int
-    right: int
-    labels: Any
-    blanked: frozenset[tuple[int, int]]
-    left_out: tuple[LeftOut, ...]
-    notes: tuple[str, ...]
+#: What detection decided: the rectangle ``top..bottom`` x ``left..right`` handed to the range
+#: rules, the cells inside it ``blanked`` (left out), the ``labels`` to pass (``"yes"``, ``"no"``
+#: or, for the rowwise layout, ``"auto"``), every cell left out (``left_out``) and the ``notes``.
+Found = Table
 
 
 # --------------------------------------------------------------------------------------------
 # blocks
 
 
-def _pieces(run: Run) -> list[tuple[int, int]]:
-    """The column intervals of a run's non-blank cells."""
+def _pieces(run: Run, nonblank: int) -> list[tuple[int, int]]:
+    """The column intervals of a run's ``nonblank`` cells."""
     r, c0, vals = run
-    if None not in vals and "" not in vals:
+    if nonblank == len(vals):
         return [(c0, c0 + len(vals) - 1)]
     out = []
     start = None
@@ -81,9 +70,9 @@ def _bands(runs: tuple[Run, ...]) -> list[list[Run]]:
     return bands
 
 
-def _segments(band: list[Run]) -> list[tuple[int, int]]:
+def _segments(band: list[Run], counts: list[tuple[int, int]]) -> list[tuple[int, int]]:
     """The column intervals of a band, split at columns blank throughout it."""
-    intervals = sorted({p for run in band for p in _pieces(run)})
+    intervals = sorted({p for run, (_, nb) in zip(band, counts) for p in _pieces(run, nb)})
     out: list[list[int]] = []
     for lo, hi in intervals:
         if out and lo <= out[-1][1] + 1:
@@ -111,9 +100,15 @@ def blocks_of(runs: tuple[Run, ...]) -> list[Block]:
     """The candidate blocks of a sheet's runs, top to bottom, left to right."""
     out: list[Block] = []
     for band in _bands(runs):
-        segs = _segments(band)
+        counts = [row_counts(run[2]) for run in band]
+        segs = _segments(band, counts)
         starts = [lo for lo, _ in segs]
         blocks = [Block(band[0][0], lo, band[-1][0], hi) for lo, hi in segs]
+        if len(segs) == 1:
+            blocks[0].runs, blocks[0].counts = band, counts
+            blocks[0].numbers = sum(n for n, _ in counts)
+            blocks[0].nonblank = sum(nb for _, nb in counts)
+            band = []
         for run in band:
             i = bisect_right(starts, run[1]) - 1
             lo, hi = segs[i]
@@ -163,8 +158,7 @@ def detect(
         if note:
             notes.append(note)
     left_out.sort(key=lambda x: x.cells[0])
-    return Found(table.top, table.left, table.bottom, table.right, table.labels,
-                 table.blanked, tuple(left_out), tuple(notes))
+    return replace(table, left_out=tuple(left_out), notes=tuple(notes))
 
 
 def _check_twins(main: Block, others: list[Block], cells: SheetCells) -> None:

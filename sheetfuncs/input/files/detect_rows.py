@@ -71,6 +71,7 @@ class Block:
     runs: list[Run] = field(default_factory=list)
     numbers: int = 0
     nonblank: int = 0
+    counts: list[tuple[int, int]] = field(default_factory=list)
 
     @property
     def ref(self) -> str:
@@ -83,6 +84,7 @@ class Block:
     def add(self, run: Run) -> None:
         self.runs.append(run)
         n, nb = row_counts(run[2])
+        self.counts.append((n, nb))
         self.numbers += n
         self.nonblank += nb
 
@@ -143,9 +145,9 @@ def read_rows(block: Block, fm: dict[tuple[int, int], str] | None) -> Rows:
     kind: dict[int, str] = {}
     counts: dict[int, tuple[int, int]] = {}
     lead: dict[int, str] = {}
-    for r, _, vals in block.runs:
+    for (r, _, vals), (n, nb) in zip(block.runs, block.counts):
         first = vals[0]
-        n, nb = counts[r] = row_counts(vals)
+        counts[r] = n, nb
         if type(first) is str and summary_word(first):
             kind[r], lead[r] = "summary", first.strip()
         elif type(first) is str and is_signoff(first):
@@ -230,13 +232,10 @@ def column_stats(rows: Rows, data: list[int], extra: int | None = None) -> dict[
     a cell in row ``extra`` (the header) gets an empty one."""
     left, right = rows.block.left, rows.block.right
     width = right - left + 1
-    grid = []
-    for r in data:
-        _, c0, vals = rows.runs[r]
-        if c0 == left and len(vals) == width:
-            grid.append(vals)
-        else:
-            grid.append((None,) * (c0 - left) + vals + (None,) * (right - c0 - len(vals) + 1))
+    grid = [rows.runs[r][2] for r in data]
+    if not all(rows.runs[r][1] == left for r in data) or any(len(v) != width for v in grid):
+        grid = [(None,) * (c0 - left) + vals + (None,) * (right - c0 - len(vals) + 1)
+                for _, c0, vals in (rows.runs[r] for r in data)]
     out = {}
     for j, col in enumerate(zip(*grid)):
         if col.count(None) != len(col):
@@ -341,10 +340,14 @@ class Account:
         top, left, bottom, right = self.box
         groups: dict[tuple[str, str], list[tuple[int, int]]] = {}
         special = sorted(self.cols)
+        kind = self.rows.kind
         for r, c0, vals in self.rows.block.runs:
-            why = self._row_reason(r)
             end = c0 + len(vals) - 1
-            if why is None and c0 >= left and end <= right and not any(c0 <= c <= end for c in special):
+            inside = c0 >= left and end <= right and not any(c0 <= c <= end for c in special)
+            if inside and top <= r <= bottom and kind[r] in ("data", "other") and r != self.units:
+                continue
+            why = self._row_reason(r)
+            if why is None and inside:
                 continue
             for j, v in enumerate(vals):
                 c = c0 + j

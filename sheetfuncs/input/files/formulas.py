@@ -25,6 +25,7 @@ __all__ = ["formula_refs", "is_aggregate", "read_formulas", "scan_sheet"]
 _NS_MAIN = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
 _NS_REL = "{http://schemas.openxmlformats.org/officeDocument/2006/relationships}"
 _FORMULA = re.compile(rb"<(?:\w+:)?f[\s>/]")
+_FORMULA_TAGS = (b"<f>", b"<f ", b":f>", b":f ")
 _ROW_TAG = re.compile(rb"<(?:\w+:)?row\s[^>]*>")
 _HIDDEN = re.compile(rb'\shidden="(?:1|true)"')
 _ROW_NUM = re.compile(rb'\sr="(\d+)"')
@@ -78,8 +79,8 @@ def scan_sheet(path: Path, title: str) -> tuple[bool, frozenset[int]]:
             with zf.open(part) as fh:
                 while chunk := fh.read(_CHUNK):
                     data = tail + chunk
-                    if not found and _FORMULA.search(data):
-                        found = True
+                    if not found and any(data.find(tag) >= 0 for tag in _FORMULA_TAGS):
+                        found = _FORMULA.search(data) is not None
                     if b"hidden" in data:
                         for m in _ROW_TAG.finditer(data):
                             tag = m.group(0)

@@ -129,11 +129,7 @@ def read_cells(
     are read (``done`` and ``total`` count cells; ``total`` is 0 when unknown).
     """
     p = Path(path)
-    if p.is_dir():
-        raise InputError(f"{p} is a folder, not a file; give the file to read")
-    kind = input_kind(p)
-    if not p.exists():
-        raise InputError(f"{p} does not exist; check the file name and folder")
+    kind = _file_kind(p)
     if size_limit is None or size_limit <= 0:
         raise InputError("the size limit must be a positive number of bytes")
     ref, name, shown = _range_argument(cell_range)
@@ -157,6 +153,16 @@ def read_cells(
         ) from None
     except IsADirectoryError:
         raise InputError(f"{p} is a folder, not a file") from None
+
+
+def _file_kind(p: Path) -> str:
+    """:func:`input_kind` of an existing file (a folder or a missing file is an InputError)."""
+    if p.is_dir():
+        raise InputError(f"{p} is a folder, not a file; give the file to read")
+    kind = input_kind(p)
+    if not p.exists():
+        raise InputError(f"{p} does not exist; check the file name and folder")
+    return kind
 
 
 def _range_argument(cell_range: str | None) -> tuple[RangeRef | None, str | None, str | None]:
@@ -269,12 +275,7 @@ def _named(cells: SheetCells, ref: str) -> str:
 def _sheet_cells(path: str | os.PathLike[str], options: dict[str, Any]) -> SheetCells:
     """The cells of the sheet (or CSV file) read without a range."""
     p = Path(path)
-    if p.is_dir():
-        raise InputError(f"{p} is a folder, not a file; give the file to read")
-    kind = input_kind(p)
-    if not p.exists():
-        raise InputError(f"{p} does not exist; check the file name and folder")
-    if kind != "workbook":
+    if _file_kind(p) != "workbook":
         block = read_cells(path, **options)
         runs, count = runs_from_rows(block.rows, block.source.first_row, block.source.first_col)
         source = InputSource(path=block.source.path, sheet=block.source.sheet)
