@@ -110,6 +110,16 @@ def _parse_layout(layout: Any) -> str:
     return s
 
 
+def parse_labels(labels: Any) -> str:
+    """The ``labels`` argument as ``"auto"``, ``"yes"`` or ``"no"`` (an InputError otherwise)."""
+    return _parse_labels_arg(labels)
+
+
+def parse_layout(layout: Any) -> str:
+    """The ``layout`` argument as ``"wide"``, ``"long"`` or ``"rowwise"`` (an InputError otherwise)."""
+    return _parse_layout(layout)
+
+
 # --------------------------------------------------------------------------------------------
 # cells left out
 

@@ -18,17 +18,20 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any, TypedDict
 
 from ...errors import InputError
-from ..cells import ERROR_TEXTS, RangeRef, parse_range
+from ..cells import ERROR_TEXTS, RangeRef, a1_range, parse_range
 from ..groups import Groups
 from ..labels import relabel
-from ..ranges import groups_from_range
-from ..reading import LeftOut, Reading, cell_content
+from ..ranges import groups_from_range, parse_labels, parse_layout
+from ..reading import LeftOut, Reading, cell_content, sheet_ref
 from ..source import InputSource
 from .block import CellBlock, Progress, is_blank
 from .delimited import read_delimited
+from .detect import detect
 from .filetype import CSV_SUFFIXES, WORKBOOK_SUFFIXES, file_type
+from .formulas import read_formulas
 from .safety import DEFAULT_SIZE_LIMIT
-from .xlsx import read_workbook
+from .sheetcells import SheetCells, check_area, runs_from_rows
+from .xlsx import check_formulas, read_sheet, read_workbook
 
 if TYPE_CHECKING:
     from typing_extensions import Unpack
@@ -107,18 +110,14 @@ def read_cells(
     are read (``done`` and ``total`` count cells; ``total`` is 0 when unknown).
     """
     p = Path(path)
-    if p.is_dir():
-        raise InputError(f"{p} is a folder, not a file; give the file to read")
-    kind, notes = file_type(p)
-    if not p.exists():
-        raise InputError(f"{p} does not exist; check the file name and folder")
+    kind, notes = _file_kind(p)
     if size_limit is None or size_limit <= 0:
         raise InputError("the size limit must be a positive number of bytes")
     ref, name, shown = _range_argument(cell_range)
     sheet = _sheet_argument(sheet, ref)
     try:
         if kind == "workbook":
-            block = read_workbook(p, sheet, ref, name, size_limit, progress, shown)
+            block = read_workbook(p, sheet, ref, name, size_limit, progress, shown, max_cells)
             return replace(block, notes=notes + block.notes) if notes else block
         if sheet is not None:
             raise InputError(
@@ -138,6 +137,17 @@ def read_cells(
         ) from None
     except IsADirectoryError:
         raise InputError(f"{p} is a folder, not a file") from None
+
+
+def _file_kind(p: Path) -> tuple[str, tuple[str, ...]]:
+    """The kind of an existing file, judged by its content, and notes on it (a workbook under
+    another name); a folder or a missing file is an InputError."""
+    if p.is_dir():
+        raise InputError(f"{p} is a folder, not a file; give the file to read")
+    kind, notes = file_type(p)
+    if not p.exists():
+        raise InputError(f"{p} does not exist; check the file name and folder")
+    return kind, notes
 
 
 def _range_argument(cell_range: str | None) -> tuple[RangeRef | None, str | None, str | None]:
@@ -171,8 +181,14 @@ def read_groups(
     rename: Any = None,
     **options: Unpack[ReadOptions],
 ) -> LoadedGroups:
-    """Read a block (see :func:`read_cells`, whose keyword arguments ``options`` are) and clean
-    it with ``groups_from_range``.
+    """Read a file's data and clean it with ``groups_from_range``.
+
+    With a range (``cell_range``), the range is read (see :func:`read_cells`, whose keyword
+    arguments ``options`` are) and only the range rules apply. Without one, the data block is
+    found as an analyst finds it (:mod:`.detect`): title and note rows, a units row,
+    identifier columns, summary rows and columns, sign-off lines and other blocks are left out,
+    each with its address and reason in the :class:`Reading`; when the reading is not certain,
+    an InputError says what was seen and which ``--range`` or ``--labels`` to give.
 
     ``errors`` (``"stop"`` or ``"missing"``) is passed to ``groups_from_range``;
     ``merge_case`` and ``rename`` (a mapping or ``OLD=NEW`` texts) fix labels afterwards
@@ -180,7 +196,96 @@ def read_groups(
     first cell's sheet address and the file name added, e.g. ``... (cell 'Lot data'!C7 of
     lots.xlsx)``.
     """
-    block = read_cells(path, **options)
+    given = options.get("cell_range")
+    if given is not None and str(given).strip():
+        block = read_cells(path, **options)
+        groups = _clean(path, block, layout, labels, errors)
+        reading = range_reading(block, groups)
+        reading = replace(reading, notes=block.notes + reading.notes)
+    else:
+        block, groups, reading = _read_detected(path, layout, labels, errors, options)
+    groups = relabel(groups, merge_case=merge_case, rename=rename)
+    return LoadedGroups(groups=groups, block=block, reading=reading)
+
+
+def _read_detected(
+    path: str | os.PathLike[str], layout: Any, labels: Any, errors: str, options: dict[str, Any]
+) -> tuple[CellBlock, Groups, Reading]:
+    """A file read without a range: its cells, the block found, the groups and the reading."""
+    lay, lab = parse_layout(layout), parse_labels(labels)
+    cells = _sheet_cells(path, options)
+    p = Path(path)
+    formulas = None
+    if cells.kind == "workbook":
+        title = cells.source.sheet or ""
+        formulas = lambda t, l, b, r: read_formulas(p, title, t, l, b, r)  # noqa: E731
+    found = detect(cells, lay, lab, formulas)
+    limit = options.get("max_cells") or DEFAULT_MAX_CELLS
+    if found is None:  # no numbers anywhere: the used range, whose rules say what is wrong
+        bounds = cells.bounds()
+        assert bounds is not None
+        top, left, bottom, right = bounds
+        check_area(f"the used range {_named(cells, a1_range(*bounds[:2], *bounds[2:]))}",
+                   bottom - top + 1, right - left + 1, limit)
+        block = cells.block(top, left, bottom, right)
+        groups = _clean(path, block, layout, labels, errors)
+        reading = range_reading(block, groups)
+        return block, groups, replace(reading, notes=cells.notes + reading.notes)
+    where = _named(cells, a1_range(found.top, found.left, found.bottom, found.right))
+    check_area(f"the table {where}", found.bottom - found.top + 1, found.right - found.left + 1, limit)
+    block = cells.block(found.top, found.left, found.bottom, found.right, found.blanked)
+    inside = [(r, c) for r, c in cells.suspects if found.top <= r <= found.bottom
+              and found.left <= c <= found.right and (r, c) not in found.blanked]
+    if inside:
+        check_formulas(p, cells.source.sheet or "", inside, block.source)
+    groups = _clean(path, block, lay, found.labels, errors)
+    base = range_reading(block, groups)
+    left_out = found.left_out + base.left_out
+    n_out = sum(len(x.cells) for x in left_out)
+    reading = Reading(
+        path=base.path, sheet=base.sheet, block=block.ref, detected=True, cells_read=cells.n_cells,
+        cells_used=cells.n_cells - n_out, left_out=left_out,
+        notes=cells.notes + found.notes + base.notes, missing=base.missing,
+    )
+    return block, groups, reading
+
+
+def _named(cells: SheetCells, ref: str) -> str:
+    """A reference with its sheet (a CSV file's name when it has none)."""
+    if cells.source.sheet:
+        return sheet_ref(cells.source.sheet, ref)
+    return f"{ref} of {Path(cells.source.path or '').name}"
+
+
+def _sheet_cells(path: str | os.PathLike[str], options: dict[str, Any]) -> SheetCells:
+    """The cells of the sheet (or CSV file) read without a range."""
+    p = Path(path)
+    kind, notes = _file_kind(p)
+    if kind != "workbook":
+        block = read_cells(path, **options)
+        runs, count = runs_from_rows(block.rows, block.source.first_row, block.source.first_col)
+        source = InputSource(path=block.source.path, sheet=block.source.sheet)
+        return SheetCells(runs=tuple(runs), source=source, kind=block.kind, n_cells=count,
+                          delimiter=block.delimiter, notes=tuple(getattr(block, "notes", ())))
+    size_limit = options.get("size_limit", DEFAULT_SIZE_LIMIT)
+    if size_limit is None or size_limit <= 0:
+        raise InputError("the size limit must be a positive number of bytes")
+    try:
+        cells, _ = read_sheet(p, options.get("sheet"), None, None, size_limit, options.get("progress"),
+                              None, options.get("max_cells") or DEFAULT_MAX_CELLS)
+    except PermissionError:
+        raise InputError(f"no permission to read {p}; check the file's access rights") from None
+    if not cells.runs and not cells.suspects:
+        title = cells.source.sheet
+        raise InputError(
+            f'sheet "{title}" of {p.name} is empty; choose the sheet that holds the data'
+            + (" (--sheet)" if cells.n_sheets > 1 else "")
+        )
+    return replace(cells, notes=notes + cells.notes) if notes else cells
+
+
+def _clean(path: str | os.PathLike[str], block: CellBlock, layout: Any, labels: Any, errors: str) -> Groups:
+    """``groups_from_range`` on a block, its messages given the sheet address and file name."""
     if layout in ("wide", "long") and block.n_rows == 1 and all(
         isinstance(v, str) and v not in ERROR_TEXTS for v in block.rows[0] if not is_blank(v)
     ):
@@ -189,8 +294,8 @@ def read_groups(
             "it is the right file (or range) and that the data were saved"
         )
     try:
-        groups = groups_from_range(block.rows, layout=layout, labels=labels, errors=errors,
-                                   unlabelled="log")
+        return groups_from_range(block.rows, layout=layout, labels=labels, errors=errors,
+                                 unlabelled="log")
     except InputError as e:
         if e.cells:
             r, c = e.cells[0]
@@ -202,8 +307,6 @@ def read_groups(
         if Path(path).name not in msg:
             msg = f"{msg} (in {_where(block)})"
         raise InputError(msg, cells=e.cells) from None
-    groups = relabel(groups, merge_case=merge_case, rename=rename)
-    return LoadedGroups(groups=groups, block=block, reading=range_reading(block, groups))
 
 
 #: What a cell noted by the range rules is, as a reason to leave it out.
@@ -220,7 +323,7 @@ def range_reading(block: CellBlock, groups: Groups) -> Reading:
     """The account of a block read as a whole (a range given, or a block found): every
     non-blank cell is a value, a label, or a cell the range rules noted."""
     src = block.source
-    read = sum(1 for row in block.rows for v in row if not is_blank(v))
+    read = sum(len(row) - row.count(None) - row.count("") for row in block.rows)
     left = tuple(
         LeftOut.of(
             [(src.first_row + note.row, src.first_col + note.col)],

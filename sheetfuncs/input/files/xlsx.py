@@ -19,21 +19,24 @@ import warnings
 import zipfile
 import zlib
 from collections.abc import Sequence
+from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from ...errors import InputError
-from ..cells import RangeRef, parse_range
+from ..cells import RangeRef, a1_range, parse_range
 from ..source import InputSource
-from .block import PROGRESS_STEP, CellBlock, Progress, cell_block, trim_rows
+from .block import PROGRESS_STEP, CellBlock, Progress
 from .filetype import WORKBOOK_SUFFIXES
+from .formulas import scan_sheet
+from .sheetcells import Run, SheetCells, check_area, run_of
 from .tables import table_range, workbook_tables
 from .safety import (
     DEFAULT_SIZE_LIMIT, bomb_message, check_archive, damaged_error, defusedxml_refused,
     openpyxl_uses_defusedxml,
 )
 
-__all__ = ["read_workbook", "workbook_properties"]
+__all__ = ["WorkbookCells", "check_formulas", "range_bounds", "read_sheet", "read_workbook", "workbook_properties"]
 
 _NONE = type(None)
 _TEXT_TYPES = ("s", "str", "inlineStr")
@@ -177,12 +180,80 @@ def read_workbook(
     size_limit: int,
     progress: Progress | None,
     shown: str | None = None,
+    max_cells: int | None = None,
 ) -> CellBlock:
     """The block of saved values of a workbook's sheet.
 
     ``ref`` is the range (``None``: the used range) or ``name`` a defined name; ``shown`` the
-    range as the user gave it, for messages. See :func:`.reader.read_cells`.
+    range as the user gave it, for messages; ``max_cells`` limits the non-blank cells read and
+    the block's area. See :func:`.reader.read_cells`.
     """
+    cells, ref = read_sheet(p, sheet, ref, name, size_limit, progress, shown, max_cells)
+    bounds = range_bounds(cells, ref)
+    title = cells.source.sheet or ""
+    if bounds is None:
+        raise InputError(_empty_message(p, title, ref, name, shown, cells.n_sheets))
+    top, left, bottom, right = bounds
+    what = _what(p, title, ref, name, shown, top, left, bottom, right)
+    check_area(what, bottom - top + 1, right - left + 1, max_cells or DEFAULT_MAX_AREA)
+    block = cells.block(top, left, bottom, right)
+    inside = [(r, c) for r, c in cells.suspects if top <= r <= bottom and left <= c <= right]
+    if inside:
+        check_formulas(p, title, inside, block.source)
+    return block
+
+
+#: The area limit when none is given (the reader's default ``max_cells``).
+DEFAULT_MAX_AREA = 20_000_000
+
+
+def range_bounds(cells: WorkbookCells, ref: RangeRef | None) -> tuple[int, int, int, int] | None:
+    """``(top, left, bottom, right)`` of the block a range (or the used range) reads.
+
+    The used range loses its blank margins on all four sides; a range keeps its top-left
+    corner (and its right edge when it has one) and loses trailing blank rows, as the host
+    hands a range over.
+    """
+    b = cells.bounds()
+    if b is None:
+        return None
+    if ref is None:
+        return b
+    right = ref.max_col if ref.max_col is not None else b[3]
+    return ref.min_row, ref.min_col, b[2], right
+
+
+def _what(p: Path, title: str, ref: RangeRef | None, name: str | None, shown: str | None,
+          top: int, left: int, bottom: int, right: int) -> str:
+    """How the area message names the block read."""
+    a1 = a1_range(top, left, bottom, right)
+    if ref is None:
+        return f'the used range {a1} of sheet "{title}" in {p.name}'
+    if name is not None:
+        return f'the name "{name}" ({_sheet_prefix(title)}{a1})'
+    return f'the range {shown if shown and ref.sheet else (shown or a1)} of sheet "{title}"'
+
+
+@dataclass(frozen=True)
+class WorkbookCells(SheetCells):
+    """A workbook sheet's cells, with the number of sheets of its workbook (for messages)."""
+
+    n_sheets: int = 1
+
+
+def read_sheet(
+    p: Path,
+    sheet: str | None,
+    ref: RangeRef | None,
+    name: str | None,
+    size_limit: int,
+    progress: Progress | None,
+    shown: str | None = None,
+    max_cells: int | None = None,
+) -> tuple[WorkbookCells, RangeRef | None]:
+    """The non-blank cells of a workbook's sheet (inside ``ref`` or the defined ``name`` when
+    given), and the range read. Without a range, the sheet part is also scanned for formulas
+    and hidden rows (for block detection)."""
     if not openpyxl_uses_defusedxml():
         raise InputError(
             "openpyxl is not parsing through defusedxml (is the environment "
@@ -197,16 +268,19 @@ def read_workbook(
             ref, notes = _named_range(wb, p, name, sheet)
             sheet = ref.sheet
         ws = _pick_sheet(wb, p, sheet)
-        rows, suspects, first_row, first_col = _read_sheet(ws, ref, progress, p.name)
+        runs, suspects, count = _read_sheet(ws, ref, progress, p.name, max_cells)
         title = ws.title
+        n_sheets = len(wb.sheetnames)
     finally:
         wb.close()
-    source = InputSource(path=str(p), sheet=title, first_row=first_row, first_col=first_col)
-    if not rows:
-        raise InputError(_empty_message(p, title, ref, name, shown, len(wb.sheetnames)))
-    if suspects:
-        _check_formulas(p, title, suspects, source)
-    return cell_block(rows, source, "workbook", notes=notes)
+    has_formulas, hidden = (False, frozenset())
+    if ref is None and name is None and runs:
+        has_formulas, hidden = scan_sheet(p, title)
+    source = InputSource(path=str(p), sheet=title)
+    return WorkbookCells(
+        runs=tuple(runs), source=source, kind="workbook", n_cells=count, suspects=tuple(suspects),
+        hidden=hidden, has_formulas=has_formulas, n_sheets=n_sheets, notes=notes,
+    ), ref
 
 
 def _empty_message(
@@ -228,11 +302,12 @@ def _empty_message(
     return f"{what} in {p.name} is empty; check the range"
 
 
-def _read_sheet(ws, ref: RangeRef | None, progress: Progress | None, file_name: str):
+def _read_sheet(ws, ref: RangeRef | None, progress: Progress | None, file_name: str,
+                max_cells: int | None):
     """:func:`_sheet_rows`, with a parser's failure turned into one line."""
     known = ws.max_row, ws.max_column
     try:
-        return _sheet_rows(ws, ref, known, progress, file_name)
+        return _sheet_rows(ws, ref, known, progress, file_name, max_cells)
     except InputError:
         raise
     except Exception as e:
@@ -241,8 +316,26 @@ def _read_sheet(ws, ref: RangeRef | None, progress: Progress | None, file_name: 
         raise damaged_error(file_name, e) from None
 
 
-def _sheet_rows(ws, ref: RangeRef | None, known, progress: Progress | None, file_name: str):
-    """Rows of saved values, trimmed; cells that exist but hold nothing (possible formulas)."""
+def _progress_total(known: tuple[Any, Any], ref: RangeRef | None) -> int:
+    """The cells the sheet's dimension record claims (for progress only; never trusted)."""
+    known_rows, known_cols = known
+    if not (known_rows and known_cols):
+        return 0
+    r1 = ref.min_row if ref else 1
+    c1 = ref.min_col if ref else 1
+    r2 = ref.max_row if ref else None
+    c2 = ref.max_col if ref else None
+    total = (min(known_rows, r2 or known_rows) - r1 + 1) * (min(known_cols, c2 or known_cols) - c1 + 1)
+    return max(min(total, 10**9), 0)
+
+
+def _sheet_rows(ws, ref: RangeRef | None, known, progress: Progress | None, file_name: str,
+                max_cells: int | None):
+    """Runs of saved values (see :mod:`.sheetcells`), cells that exist but hold nothing
+    (possible formulas), and the count of non-blank cells.
+
+    Length: one pass over openpyxl's rows, kept in one loop for speed (every cell of a large
+    sheet passes through it)."""
     from openpyxl.cell.read_only import EmptyCell
 
     ws.reset_dimensions()  # dimension records are often wrong: read what is there
@@ -250,23 +343,26 @@ def _sheet_rows(ws, ref: RangeRef | None, known, progress: Progress | None, file
     c1 = ref.min_col if ref else 1
     r2 = ref.max_row if ref else None
     c2 = ref.max_col if ref else None
-    known_rows, known_cols = known
-    total = 0
-    if known_rows and known_cols:
-        total = (min(known_rows, r2 or known_rows) - r1 + 1) * (
-            min(known_cols, c2 or known_cols) - c1 + 1
-        )
-        total = max(total, 0)
-    rows: list[tuple[Any, ...]] = []
+    limit = max_cells or DEFAULT_MAX_AREA
+    total = _progress_total(known, ref)
+    runs: list[Run] = []
     suspects: list[tuple[int, int]] = []  # 1-based sheet (row, col)
-    done = next_report = 0
+    done = next_report = count = 0
     if progress is not None:
         progress("reading", 0, total)
     r = r1 - 1
+    gap = None  # openpyxl hands every missing row as one shared tuple of empty cells
     for cells in ws.iter_rows(min_row=r1, max_row=None, min_col=c1, max_col=c2):
         r += 1
         if r2 is not None and r > r2:
             break
+        if not cells or cells is gap:
+            continue
+        if type(cells[0]) is EmptyCell and type(cells[-1]) is EmptyCell and all(
+            type(c) is EmptyCell for c in cells
+        ):
+            gap = cells
+            continue
         vals = [cell.value for cell in cells]
         types = set(map(type, vals))
         if _NONE in types:  # cells that exist but hold nothing may be unsaved formulas
@@ -284,21 +380,29 @@ def _sheet_rows(ws, ref: RangeRef | None, known, progress: Progress | None, file
             )
         if int in types:  # whole numbers saved without a decimal point: the same doubles
             vals = [float(v) if type(v) is int and abs(v) <= _EXACT_INT else v for v in vals]
-        rows.append(tuple(vals))
+        run = run_of(r, c1, vals)
+        if run is not None:
+            runs.append(run)
+            count += len(run[2]) - run[2].count(None) - run[2].count("")
+            if count > limit:
+                raise InputError(
+                    f'sheet "{ws.title}" of {file_name} holds more than {limit:,} non-blank cells '
+                    "(the limit); give a --range or raise --max-cells"
+                )
         done += len(vals)
         if progress is not None and done >= next_report:
             progress("reading", done, total)
             next_report = done + PROGRESS_STEP
     if progress is not None:
         progress("reading", done, max(total, done))
-    return trim_rows(rows, r1, c1, ref, suspects)
+    return runs, suspects, count
 
 
 # --------------------------------------------------------------------------------------------
 # formula cells without saved values
 
 
-def _check_formulas(p: Path, title: str, suspects: list[tuple[int, int]], source: InputSource):
+def check_formulas(p: Path, title: str, suspects: list[tuple[int, int]], source: InputSource) -> None:
     """Cells that exist but have no saved value: are they formulas? Then stop with an error."""
     from openpyxl.worksheet.formula import ArrayFormula, DataTableFormula
 
