@@ -75,7 +75,7 @@ def _as_rows(cells: Any) -> list[Sequence[Any]]:
     return [r if len(r) == width else r + (None,) * (width - len(r)) for r in out]
 
 
-def _parse_labels_arg(labels: Any) -> str:
+def parse_labels(labels: Any) -> str:
     """Normalise the ``labels`` argument to ``auto``, ``yes`` or ``no``."""
     if labels is None:
         return "auto"
@@ -96,7 +96,8 @@ def _parse_labels_arg(labels: Any) -> str:
     )
 
 
-def _parse_layout(layout: Any) -> str:
+def parse_layout(layout: Any) -> str:
+    """The ``layout`` argument as ``"wide"``, ``"long"`` or ``"rowwise"`` (an InputError otherwise)."""
     if layout is None:
         return "wide"
     s = str(layout).strip().lower()
@@ -108,16 +109,6 @@ def _parse_layout(layout: Any) -> str:
             "\"long\" (label and value columns) or \"rowwise\" (one group per row)"
         )
     return s
-
-
-def parse_labels(labels: Any) -> str:
-    """The ``labels`` argument as ``"auto"``, ``"yes"`` or ``"no"`` (an InputError otherwise)."""
-    return _parse_labels_arg(labels)
-
-
-def parse_layout(layout: Any) -> str:
-    """The ``layout`` argument as ``"wide"``, ``"long"`` or ``"rowwise"`` (an InputError otherwise)."""
-    return _parse_layout(layout)
 
 
 # --------------------------------------------------------------------------------------------
@@ -276,8 +267,8 @@ def parse_errors(errors: Any) -> str:
 
 def _read_range(cells: Any, layout: Any, labels: Any, *, block: bool, errors: str = "stop") -> Groups:
     """:func:`groups_from_range`; ``block=False`` reads every range cell by cell (for tests)."""
-    lay = _parse_layout(layout)
-    lab = _parse_labels_arg(labels)
+    lay = parse_layout(layout)
+    lab = parse_labels(labels)
     rows = _as_rows(cells)
     if not rows or not rows[0]:
         raise InputError("the range is empty; select the cells that hold the data")

@@ -95,12 +95,21 @@ def centred_group_stats(
         raw_var.append(mom.ss_group(i) / (n - 1) if n > 1 else None)
     positive = [v for v in raw_var if v is not None and v > 0]
     h = _pow2_exponent(max(positive)) // 2 if positive else 0
-    if mom.exact:
-        c = mom.mean(0)
-        unit = Fraction(2) ** h
-        dev = tuple(float((mom.mean(i) - c) / unit) for i in range(k))
-        var = tuple(math.nan if v is None else float(v / (unit * unit)) for v in raw_var)
-    else:
-        dev = tuple(math.ldexp(d, -h) for d in mom.mean_differences(0))
-        var = tuple(math.nan if v is None else math.ldexp(float(v), -2 * h) for v in raw_var)
+    try:
+        if mom.exact:
+            c = mom.mean(0)
+            unit = Fraction(2) ** h
+            dev = tuple(float((mom.mean(i) - c) / unit) for i in range(k))
+            var = tuple(math.nan if v is None else float(v / (unit * unit)) for v in raw_var)
+        else:
+            dev = tuple(math.ldexp(d, -h) for d in mom.mean_differences(0))
+            var = tuple(math.nan if v is None else math.ldexp(float(v), -2 * h) for v in raw_var)
+    except OverflowError:  # means further apart than a double can count in standard deviations
+        raise InputError(MEANS_TOO_FAR) from None
     return dev, var
+
+
+MEANS_TOO_FAR = (
+    "the group means differ by more than 10^300 times the groups' standard deviations, which "
+    "double precision cannot carry; check the data's units"
+)

@@ -14,6 +14,7 @@ from fractions import Fraction
 import numpy as np
 import pytest
 
+import sheetfuncs as sf
 from sheetfuncs import InputError, as_groups
 from sheetfuncs.stats.group_variances import (
     centred_group_stats, prepare_with_variances, require_variances, unit_free_moments,
@@ -81,3 +82,15 @@ def test_ordinary_and_exact_data_are_left_as_they_are():
     huge = as_groups({"A": [1e200, 2e200, 4e200], "B": [3e200, 5e200]})
     same, mom = unit_free_moments(huge, None)  # the exact path needs no rescaling
     assert same is huge and mom.exact
+
+
+def test_means_too_far_apart_for_doubles_get_one_line():
+    # found by the fuzz test: subnormal values whose means differ by ~1e310 standard deviations
+    rows = [["A", 1, "a", "C", 1], [4e-310, 2e-310, 4.78969999999997e-310, 4.2e-310, 8.153e-310],
+            [1.4811e-310, 3.99489999999997e-310, 5e-310, 3e-311, 7.49999999999995e-310]]
+    with pytest.raises(InputError) as e:
+        sf.welch(sf.groups_from_range(rows, "rowwise"))
+    assert e.value.reason == (
+        "the group means differ by more than 10^300 times the groups' standard deviations, which "
+        "double precision cannot carry; check the data's units"
+    )

@@ -204,8 +204,11 @@ def read_groups(
         reading = replace(reading, notes=block.notes + reading.notes)
     else:
         block, groups, reading = _read_detected(path, layout, labels, errors, options)
-    groups = relabel(groups, merge_case=merge_case, rename=rename)
-    return LoadedGroups(groups=groups, block=block, reading=reading)
+    fixed = relabel(groups, merge_case=merge_case, rename=rename)
+    if fixed is not groups:  # the reading's notes on labels follow the fixed labels
+        old = set(groups.notes)
+        reading = replace(reading, notes=tuple(n for n in reading.notes if n not in old) + fixed.notes)
+    return LoadedGroups(groups=fixed, block=block, reading=reading)
 
 
 def _read_detected(
