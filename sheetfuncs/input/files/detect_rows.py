@@ -120,6 +120,12 @@ class Rows:
         return [r for r in self.order if self.kind[r] == "data"]
 
 
+def _value_at(run: Run, c: int) -> Any:
+    """The value of column ``c`` in a row's run (``None`` outside it)."""
+    _, c1, vals = run
+    return vals[c - c1] if 0 <= c - c1 < len(vals) else None
+
+
 def _formula_kinds(block: Block, fm: dict[tuple[int, int], str]) -> tuple[set[int], set[int], list]:
     """Rows and columns summarised by aggregate formulas over the block, and computed cells."""
     rows: set[int] = set()
@@ -156,7 +162,8 @@ def read_rows(block: Block, fm: dict[tuple[int, int], str] | None) -> Rows:
             kind[r] = "summary"
         else:
             kind[r] = "data" if n and 2 * n >= nb else "other"
-    computed = [x for x in computed if kind.get(x[0]) == "data" and x[1] not in f_cols]
+    computed = [x for x in computed if kind.get(x[0]) == "data" and x[1] not in f_cols
+                and _is_number(_value_at(runs[x[0]], x[1]))]  # an error or text is not a measurement
     return Rows(block, runs, sorted(runs), kind, counts, f_cols, computed, lead)
 
 

@@ -18,7 +18,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any, TypedDict
 
 from ...errors import InputError
-from ..cells import ERROR_TEXTS, RangeRef, a1_range, parse_range
+from ..cells import ERROR_TEXTS, RangeRef, a1_range, error_text, parse_range
 from ..groups import Groups
 from ..labels import relabel
 from ..ranges import groups_from_range, parse_labels, parse_layout
@@ -303,8 +303,13 @@ def _clean(path: str | os.PathLike[str], block: CellBlock, layout: Any, labels: 
         if e.cells:
             r, c = e.cells[0]
             where = block.source.full_address(r, c)
+            hint = ""
+            if errors == "stop" and r < block.n_rows and c < len(block.rows[r]) and \
+                    error_text(block.rows[r][c]) is not None and "label" not in e.reason:
+                hint = ("; or, to read error cells as missing values, give --errors missing "
+                        '(Python: errors="missing")')
             raise InputError(
-                f"{e.reason} (cell {where} of {Path(path).name})", cells=e.cells
+                f"{e.reason} (cell {where} of {Path(path).name}){hint}", cells=e.cells
             ) from None
         msg = e.reason
         if Path(path).name not in msg:

@@ -164,3 +164,30 @@ def test_tablets_saved_by_libreoffice_read_the_same(corpus, tmp_path):
     assert a.groups.labels == b.groups.labels
     assert all((x == y).all() for x, y in zip(a.groups.arrays, b.groups.arrays))
     assert [(x.ref, x.reason) for x in a.reading.left_out] == [(x.ref, x.reason) for x in b.reading.left_out]
+
+
+def test_an_error_saved_by_libreoffice_is_missing_not_a_computed_measurement(tmp_path):
+    # LibreOffice saves a typed #N/A as the formula =#N/A with its error value: with
+    # --errors missing it is one missing value, and no note calls it a computed measurement
+    import openpyxl
+
+    from tests.support.libreoffice import convert, require_office
+
+    require_office()
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Hardness"
+    ws.append(["Tablet hardness (invented data)"])
+    ws.append(["Sample", "Press A", "Press B"])
+    for i, (a, b) in enumerate([(88.1, 90.2), (87.6, 91.0), (88.4, "#N/A"), (87.9, 90.6)], 1):
+        ws.append([i, a, b])
+    ws.append(["Mean", "=AVERAGE(B3:B6)", "=AVERAGE(C3:C6)"])
+    src = tmp_path / "src" / "na.xlsx"
+    src.parent.mkdir()
+    wb.save(src)
+    saved = convert(src, "xlsx", tmp_path / "out")
+    loaded = read_groups(saved, errors="missing")
+    assert loaded.groups.labels == ("Press A", "Press B") and loaded.groups.counts == (4, 3)
+    assert [(x.ref, x.kind) for x in loaded.reading.left_out if x.kind == "missing"] == [("C5", "missing")]
+    assert not any("computed by formulas" in n for n in loaded.reading.notes)
+    assert loaded.reading.balanced

@@ -190,7 +190,8 @@ def test_read_groups_errors_stop_names_the_na_cell(tmp_path):
         read_groups(na_book(tmp_path), cell_range="B2:D6")
     assert str(ei.value) == (
         "sheetfuncs: the data hold the error #N/A at row 3, column 1 of the range (and 1 more); "
-        "fix or clear that cell (cell 'Fill'!B4 of fill.xlsx)"
+        "fix or clear that cell (cell 'Fill'!B4 of fill.xlsx); or, to read error cells as "
+        'missing values, give --errors missing (Python: errors="missing")'
     )
 
 
