@@ -36,8 +36,8 @@ def SF_EFFECT(data: Any, layout: Any = None, labels: Any = None, conf: Any = Non
     return effect_sizes(groups_from_range(data, layout, labels), conf).table()
 
 
-_K = Arg("k", "number", "The number of groups, a whole number of at least 2.")
-_N = Arg("n", "number", "The number of values in each group (equal sizes), a whole number of at least 2.")
+_K = Arg("k", "number", "The number of groups, a whole number from 2 to 10,000.")
+_N = Arg("n", "number", "The number of values in each group (equal sizes), a whole number from 2 to 100,000,000,000.")
 _F = Arg(
     "cohens_f", "number",
     "Cohen's effect size f: the SD of the group means over the SD within groups (0.1 small, "
