@@ -485,36 +485,38 @@ def _vector_sums(
     qs: list[int] = []
     fallbacks: list[list[float]] = []
     p10 = 10.0**scale if vector else 1.0
-    for a in arrays:
-        s_tot = 0
-        q_tot = 0
-        fb: list[float] = []
-        if not vector:
-            fb = a.tolist()
-        else:
-            for i in range(0, a.size, _CHUNK):
-                x = a[i : i + _CHUNK]
-                r = x * p10
-                np.rint(r, out=r)
-                ok = r / p10 == x
-                hi, lo = float(r.max()), float(r.min())
-                if max(hi, -lo) >= 1e15:
-                    # 16-digit scaled values are exact only with trailing zeros
-                    ar = np.abs(r)
-                    ok &= (ar < 1e15) | ((ar < _TWO53) & (np.fmod(r, 10.0) == 0.0))
-                if not ok.all():
-                    fb.extend(x[~ok].tolist())
-                    r = r[ok]
-                    if r.size == 0:
-                        continue
+    # huge values overflow when scaled: they fail the round-trip test and take the fallback
+    with np.errstate(over="ignore", invalid="ignore"):
+        for a in arrays:
+            s_tot = 0
+            q_tot = 0
+            fb: list[float] = []
+            if not vector:
+                fb = a.tolist()
+            else:
+                for i in range(0, a.size, _CHUNK):
+                    x = a[i : i + _CHUNK]
+                    r = x * p10
+                    np.rint(r, out=r)
+                    ok = r / p10 == x
                     hi, lo = float(r.max()), float(r.min())
-                s, q = _exact_sums(r, offset, hi, lo)
-                s_tot += s
-                q_tot += q
-        ns.append(int(a.size))
-        ss.append(s_tot)
-        qs.append(q_tot)
-        fallbacks.append(fb)
+                    if max(hi, -lo) >= 1e15:
+                        # 16-digit scaled values are exact only with trailing zeros
+                        ar = np.abs(r)
+                        ok &= (ar < 1e15) | ((ar < _TWO53) & (np.fmod(r, 10.0) == 0.0))
+                    if not ok.all():
+                        fb.extend(x[~ok].tolist())
+                        r = r[ok]
+                        if r.size == 0:
+                            continue
+                        hi, lo = float(r.max()), float(r.min())
+                    s, q = _exact_sums(r, offset, hi, lo)
+                    s_tot += s
+                    q_tot += q
+            ns.append(int(a.size))
+            ss.append(s_tot)
+            qs.append(q_tot)
+            fallbacks.append(fb)
     return ns, ss, qs, fallbacks
 
 
