@@ -12,12 +12,12 @@ from another cell (a unit conversion).
 from __future__ import annotations
 
 import re
-import warnings
 import zipfile
 from pathlib import Path
 from posixpath import join, normpath
+from xml.sax.saxutils import unescape
 
-from ..cells import column_number
+from ..cells import column_letters, column_number
 from .words import AGGREGATES
 
 __all__ = ["formula_refs", "is_aggregate", "read_formulas", "scan_sheet"]
@@ -30,6 +30,16 @@ _ROW_TAG = re.compile(rb"<(?:\w+:)?row\s[^>]*>")
 _HIDDEN = re.compile(rb'\shidden="(?:1|true)"')
 _ROW_NUM = re.compile(rb'\sr="(\d+)"')
 _CHUNK = 1 << 20
+#: A cell with a formula: the cell's attributes, the formula's attributes and its text (none for a
+#: shared formula's followers). Inline text (``<is>``) or a value may come first.
+_CELL_F = re.compile(
+    rb"<(?:\w+:)?c(\s[^>]*?)?(?<!/)>"
+    rb"(?:[^<]|<(?!(?:\w+:)?f[\s>/]|/?(?:\w+:)?c[\s>/]|/(?:\w+:)?row>))*"
+    rb"<(?:\w+:)?f(\s[^>]*?)?(?:/>|>([^<]*)</(?:\w+:)?f>)"
+)
+_CELL_REF = re.compile(rb'\sr="([A-Z]{1,3})([0-9]{1,7})"')
+_SHARED_INDEX = re.compile(rb'\ssi="([0-9]+)"')
+_ENTITIES = {"&quot;": '"', "&apos;": "'"}
 _PART_MAX = 16 << 20  # workbook.xml and its relationships are small parts
 _REF = re.compile(
     r"(?<![A-Za-z0-9_$!.])((?:'[^']+'|[A-Za-z_][A-Za-z0-9_.]*)!)?\$?([A-Z]{1,3})\$?([0-9]{1,7})"
@@ -94,32 +104,79 @@ def scan_sheet(path: Path, title: str) -> tuple[bool, frozenset[int]]:
 
 def read_formulas(path: Path, title: str, top: int, left: int, bottom: int, right: int) -> dict[tuple[int, int], str]:
     """The formulas (text after ``=``) in rows ``top..bottom``, columns ``left..right`` of the
-    sheet ``title``, by 1-based ``(row, col)``."""
-    import openpyxl
-    from openpyxl.worksheet.formula import ArrayFormula
+    sheet ``title``, by 1-based ``(row, col)``.
 
-    out: dict[tuple[int, int], str] = {}
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore")
-        wb = openpyxl.load_workbook(path, read_only=True, data_only=False, keep_vba=False,
-                                    keep_links=False)
+    The sheet's XML part is streamed once more and only its formula elements are parsed, at
+    the speed of a byte search (a second pass of openpyxl over a large sheet would cost as much
+    as reading its values). A shared formula's followers get the leader's formula translated to
+    their cell (openpyxl's ``Translator``), as a spreadsheet program shows them.
+    """
+    found: dict[tuple[int, int], str] = {}
+    leaders: dict[bytes, tuple[int, int, str]] = {}
+    followers: list[tuple[int, int, bytes]] = []
     try:
-        ws = wb[title]
-        ws.reset_dimensions()
-        r = top - 1
-        for cells in ws.iter_rows(min_row=top, max_row=None, min_col=left, max_col=right):
-            r += 1
-            if r > bottom:
-                break
-            for j, cell in enumerate(cells):
-                v = getattr(cell, "value", None)
-                if isinstance(v, ArrayFormula):
-                    v = v.text
-                if isinstance(v, str) and v.startswith("="):
-                    out[(r, left + j)] = v[1:]
-    finally:
-        wb.close()
-    return out
+        with zipfile.ZipFile(path) as zf:
+            part = _sheet_part(zf, title)
+            if part is None:
+                return {}
+            for data in _row_chunks(zf, part):
+                _formula_cells(data, found, leaders, followers)
+    except Exception:  # damaged parts were refused when the values were read
+        return {}
+    for r, c, si in followers:
+        if si in leaders:
+            lr, lc, text = leaders[si]
+            found[(r, c)] = _translated(text, lr, lc, r, c)
+    return {(r, c): f for (r, c), f in found.items() if top <= r <= bottom and left <= c <= right}
+
+
+def _row_chunks(zf: zipfile.ZipFile, part: str):
+    """The part's bytes in pieces that end between rows (so no cell is cut in two)."""
+    tail = b""
+    with zf.open(part) as fh:
+        while chunk := fh.read(_CHUNK):
+            data = tail + chunk
+            cut = data.rfind(b"row>") + 4
+            if cut < 4:
+                tail = data
+                continue
+            tail = data[cut:]
+            yield data[:cut]
+    if tail:
+        yield tail
+
+
+def _formula_cells(data: bytes, found: dict[tuple[int, int], str],
+                   leaders: dict[bytes, tuple[int, int, str]], followers: list[tuple[int, int, bytes]]) -> None:
+    """Collect the formula cells of a piece of sheet XML (shared-formula followers apart)."""
+    if not any(data.find(tag) >= 0 for tag in _FORMULA_TAGS):
+        return
+    for m in _CELL_F.finditer(data):
+        ref = _CELL_REF.search(m.group(1) or b"")
+        if ref is None:
+            continue
+        r, c = int(ref.group(2)), column_number(ref.group(1).decode())
+        attrs, text = m.group(2) or b"", m.group(3)
+        si = _SHARED_INDEX.search(attrs) if b"shared" in attrs else None
+        if text:
+            formula = unescape(text.decode("utf-8", "replace"), _ENTITIES)
+            found[(r, c)] = formula
+            if si is not None:
+                leaders[si.group(1)] = (r, c, formula)
+        elif si is not None:
+            followers.append((r, c, si.group(1)))
+
+
+def _translated(text: str, r0: int, c0: int, r: int, c: int) -> str:
+    """A shared formula written at ``(r0, c0)`` as it reads in cell ``(r, c)``."""
+    from openpyxl.formula.translate import Translator
+
+    try:
+        out = Translator("=" + text, origin=f"{column_letters(c0)}{r0}").translate_formula(
+            f"{column_letters(c)}{r}")
+    except Exception:  # a formula the translator cannot parse: the leader's text as it is
+        return text
+    return out[1:] if out.startswith("=") else out
 
 
 def formula_refs(formula: str) -> list[tuple[int, int, int, int]]:

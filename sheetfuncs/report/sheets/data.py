@@ -33,7 +33,7 @@ LogEntry = tuple[str, str, str, str]
 _LABEL = Style(halign="left")
 _KIND_WORDS = {"text": "text", "logical": "logical value", "error": "error value", "date": "date",
                "nan": "not a number", "other": "other"}
-_WIDTHS = (10, 18, 20, 30, 3, 24, 14, 28, 10)
+_WIDTHS = (10, 18, 20, 30, 3, 26, 36, 20, 16)
 #: Values between two progress reports.
 _STEP = 50_000
 
