@@ -27,6 +27,7 @@ from ..source import InputSource
 from .block import PROGRESS_STEP, CellBlock, Progress, cell_block, trim_rows
 from .records import RecordLines, TooManyFields
 from .safety import CFB_MAGIC, ZIP_EMPTY, ZIP_MAGIC, check_file_size
+from .sheetcells import check_area
 
 __all__ = ["csv_value", "detect_delimiter", "read_delimited"]
 
@@ -47,11 +48,13 @@ def read_delimited(
     progress: Progress | None,
     shown: str | None = None,
     max_fields: int | None = None,
+    max_cells: int | None = None,
 ) -> CellBlock:
     """The block of a CSV file's fields (all of it, or the range ``ref``), trimmed.
 
     ``shown`` is the range as the user gave it, for messages; ``max_fields`` limits the fields
-    of one record (``None``: no limit). See :func:`.reader.read_cells`.
+    of one record, ``max_cells`` the block's area (``None``: no limit). See
+    :func:`.reader.read_cells`.
     """
     if max_fields is not None and (isinstance(max_fields, bool) or not isinstance(max_fields, int)
                                    or max_fields < 1):
@@ -67,6 +70,12 @@ def read_delimited(
     rows = _read_records(p, text, delimiter, ref, decimal_comma, progress, max_fields)
     r1 = ref.min_row if ref else 1
     c1 = ref.min_col if ref else 1
+    if max_cells is not None and rows:  # before the rows are padded to the block's width
+        width = max(map(len, rows))
+        if ref is not None and ref.max_col is not None:
+            width = max(width, ref.max_col - ref.min_col + 1)
+        what = f"the range {shown or ref.a1()} of {p.name}" if ref else p.name
+        check_area(what, len(rows), width, max_cells)
     trimmed, _, fr, fc = trim_rows(rows, r1, c1, ref, [])
     if not trimmed:
         what = f"the range {shown or ref.a1()} of {p.name}" if ref else p.name

@@ -129,7 +129,7 @@ def read_cells(
                 "defined names"
             )
         return read_delimited(
-            p, ref, decimal_comma, delimiter, size_limit, progress, shown, max_fields
+            p, ref, decimal_comma, delimiter, size_limit, progress, shown, max_fields, max_cells
         )
     except PermissionError:
         raise InputError(

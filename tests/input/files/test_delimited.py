@@ -265,3 +265,18 @@ def test_fifty_megabytes_on_one_line_is_answered_in_one_line(tmp_path):
         "read it\n"
     )
     assert got.seconds < 30 and got.peak_mb < 1024
+
+
+def test_a_range_far_wider_than_the_file_is_refused_before_it_is_padded(tmp_path):
+    # common practice: a range over every column of a sheet must not build 16,384 cells per row
+    p = tmp_path / "x.csv"
+    p.write_text("A,B\n" + "".join(f"{i},{i + 1}\n" for i in range(2000)))
+    with pytest.raises(InputError) as e:
+        read_groups(p, cell_range="A1:XFD3000")
+    assert e.value.reason == (
+        "the range A1:XFD3000 of x.csv spans 32,784,384 cells, more than the limit of 20,000,000; "
+        "give a smaller --range or raise --max-cells"
+    )
+    with pytest.raises(InputError, match="spans 20,010 cells, more than the limit of 20,000;"):
+        read_groups(p, cell_range="A1:J3000", max_cells=20_000)
+    assert read_groups(p, cell_range="A1:J3000", max_cells=20_010).groups.counts == (2000, 2000)
