@@ -227,6 +227,30 @@ def looks_long(folder: Path) -> Path:
     return folder / "looks_long.xlsx"
 
 
+def gap_row(folder: Path) -> Path:
+    """A skipped sample: a blank row in the middle of the data."""
+    rows: list[list[object]] = [LINES] + [list(r) for r in HARD[:4]] + [[None]] + [list(r) for r in HARD[4:]]
+    wb, _ = _book(rows, "Hardness")
+    wb.save(folder / "gap.xlsx")
+    return folder / "gap.xlsx"
+
+
+def header_apart(folder: Path) -> Path:
+    """The labels, a blank row, then the numbers."""
+    rows: list[list[object]] = [LINES, [None]] + [list(r) for r in HARD]
+    wb, _ = _book(rows, "Hardness")
+    wb.save(folder / "apart.xlsx")
+    return folder / "apart.xlsx"
+
+
+def dated_signoff(folder: Path) -> Path:
+    """A sign-off line with its date under the table, after a blank row."""
+    rows: list[list[object]] = [LINES] + [list(r) for r in HARD] + [[None], ["Checked by:", "J. Doe", 46356.0]]
+    wb, _ = _book(rows, "Hardness")
+    wb.save(folder / "dated_signoff.xlsx")
+    return folder / "dated_signoff.xlsx"
+
+
 def write_csv(path: Path, rows: list[list[object]]) -> Path:
     with open(path, "w", newline="", encoding="utf-8") as fh:
         csv.writer(fh).writerows(rows)
@@ -294,6 +318,15 @@ CASES = [
     Case("looks like the long layout", looks_long,
          error="'Hardness'!A1:B9 looks like the long layout (a column of group labels beside a column "
          "of numbers); give --layout long"),
+    Case("a blank row inside the data", gap_row,
+         error="'Hardness'!A7:C10 under the table 'Hardness'!A1:C5 holds numbers in the same columns "
+               "after a blank row; if they belong to the table give --range 'Hardness'!A1:C10, if not "
+               "give --range 'Hardness'!A1:C5"),
+    Case("labels apart from the numbers", header_apart,
+         error="the labels in 'Hardness'!A1:C1 are separated from the numbers in 'Hardness'!A3:C10 by "
+               "a blank row; give --range 'Hardness'!A1:C10 to read them together (blank rows are "
+               "skipped)"),
+    Case("sign-off with a date under the table", dated_signoff, _HARD, "A1:C9", frozenset({"signoff"})),
     Case("tablets as CSV", tablets_csv, _FILL, "B3:E15", frozenset({"title", "identifier", "summary"})),
     Case("units row as CSV", units_csv, _HARD, "A1:C10", frozenset({"units"})),
     Case("stacked blocks as CSV", stacked_csv, error="stacked.csv holds two tables of the same shape, "

@@ -20,6 +20,7 @@ from collections.abc import Callable
 from dataclasses import replace
 
 from ...errors import InputError
+from ..cells import a1_range
 from ..reading import LeftOut, sheet_ref
 from .block import is_blank
 from .detect_rows import Block, Table, read_rows, row_counts, shape_of
@@ -149,6 +150,7 @@ def detect(
     main = max(numeric, key=lambda b: b.numbers)
     others = [b for b in blocks if b is not main]
     _check_twins(main, others, cells)
+    _check_split(main, others, cells)
     table = read_table(main, cells, layout, labels, formulas)
     left_out = list(table.left_out)
     notes = list(table.notes)
@@ -182,6 +184,38 @@ def _check_twins(main: Block, others: list[Block], cells: SheetCells) -> None:
             )
 
 
+def _check_split(main: Block, others: list[Block], cells: SheetCells) -> None:
+    """Stop when a blank row may have split the table: numbers without a header of their own in
+    the table's columns just below it (a skipped sample?), or a lone row of labels over its
+    columns just above it. Either way the whole table is one ``--range`` away."""
+    for b in others:
+        overlap = b.left <= main.right and b.right >= main.left
+        if not overlap or not b.runs:
+            continue
+        n, nb = b.counts[0]
+        firsts = [vals[0] for _, _, vals in b.runs]
+        words = any(isinstance(v, str) and (summary_word(v) or is_signoff(v)) for v in firsts)
+        below = b.top > main.bottom and n and 2 * n >= nb and not words
+        above = (b.bottom < main.top and b.top == b.bottom and not b.numbers and main.top - b.bottom <= 2
+                 and nb >= max(2, (main.right - main.left + 1) // 2) and b.left >= main.left)
+        if not (below or above):
+            continue
+        whole = sheet_ref(cells.source.sheet, a1_range(
+            min(main.top, b.top), min(main.left, b.left), max(main.bottom, b.bottom),
+            max(main.right, b.right)))
+        part = sheet_ref(cells.source.sheet, b.ref)
+        table = sheet_ref(cells.source.sheet, main.ref)
+        if below:
+            raise InputError(
+                f"{part} under the table {table} holds numbers in the same columns after a blank "
+                f"row; if they belong to the table give --range {whole}, if not give --range {table}"
+            )
+        raise InputError(
+            f"the labels in {part} are separated from the numbers in {table} by a blank row; give "
+            f"--range {whole} to read them together (blank rows are skipped)"
+        )
+
+
 def _other_block(b: Block, main: Block, cells: SheetCells) -> tuple[LeftOut, str | None]:
     """The entry for a block that is not the table, and a note for a block of numbers."""
     firsts = [vals[0] for _, _, vals in b.runs]
@@ -191,11 +225,11 @@ def _other_block(b: Block, main: Block, cells: SheetCells) -> tuple[LeftOut, str
     ) and b.top > main.bottom:
         names = ", ".join(dict.fromkeys(v.strip() for v in firsts if isinstance(v, str)))
         return LeftOut.of(b.cells(), f"summary rows ({names})", "summary"), None
+    if any(is_signoff(v) for v in firsts) and b.top > main.bottom:  # names, dates: not data
+        return LeftOut.of(b.cells(), "sign-off line", "signoff"), None
     if b.numbers:
         note = f"another block at {where} was not read; give --range {where} to read it instead"
         return LeftOut.of(b.cells(), "another block, not read", "other-block"), note
-    if any(is_signoff(v) for v in firsts):
-        return LeftOut.of(b.cells(), "sign-off line", "signoff"), None
     if b.bottom < main.top:
         return LeftOut.of(b.cells(), "title or note above the table", "title"), None
     return LeftOut.of(b.cells(), "note outside the table", "note"), None

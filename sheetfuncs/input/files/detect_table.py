@@ -19,7 +19,7 @@ from ..reading import sheet_ref
 from .detect_rows import Account, Block, Rows, Table, column_stats, is_label, lot_row, read_rows
 from .block import is_blank
 from .sheetcells import SheetCells
-from .words import is_identifier_header, is_unit_row, summary_word
+from .words import is_comment_header, is_identifier_header, is_unit_row, summary_word
 
 __all__ = ["read_table"]
 
@@ -126,8 +126,10 @@ def _sort_columns(rows: Rows, stats: dict[int, Any], head: int | None, n_data: i
         elif not st.numbers and not st.others:
             if st.texts:
                 text_cols.append(c)
-            what = "date column" if st.dates and not st.texts else "label column"
-            acc.column(c, f"{what} ({name})" if name else what, "identifier")
+            what = ("date column" if st.dates and not st.texts
+                    else "comment column" if is_comment_header(title) else "label column")
+            acc.column(c, f"{what} ({name})" if name else what,
+                       "comment" if what == "comment column" else "identifier")
         else:
             value_cols.append(c)
     if not value_cols:

@@ -92,6 +92,16 @@ def is_identifier_header(v: Any) -> bool:
     return len(words) > 1 or words[0] not in _WEAK
 
 
+#: Headers of a column of remarks (``Comment``, ``Notes``, ``Remarks:``).
+COMMENT_WORDS = frozenset({"comment", "comments", "note", "notes", "remark", "remarks", "observation",
+                           "observations", "deviation", "deviations", "remarque", "bemerkung"})
+
+
+def is_comment_header(v: Any) -> bool:
+    """Whether a header names a column of remarks (``Comment``, ``Notes``, ``Remarks``)."""
+    return isinstance(v, str) and _key(v) in COMMENT_WORDS
+
+
 def is_signoff(v: Any) -> bool:
     """Whether a cell begins a sign-off line (``Checked by:``, ``Approved by``, ``Signature``)."""
     return isinstance(v, str) and _SIGNOFF.match(v.strip()) is not None

@@ -191,3 +191,24 @@ def test_an_error_saved_by_libreoffice_is_missing_not_a_computed_measurement(tmp
     assert [(x.ref, x.kind) for x in loaded.reading.left_out if x.kind == "missing"] == [("C5", "missing")]
     assert not any("computed by formulas" in n for n in loaded.reading.notes)
     assert loaded.reading.balanced
+
+
+def test_date_and_comment_columns_are_named_for_what_they_hold(tmp_path):
+    # invented fill weights with a date per sample and a comment on one row
+    import datetime as dt
+
+    import openpyxl
+
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.append(["Fill weights (invented data)"])
+    ws.append(["Date", "Head 1", "Head 2", "Comment"])
+    for i, (a, b) in enumerate([(50.1, 50.6), (50.3, 50.9), (50.0, 50.7), (50.2, 50.8)]):
+        ws.append([dt.datetime(2026, 11, i + 1), a, b] + (["re-weighed"] if i == 2 else []))
+    wb.save(tmp_path / "dated.xlsx")
+    r = read_groups(tmp_path / "dated.xlsx").reading
+    assert [(x.ref, x.reason, x.kind) for x in r.left_out] == [
+        ("A1", "title or note above the table", "title"),
+        ("A2:A6", "date column (Date)", "identifier"),
+        ("D2:D5", "comment column (Comment)", "comment"),
+    ]
