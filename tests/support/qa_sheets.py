@@ -251,6 +251,15 @@ def dated_signoff(folder: Path) -> Path:
     return folder / "dated_signoff.xlsx"
 
 
+def text_numbers(folder: Path) -> Path:
+    """One line's hardness typed as text (an import gone wrong): leaving the column out would
+    drop a group without a word."""
+    rows: list[list[object]] = [LINES] + [[a, b, str(c)] for a, b, c in HARD]
+    wb, _ = _book(rows, "Hardness")
+    wb.save(folder / "text_numbers.xlsx")
+    return folder / "text_numbers.xlsx"
+
+
 def write_csv(path: Path, rows: list[list[object]]) -> Path:
     with open(path, "w", newline="", encoding="utf-8") as fh:
         csv.writer(fh).writerows(rows)
@@ -326,6 +335,10 @@ CASES = [
          error="the labels in 'Hardness'!A1:C1 are separated from the numbers in 'Hardness'!A3:C10 by "
                "a blank row; give --range 'Hardness'!A1:C10 to read them together (blank rows are "
                "skipped)"),
+    Case("numbers stored as text", text_numbers,
+         error="the column 'Hardness'!C1:C9 (\"Line C\") holds numbers stored as text, which a "
+               "spreadsheet's own functions skip; convert them to numbers in the sheet (or give a "
+               "--range without that column)"),
     Case("sign-off with a date under the table", dated_signoff, _HARD, "A1:C9", frozenset({"signoff"})),
     Case("tablets as CSV", tablets_csv, _FILL, "B3:E15", frozenset({"title", "identifier", "summary"})),
     Case("units row as CSV", units_csv, _HARD, "A1:C10", frozenset({"units"})),

@@ -11,6 +11,7 @@ with its address and reason.
 from __future__ import annotations
 
 import decimal
+import re
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -197,10 +198,15 @@ class ColStat:
     hi: float = 0.0
     consecutive: bool = False
     repeats: bool = False
+    numeric_texts: int = 0
 
     @property
     def numbers_only(self) -> bool:
         return not (self.texts or self.dates or self.others)
+
+
+#: Text that reads as a number (a number stored as text: ``"49.8"``, ``"1,5"``, ``"-2e3"``).
+_NUMBER_TEXT = re.compile(r"^[+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][+-]?\d+)?$")
 
 
 def _stat(col: tuple[Any, ...]) -> ColStat:
@@ -226,6 +232,7 @@ def _stat(col: tuple[Any, ...]) -> ColStat:
         nums = np.array(values, dtype=np.float64)
         st.texts = len(texts)
         st.repeats = len(set(texts)) < len(texts)
+        st.numeric_texts = sum(1 for t in texts if _NUMBER_TEXT.match(t))
     st.numbers = int(nums.size)
     if nums.size and np.isfinite(nums).all():
         st.lo, st.hi = float(nums.min()), float(nums.max())

@@ -99,6 +99,19 @@ def _lot_header(rows: Rows, cells: SheetCells, labels: str, h: int | None, r0: i
     return r0, data[1:]
 
 
+def _numbers_as_text(rows: Rows, cells: SheetCells, c: int, name: str | None) -> InputError:
+    """A column whose cells are numbers stored as text: the spreadsheet's own functions skip
+    them, and so would the range rules; leaving the column out would drop a group silently."""
+    b = rows.block
+    where = sheet_ref(cells.source.sheet, a1_range(b.top, c, b.bottom, c))
+    what = f' ("{name}")' if name else ""
+    return InputError(
+        f"the column {where}{what} holds numbers stored as text, which a spreadsheet's own "
+        "functions skip; convert them to numbers in the sheet (or give a --range without that "
+        "column)"
+    )
+
+
 def _numbered(stats: dict[int, Any], c: int, n_data: int) -> bool:
     """Whether column ``c`` numbers the rows: the first column, a run of consecutive whole
     numbers (step 1) in every one of at least 3 data rows, with another column of numbers."""
@@ -124,6 +137,8 @@ def _sort_columns(rows: Rows, stats: dict[int, Any], head: int | None, n_data: i
         elif not (st.numbers or st.others or st.texts or st.dates) and name:
             value_cols.append(c)  # a labelled column without values: the range rules say so
         elif not st.numbers and not st.others:
+            if st.texts and 2 * st.numeric_texts >= st.texts:
+                raise _numbers_as_text(rows, cells, c, name)
             if st.texts:
                 text_cols.append(c)
             what = ("date column" if st.dates and not st.texts
