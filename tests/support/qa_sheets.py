@@ -260,6 +260,15 @@ def text_numbers(folder: Path) -> Path:
     return folder / "text_numbers.xlsx"
 
 
+def replicate_columns(folder: Path) -> Path:
+    """Assay of three lots, one row per lot, columns headed Rep 1-3: the rows are the groups."""
+    rows: list[list[object]] = [["Lot", "Rep 1", "Rep 2", "Rep 3"], ["L1", 98.1, 98.4, 97.9],
+                                ["L2", 99.0, 98.8, 99.2], ["L3", 98.5, 98.2, 98.6]]
+    wb, _ = _book(rows, "Assay")
+    wb.save(folder / "replicates.xlsx")
+    return folder / "replicates.xlsx"
+
+
 def write_csv(path: Path, rows: list[list[object]]) -> Path:
     with open(path, "w", newline="", encoding="utf-8") as fh:
         csv.writer(fh).writerows(rows)
@@ -339,6 +348,13 @@ CASES = [
          error="the column 'Hardness'!C1:C9 (\"Line C\") holds numbers stored as text, which a "
                "spreadsheet's own functions skip; convert them to numbers in the sheet (or give a "
                "--range without that column)"),
+    Case("replicate columns, a lot per row", replicate_columns,
+         error="the columns headed 'Assay'!B1:D1 look like replicates, and column A holds a label "
+               "for each row: if each row is a group, give --layout rowwise; if each column is, give "
+               "--range 'Assay'!B1:D4"),
+    Case("replicate columns read rowwise", replicate_columns,
+         {"L1": [98.1, 98.4, 97.9], "L2": [99.0, 98.8, 99.2], "L3": [98.5, 98.2, 98.6]}, "A2:D4",
+         frozenset(), layout="rowwise"),
     Case("sign-off with a date under the table", dated_signoff, _HARD, "A1:C9", frozenset({"signoff"})),
     Case("tablets as CSV", tablets_csv, _FILL, "B3:E15", frozenset({"title", "identifier", "summary"})),
     Case("units row as CSV", units_csv, _HARD, "A1:C10", frozenset({"units"})),

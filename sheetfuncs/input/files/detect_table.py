@@ -19,7 +19,9 @@ from ..reading import sheet_ref
 from .detect_rows import Account, Block, Rows, Table, column_stats, is_label, lot_row, read_rows
 from .block import is_blank
 from .sheetcells import SheetCells
-from .words import is_comment_header, is_identifier_header, is_unit_row, summary_word
+from .words import (
+    is_comment_header, is_identifier_header, is_replicate_heading, is_unit_row, summary_word,
+)
 
 __all__ = ["read_table"]
 
@@ -156,7 +158,25 @@ def _sort_columns(rows: Rows, stats: dict[int, Any], head: int | None, n_data: i
             f"{where} looks like the long layout (a column of group labels beside a column of "
             "numbers); give --layout long"
         )
+    _check_replicates(rows, cells, head, value_cols, text_cols, stats)
     return value_cols
+
+
+def _check_replicates(rows: Rows, cells: SheetCells, head: int | None, value_cols: list[int],
+                      text_cols: list[int], stats: dict[int, Any]) -> None:
+    """Stop when the columns are headed as replicates (``Rep 1``, ``Run 2``, ``3``) beside a
+    column with a label per row: the rows are then likely the groups (``--layout rowwise``)."""
+    if head is None or len(text_cols) != 1 or stats[text_cols[0]].repeats or len(value_cols) < 2:
+        return
+    titles = [rows.value(head, c) for c in value_cols]
+    if all(isinstance(t, str) and is_replicate_heading(t) for t in titles):
+        where = _where(cells, head, min(value_cols), head, max(value_cols))
+        block = _where(cells, head, min(value_cols), rows.block.bottom, max(value_cols))
+        raise InputError(
+            f"the columns headed {where} look like replicates, and column "
+            f"{column_letters(text_cols[0])} holds a label for each row: if each row is a group, "
+            f"give --layout rowwise; if each column is, give --range {block}"
+        )
 
 
 def _header(rows: Rows, cells: SheetCells, labels: str, h: int | None, r0: int, data: list[int],

@@ -102,6 +102,17 @@ def is_comment_header(v: Any) -> bool:
     return isinstance(v, str) and _key(v) in COMMENT_WORDS
 
 
+_REPLICATE = re.compile(
+    r"^(?:(?:rep(?:licate)?|run|meas(?:urement)?|reading|trial|test|determination|n|r|x)"
+    r"\.?\s*(?:no\.?|#)?\s*)?\d{1,3}$", re.IGNORECASE,
+)
+
+
+def is_replicate_heading(v: Any) -> bool:
+    """Whether a column heading numbers a replicate (``Rep 1``, ``Run 2``, ``Reading #3``, ``4``)."""
+    return isinstance(v, str) and _REPLICATE.match(v.strip()) is not None
+
+
 def is_signoff(v: Any) -> bool:
     """Whether a cell begins a sign-off line (``Checked by:``, ``Approved by``, ``Signature``)."""
     return isinstance(v, str) and _SIGNOFF.match(v.strip()) is not None
