@@ -8,23 +8,31 @@ by :mod:`sheetfuncs.udfs`), :mod:`~sheetfuncs.report` (the headless report write
 :mod:`~sheetfuncs.cli` (the command line). This module is the public API of the library.
 """
 
-from .errors import InputError
-from .input import CellNote, Groups, as_groups, groups_from_long, groups_from_range
-from .distributions import f_critical, f_tail
-from .stats import OneWayResult, oneway, oneway_from_summary
-from .stats import ContrastResult, LinearTestResult, contrast, linear_test
-from .stats import DescribeResult, GroupSummary, describe
-from .stats import BrownForsytheResult, KruskalResult, WelchResult, brown_forsythe, kruskal, welch
-from .stats import (
-    BartlettResult, ChecksResult, LeveneResult, NormalityResult, bartlett, checks, levene,
-    shapiro_residuals,
-)
-from .stats import PairRow, PairwiseResult, dunnett, pairwise
-from .stats import LettersResult, letters
-from .stats import EffectSizes, effect_sizes
-from .stats import PowerPlan, detectable_effect, plan, power, sample_size
-from .stats import VarianceComponents, variance_components
-from .input import CellBlock, LoadedGroups, read_cells, read_groups
+from importlib import import_module
+from typing import Any
+
+#: Where each public name lives; imported on first use (PEP 562), so that ``import sheetfuncs``
+#: and the command line start without loading numpy and scipy first (and Ctrl-C during start-up
+#: is one line, see :mod:`sheetfuncs.__main__`).
+_EXPORTS = {
+    "InputError": ".errors",
+    "CellNote": ".input", "Groups": ".input", "as_groups": ".input", "groups_from_long": ".input",
+    "groups_from_range": ".input", "CellBlock": ".input", "LoadedGroups": ".input",
+    "read_cells": ".input", "read_groups": ".input",
+    "f_critical": ".distributions", "f_tail": ".distributions",
+    "OneWayResult": ".stats", "oneway": ".stats", "oneway_from_summary": ".stats",
+    "ContrastResult": ".stats", "LinearTestResult": ".stats", "contrast": ".stats",
+    "linear_test": ".stats", "DescribeResult": ".stats", "GroupSummary": ".stats",
+    "describe": ".stats", "BrownForsytheResult": ".stats", "KruskalResult": ".stats",
+    "WelchResult": ".stats", "brown_forsythe": ".stats", "kruskal": ".stats", "welch": ".stats",
+    "BartlettResult": ".stats", "ChecksResult": ".stats", "LeveneResult": ".stats",
+    "NormalityResult": ".stats", "bartlett": ".stats", "checks": ".stats", "levene": ".stats",
+    "shapiro_residuals": ".stats", "PairRow": ".stats", "PairwiseResult": ".stats",
+    "dunnett": ".stats", "pairwise": ".stats", "LettersResult": ".stats", "letters": ".stats",
+    "EffectSizes": ".stats", "effect_sizes": ".stats", "PowerPlan": ".stats",
+    "detectable_effect": ".stats", "plan": ".stats", "power": ".stats", "sample_size": ".stats",
+    "VarianceComponents": ".stats", "variance_components": ".stats",
+}
 
 __version__ = "0.1.0"
 
@@ -48,3 +56,21 @@ __all__ = [
     "VarianceComponents", "variance_components",
     "__version__",
 ]
+
+
+def __getattr__(name: str) -> Any:
+    """A public name (imported from its module on first use), or a sub-package such as
+    ``sheetfuncs.stats``."""
+    module = _EXPORTS.get(name)
+    if module is not None:
+        value = getattr(import_module(module, __name__), name)
+        globals()[name] = value
+        return value
+    try:
+        return import_module(f".{name}", __name__)
+    except ModuleNotFoundError:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}") from None
+
+
+def __dir__() -> list[str]:
+    return sorted(set(globals()) | set(__all__))

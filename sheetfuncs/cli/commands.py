@@ -56,13 +56,13 @@ def main(argv: Sequence[str] | None = None) -> int:
     report; with the environment variable ``SHEETFUNCS_DEBUG=1`` the traceback is printed
     first); 130 interrupted by Ctrl-C (one line on stderr; no output file is left behind).
     """
-    parser = build_parser()
-    try:
-        args = parse_args(parser, None if argv is None else list(argv))
-    except SystemExit as e:  # --help, --version (0) and usage errors (2)
-        return e.code if isinstance(e.code, int) else (0 if e.code is None else 2)
     previous = sys.unraisablehook
     try:
+        parser = build_parser()
+        try:
+            args = parse_args(parser, None if argv is None else list(argv))
+        except SystemExit as e:  # --help, --version (0) and usage errors (2)
+            return e.code if isinstance(e.code, int) else (0 if e.code is None else 2)
         return _run(parser, args)
     except KeyboardInterrupt:
         # Generators left open by the interrupted writer (openpyxl's write-only sheets) are

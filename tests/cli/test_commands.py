@@ -14,7 +14,7 @@ from pathlib import Path
 
 import pytest
 
-from sheetfuncs.cli import build_parser, main
+from sheetfuncs.cli import build_parser
 from sheetfuncs.cli import commands
 from sheetfuncs.cli.commands import COMMANDS
 from tests.support.cli import DEMO_BOOK, ROOT, problem_files, run, small_csv, strict_json, write_csv
@@ -103,10 +103,44 @@ def test_a_file_system_error_is_one_line(tmp_path, capsys, monkeypatch):
 # the console script and python -m sheetfuncs
 
 
-def test_console_script_is_main():
+def test_console_script_runs_main(monkeypatch):
     meta = tomllib.loads((ROOT / "pyproject.toml").read_text(encoding="utf-8"))
     module, name = meta["project"]["scripts"]["sheetfuncs"].split(":")
-    assert getattr(import_module(module), name) is main
+    script = getattr(import_module(module), name)
+    import sheetfuncs.cli
+
+    monkeypatch.setattr(sheetfuncs.cli, "main", lambda: 42)
+    assert script() == 42  # the script loads the command line, then runs its main
+
+
+def test_ctrl_c_while_the_command_line_loads_is_one_line(tmp_path):
+    # an interrupt raised while the command line is still being imported
+    code = (
+        "import builtins, sys\n"
+        "real = builtins.__import__\n"
+        "def imp(name, *a, **k):\n"
+        "    if name == 'cli' or name.endswith('.cli'):\n"
+        "        raise KeyboardInterrupt\n"
+        "    return real(name, *a, **k)\n"
+        "builtins.__import__ = imp\n"
+        "from sheetfuncs.__main__ import run\n"
+        "sys.exit(run())\n"
+    )
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    done = subprocess.run([sys.executable, "-c", code], cwd=tmp_path, env=env, capture_output=True,
+                          text=True, timeout=60)
+    assert (done.returncode, done.stdout, done.stderr) == (130, "", "sheetfuncs: interrupted\n")
+
+
+def test_import_sheetfuncs_loads_no_numerics(tmp_path):
+    # the public names are loaded on first use, so the command line starts (and can be
+    # interrupted) before numpy and scipy load
+    code = ("import sys, sheetfuncs; assert 'numpy' not in sys.modules and 'scipy' not in sys.modules; "
+            "print(sheetfuncs.oneway({'A': [1, 2], 'B': [3, 5]}).df_within, 'numpy' in sys.modules)")
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    done = subprocess.run([sys.executable, "-c", code], cwd=tmp_path, env=env, capture_output=True,
+                          text=True, timeout=60)
+    assert (done.returncode, done.stdout) == (0, "2 True\n"), done.stderr
 
 
 def _py(*args: str, cwd: Path) -> subprocess.CompletedProcess:
