@@ -173,9 +173,9 @@ def test_errors_missing_merge_case_and_rename_on_the_command_line(tmp_path, caps
     path = str(na_csv(tmp_path))
     code, out, err = run(["table", path], capsys)
     assert code == 1 and err == (
-        "sheetfuncs: the data hold the error #N/A at row 3, column 1 of the range (and 1 more); "
-        "fix or clear that cell (cell A3 of fill.csv); or, to read error cells as missing values, "
-        'give --errors missing (Python: errors="missing")\n'
+        "sheetfuncs: the data hold the error #N/A at A3 of fill.csv (and 1 more); fix or clear "
+        "that cell; or, to read error cells as missing values, give --errors missing (Python: "
+        'errors="missing")\n'
     )
     code, out, err = run(["table", path, "--json", "--errors", "missing"], capsys)
     assert code == 0, err

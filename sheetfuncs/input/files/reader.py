@@ -18,7 +18,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any, TypedDict
 
 from ...errors import InputError
-from ..cells import ERROR_TEXTS, RangeRef, a1_range, error_text, parse_range
+from ..cells import ERROR_TEXTS, RangeRef, a1_range, cell_position, error_text, parse_range
 from ..groups import Groups
 from ..labels import relabel
 from ..ranges import groups_from_range, parse_labels, parse_layout
@@ -241,7 +241,7 @@ def _read_detected(
               and found.left <= c <= found.right and (r, c) not in found.blanked]
     if inside:
         check_formulas(p, cells.source.sheet or "", inside, block.source)
-    groups = _clean(path, block, lay, found.labels, errors)
+    groups = _clean(path, block, lay, found.labels, errors, found=True)
     base = range_reading(block, groups)
     left_out = found.left_out + base.left_out
     n_out = sum(len(x.cells) for x in left_out)
@@ -287,8 +287,10 @@ def _sheet_cells(path: str | os.PathLike[str], options: dict[str, Any]) -> Sheet
     return replace(cells, notes=notes + cells.notes) if notes else cells
 
 
-def _clean(path: str | os.PathLike[str], block: CellBlock, layout: Any, labels: Any, errors: str) -> Groups:
-    """``groups_from_range`` on a block, its messages given the sheet address and file name."""
+def _clean(path: str | os.PathLike[str], block: CellBlock, layout: Any, labels: Any, errors: str,
+           found: bool = False) -> Groups:
+    """``groups_from_range`` on a block, its messages given the sheet address and file name
+    (for a block ``found`` on the sheet, in place of a position in a range nobody gave)."""
     if layout in ("wide", "long") and block.n_rows == 1 and all(
         isinstance(v, str) and v not in ERROR_TEXTS for v in block.rows[0] if not is_blank(v)
     ):
@@ -308,6 +310,10 @@ def _clean(path: str | os.PathLike[str], block: CellBlock, layout: Any, labels: 
                     error_text(block.rows[r][c]) is not None and "label" not in e.reason:
                 hint = ("; or, to read error cells as missing values, give --errors missing "
                         '(Python: errors="missing")')
+            at = f"{cell_position(r, c)} of the range"
+            if found and at in e.reason:
+                reason = e.reason.replace(at, f"{where} of {Path(path).name}", 1)
+                raise InputError(reason + hint, cells=e.cells) from None
             raise InputError(
                 f"{e.reason} (cell {where} of {Path(path).name}){hint}", cells=e.cells
             ) from None

@@ -113,7 +113,7 @@ def test_logical_values_dates_and_durations_in_a_workbook(tmp_path):
     assert g.counts == (2, 3) and g.cells[0].kind == "logical"
     path = make_book(tmp_path / "date.xlsx", {"S": [["A", "B"], [1.0, dt.datetime(2024, 3, 5)],
                                                    [1.1, 2.0], [1.3, 2.2]]})
-    with pytest.raises(InputError, match=r"dates are not measurements.*'S'!B2 of date\.xlsx"):
+    with pytest.raises(InputError, match=r"a date at 'S'!B2 of date\.xlsx: dates are not measurements"):
         read_groups(path)
     path = make_book(tmp_path / "dur.xlsx", {"S": [["A", "B"], [1.0, dt.timedelta(minutes=5)],
                                                   [1.1, 2.0]]})
