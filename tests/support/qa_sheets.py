@@ -269,6 +269,15 @@ def replicate_columns(folder: Path) -> Path:
     return folder / "replicates.xlsx"
 
 
+def counted_first(folder: Path) -> Path:
+    """Defect counts per panel on two lines; line 1's counts happen to run 5, 6, 7, ...: sample
+    numbers or measurements?"""
+    rows: list[list[object]] = [["Line 1", "Line 2"]] + [[5 + i, 6.0 + i % 3] for i in range(6)]
+    wb, _ = _book(rows, "Defects")
+    wb.save(folder / "counted.xlsx")
+    return folder / "counted.xlsx"
+
+
 def write_csv(path: Path, rows: list[list[object]]) -> Path:
     with open(path, "w", newline="", encoding="utf-8") as fh:
         csv.writer(fh).writerows(rows)
@@ -355,6 +364,10 @@ CASES = [
     Case("replicate columns read rowwise", replicate_columns,
          {"L1": [98.1, 98.4, 97.9], "L2": [99.0, 98.8, 99.2], "L3": [98.5, 98.2, 98.6]}, "A2:D4",
          frozenset(), layout="rowwise"),
+    Case("a group whose values run 5, 6, 7", counted_first,
+         error='column A ("Line 1") holds the consecutive whole numbers 5 to 10: if they number the '
+               "rows give --range 'Defects'!B1:B7, if they are measurements give --range "
+               "'Defects'!A1:B7"),
     Case("sign-off with a date under the table", dated_signoff, _HARD, "A1:C9", frozenset({"signoff"})),
     Case("tablets as CSV", tablets_csv, _FILL, "B3:E15", frozenset({"title", "identifier", "summary"})),
     Case("units row as CSV", units_csv, _HARD, "A1:C10", frozenset({"units"})),

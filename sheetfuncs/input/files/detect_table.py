@@ -20,7 +20,8 @@ from .detect_rows import Account, Block, Rows, Table, column_stats, is_label, lo
 from .block import is_blank
 from .sheetcells import SheetCells
 from .words import (
-    is_comment_header, is_identifier_header, is_replicate_heading, is_unit_row, summary_word,
+    is_comment_header, is_identifier_header, is_replicate_heading, is_row_heading, is_unit_row,
+    summary_word,
 )
 
 __all__ = ["read_table"]
@@ -114,6 +115,18 @@ def _numbers_as_text(rows: Rows, cells: SheetCells, c: int, name: str | None) ->
     )
 
 
+def _numbered_or_data(rows: Rows, cells: SheetCells, c: int, name: str, st: Any) -> InputError:
+    """A first column headed like a group whose values run 1, 2, 3, ...: sample numbers or
+    measurements? Either reading is one ``--range`` away."""
+    b = rows.block
+    return InputError(
+        f'column {column_letters(c)} ("{name}") holds the consecutive whole numbers '
+        f"{st.lo:g} to {st.hi:g}: if they number the rows give --range "
+        f"{_where(cells, b.top, c + 1, b.bottom, b.right)}, if they are measurements give "
+        f"--range {_where(cells, b.top, b.left, b.bottom, b.right)}"
+    )
+
+
 def _numbered(stats: dict[int, Any], c: int, n_data: int) -> bool:
     """Whether column ``c`` numbers the rows: the first column, a run of consecutive whole
     numbers (step 1) in every one of at least 3 data rows, with another column of numbers."""
@@ -132,7 +145,10 @@ def _sort_columns(rows: Rows, stats: dict[int, Any], head: int | None, n_data: i
     for c, st in sorted(stats.items()):
         title = rows.value(head, c) if head is not None else None
         name = format_label(title) if is_label(title) else None
-        if is_identifier_header(title) or _numbered(stats, c, n_data):
+        numbered = _numbered(stats, c, n_data)
+        if numbered and name is not None and not (is_identifier_header(title) or is_row_heading(title)):
+            raise _numbered_or_data(rows, cells, c, name, stats[c])
+        if is_identifier_header(title) or numbered:
             acc.column(c, f"identifier column ({name})" if name else "identifier column", "identifier")
         elif summary_word(title) or c in rows.summary_cols:
             acc.column(c, f"summary column ({name})" if name else "summary column", "summary")

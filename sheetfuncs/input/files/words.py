@@ -113,6 +113,20 @@ def is_replicate_heading(v: Any) -> bool:
     return isinstance(v, str) and _REPLICATE.match(v.strip()) is not None
 
 
+#: Words of a heading that labels rows rather than a group (``Lot``, ``Batch``, ``Day 1-12``).
+ROW_WORDS = frozenset({"lot", "lots", "batch", "batches", "day", "days", "week", "shift", "hour",
+                       "month", "year", "time", "date", "order", "order no"})
+
+
+def is_row_heading(v: Any) -> bool:
+    """Whether a heading labels rows (``Lot``, ``Batch no``, ``Day``): with consecutive whole
+    numbers under it, the column numbers the rows."""
+    if not isinstance(v, str) or len(v) > 40:
+        return False
+    words = [w for w in _SPLIT.split(_key(v)) if w]
+    return bool(words) and words[0] in ROW_WORDS
+
+
 def is_signoff(v: Any) -> bool:
     """Whether a cell begins a sign-off line (``Checked by:``, ``Approved by``, ``Signature``)."""
     return isinstance(v, str) and _SIGNOFF.match(v.strip()) is not None

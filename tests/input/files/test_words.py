@@ -5,8 +5,8 @@ sign-off lines)."""
 from __future__ import annotations
 
 from sheetfuncs.input.files.words import (
-    is_comment_header, is_identifier_header, is_replicate_heading, is_signoff, is_unit_row,
-    summary_word,
+    is_comment_header, is_identifier_header, is_replicate_heading, is_row_heading, is_signoff,
+    is_unit_row, summary_word,
 )
 
 
@@ -18,6 +18,8 @@ def test_summary_words():
 def test_identifier_comment_and_replicate_headings():
     assert is_identifier_header("Sample no") and is_identifier_header("#")
     assert not is_identifier_header("Run 1")
+    assert is_row_heading("Lot") and is_row_heading("Batch no") and is_row_heading("Day")
+    assert not is_row_heading("Line 1") and not is_row_heading("Head 2")
     assert is_comment_header("Comments") and is_comment_header("Remarks:")
     assert not is_comment_header("Comment on line 2")
     assert all(map(is_replicate_heading, ["Rep 1", "Replicate 2", "Run #3", "Reading 4", "5"]))
