@@ -1,0 +1,136 @@
+"""The worksheet functions through xlwings' own Windows code (xlwings 0.37.8, ``udfs``,
+``com_server``, ``conversion``), with stand-ins only for pywin32 and one COM Range object
+(tests/support/xlwings_com.py): its "Import Functions" VBA generation, and every example called
+through its real call path, compared with the harness. The real path is the reference.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+import types
+from typing import Any
+
+import pytest
+
+from sheetfuncs.worksheet import harness
+from sheetfuncs.worksheet.docs import resolve
+from sheetfuncs.worksheet.functions import EXAMPLE_SHEET, REGISTRY
+from sheetfuncs.worksheet.registry import DIALOG_LIMIT, MISSING, Ref
+from tests.support.xlwings_com import MODULE, VBA_MISSING, ComRange
+from tests.support.xlwings_engine import com_value
+
+# VBA reserved words (keywords and statements that cannot name a procedure or an argument), from
+# the VBA language reference (from memory; the words a short function or argument name could hit).
+VBA_RESERVED = frozenset("""
+and as boolean byref byte byval call case const currency date decimal declare dim do double each
+else elseif empty end enum eqv erase error event exit false for friend function get global gosub
+goto if imp implements in integer is let lib like long loop lset me mod new next not nothing null
+on option optional or paramarray preserve private property public raiseevent redim rem resume
+return rset select set single static step stop string sub then to true type typeof until variant
+wend while with withevents xor
+""".split())
+# Excel built-in worksheet functions whose names a statistics function or argument could take,
+# from Excel's function reference (from memory).
+EXCEL_BUILTINS = frozenset("""
+average avedev count counta f.dist f.dist.rt f.inv f.inv.rt f.test fdist finv ftest devsq stdev
+stdev.s stdev.p var var.s var.p t.test ttest t.dist t.inv t.inv.2t chisq.test confidence
+confidence.t index match sum sumsq min max median mode rank percentile quartile norm.dist
+norm.s.inv linest trend growth forecast correl pearson rsq slope intercept steyx skew kurt
+standardize z.test ztest large small frequency power sqrt exp ln log sort unique filter sequence let lambda value text
+n t na na error.type type
+""".split())
+# Argument names that are also Excel function names, known and harmless: a VBA parameter lives in
+# its procedure's own scope, and Excel's N() and POWER() are reached from VBA only through
+# WorksheetFunction, so the wrappers compile and call as usual (renaming them would change
+# public argument names). Any other clash fails.
+ALLOWED_ARGUMENTS = frozenset({"n", "power"})
+# 0.37.8 is the version these tests ran on; 0.38 may change what they rely on (pyproject pins
+# xlwings below it).
+VERIFIED = "0.37.8"
+
+
+class _Components:
+    """The workbook's VBComponents: ``VBComponents("xlwings_udfs")`` finds one, ``Remove`` and
+    ``Import`` (which keeps the text of the VBA module it is given)."""
+
+    def __init__(self, seen: dict[str, Any]) -> None:
+        self.seen = seen
+
+    def __call__(self, name: str) -> str:
+        return name
+
+    def Remove(self, component: str) -> None:
+        self.seen["removed"] = component
+
+    def Import(self, path: str) -> None:
+        with open(path, encoding="utf-8") as fh:
+            self.seen["vba"] = fh.read()
+
+
+@pytest.fixture(scope="module")
+def imported(xlwings_com) -> dict[str, Any]:
+    """What xlwings' "Import Functions" (``udfs.import_udfs``) writes for ``sheetfuncs.udfs``
+    into a stand-in workbook: the VBA module and every MacroOptions call."""
+    seen: dict[str, Any] = {"options": []}
+    app = types.SimpleNamespace(Version="16.0", MacroOptions=lambda macro, **kw: seen["options"].append((macro, kw)))
+    book = types.SimpleNamespace(
+        Name="sheetfuncs.xlsm", VBProject=types.SimpleNamespace(VBComponents=_Components(seen)), Application=app,
+    )
+    xlwings_com.udfs.import_udfs(MODULE, book)
+    assert seen["removed"] == "xlwings_udfs"
+    return seen
+
+
+def test_xlwings_version_is_the_verified_one() -> None:
+    import xlwings
+
+    assert xlwings.__version__ == VERIFIED, (
+        f"these tests were verified on xlwings {VERIFIED}, not {xlwings.__version__}; run them and "
+        "widen the bound in pyproject.toml"
+    )
+
+
+def test_vba_generated_for_every_function(imported) -> None:
+    vba: str = imported["vba"]
+    declared = re.findall(r"^Function (SF_\w+)\(", vba, flags=re.M)
+    assert declared == sorted(REGISTRY), "xlwings declares the functions in dir() order"
+    assert len(imported["options"]) == len(REGISTRY)
+    assert sorted(m.split("!")[1] for m, _ in imported["options"]) == sorted(REGISTRY)
+    for name in REGISTRY:
+        assert f'{name} = XLPy.CallUDF("{MODULE}", "{name}", ' in vba
+    print(f"\nxlwings {VERIFIED}: {len(declared)} functions, {len(vba.splitlines())} VBA lines, "
+          f"{len(imported['options'])} MacroOptions calls")
+
+
+def test_no_vba_reserved_word_or_excel_function_name(imported) -> None:
+    vba: str = imported["vba"]
+    for line in re.findall(r"^Function (SF_\w+)\((.*)\)$", vba, flags=re.M):
+        name, params = line
+        words = [name] + [p.replace("Optional ", "").strip() for p in params.split(",") if p.strip()]
+        for w in words:
+            assert w.lower() not in VBA_RESERVED, f"{name}: {w} is a VBA reserved word"
+            if w == name or w not in ALLOWED_ARGUMENTS:
+                assert w.lower() not in EXCEL_BUILTINS, f"{name}: {w} is an Excel worksheet function"
+    assert VBA_RESERVED & {"function", "optional", "to", "error"} and "f.test" in EXCEL_BUILTINS
+
+
+def test_descriptions_within_the_dialog_limit(xlwings_com, imported) -> None:
+    # xlwings cuts at 255 without a word ([:255]); the registry must never need it
+    longest_f = longest_a = 0
+    for name in REGISTRY:
+        info = xlwings_com.module.__dict__[name].__xlfunc__
+        assert info["ret"]["doc"] == REGISTRY[name].description
+        assert info["category"] == "sheetfuncs"
+        docs = [a["doc"] for a in info["args"]]
+        assert docs == [a.dialog_text for a in REGISTRY[name].args]
+        assert len(info["ret"]["doc"]) <= DIALOG_LIMIT, f"{name}: description too long"
+        for a, doc in zip(info["args"], docs):
+            assert len(doc) <= DIALOG_LIMIT, f"{name}({a['name']}): argument help of {len(doc)} characters"
+        longest_f = max(longest_f, len(info["ret"]["doc"]))
+        longest_a = max(longest_a, *map(len, docs))
+    for macro, kw in imported["options"]:
+        name = macro.split("!")[1]
+        assert kw["Description"] == REGISTRY[name].description and kw["Category"] == "sheetfuncs"
+        assert kw["ArgumentDescriptions"] == [a.dialog_text for a in REGISTRY[name].args]
+    print(f"\nlongest description {longest_f}, longest argument help {longest_a} characters")
