@@ -38,7 +38,7 @@ Writing the return value (``conversion.write``): one value becomes ``[[value]]``
 becomes one row; rows must all be the same length; then each element: NaN and ``None`` become
 ``""`` (a blank), numpy numbers become ``float``, everything else is kept. The harness finally
 checks that the host can hold every element (finite numbers, text of at most 32,767 characters,
-logicals, dates) and raises :class:`HostError` otherwise, because that would be a bug of the
+or 255 in a cell of an array result, logicals, dates) and raises :class:`HostError` otherwise, because that would be a bug of the
 worksheet function, not an input problem.
 """
 
@@ -57,6 +57,7 @@ import numpy as np
 
 from ..errors import PREFIX
 from ..input import COM_ERROR_CODES  # each error value's COM code, by name (re-exported)
+from .convert import TABLE_TEXT_LIMIT
 from .functions import REGISTRY
 from .registry import MISSING, Function
 
@@ -271,6 +272,8 @@ def write_result(value: Any, options: dict[str, Any] | None = None) -> tuple[lis
     for r in out:
         for x in r:
             _host_check(x)
+            if not scalar and type(x) is str and len(x) > TABLE_TEXT_LIMIT:
+                raise HostError(f"text of {len(x)} characters in an array result; Excel keeps at most {TABLE_TEXT_LIMIT}")
     return out, scalar
 
 

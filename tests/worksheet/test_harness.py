@@ -78,6 +78,14 @@ def test_write_matches_xlwings(xlwings_pipeline, value) -> None:
     assert scalar == (not isinstance(value, list))
 
 
+def test_host_refuses_long_text_in_an_array_result() -> None:
+    # common practice: 255 characters of text per cell of an array result, 32,767 in one cell
+    with pytest.raises(harness.HostError, match="255"):
+        harness.write_result([["Note"], ["x" * 256]])
+    assert harness.write_result("x" * 256) == ([["x" * 256]], True)
+    assert harness.write_result([["x" * 255]]) == ([["x" * 255]], False)
+
+
 def test_host_refuses_what_a_cell_cannot_hold() -> None:
     # common practice: a cell holds finite doubles, text up to 32,767 characters, logicals, dates
     for bad in (math.inf, [[1.0, -math.inf]], object(), [[np.bool_(True)]], "x" * 40000, [[1.0], [1.0, 2.0]], []):
