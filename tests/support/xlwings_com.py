@@ -21,6 +21,7 @@ import importlib
 import sys
 import types
 from collections.abc import Callable, Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass
 from typing import Any
 
@@ -32,7 +33,7 @@ from sheetfuncs.worksheet.functions import REGISTRY
 from sheetfuncs.worksheet.registry import apply_xlwings
 from tests.support.xlwings_engine import WindowsLikeEngine
 
-__all__ = ["MODULE", "RANGE_IID", "VBA_MISSING", "ComRange", "ComSide", "xlwings_com"]
+__all__ = ["MODULE", "RANGE_IID", "VBA_MISSING", "ComRange", "ComSide", "real_xlwings_com", "xlwings_com"]
 
 #: The UDF module name users give xlwings, and what the VBA wrapper passes for a left-out argument
 #: (DISP_E_PARAMNOTFOUND, the code ``udfs.call_udf`` tests for).
@@ -47,6 +48,7 @@ _PYWIN32 = (
     "win32com.server.util",
 )
 _REPLACED = _PYWIN32 + ("xlwings._xlwindows", "xlwings.udfs", "xlwings.com_server")
+_ATTRS = ("_xlwindows", "udfs", "com_server")
 
 
 class ComRange:
@@ -152,10 +154,13 @@ class ComSide:
         return self.com_server.XLPython().CallUDF(MODULE, name, given)
 
 
-@pytest.fixture(scope="module")
-def xlwings_com(xlwings_pipeline: Any) -> Iterator[ComSide]:
+@contextmanager
+def real_xlwings_com() -> Iterator[ComSide]:
+    """xlwings' real ``udfs`` and ``com_server`` on pywin32 stand-ins, for the ``with`` block only:
+    afterwards ``sys.modules`` and xlwings' attributes are as they were. Needs the Windows-like
+    engine registered (the ``xlwings_pipeline`` fixture)."""
     saved = {name: sys.modules.get(name) for name in _REPLACED}
-    saved_attrs = {name: getattr(xlwings, name) for name in ("_xlwindows", "udfs", "com_server") if hasattr(xlwings, name)}
+    saved_attrs = {name: getattr(xlwings, name) for name in _ATTRS if hasattr(xlwings, name)}
     xlwindows = _xlwindows_module()
     sys.modules.update(_pywin32_modules())
     sys.modules["xlwings._xlwindows"] = xlwindows
@@ -175,8 +180,14 @@ def xlwings_com(xlwings_pipeline: Any) -> Iterator[ComSide]:
                 sys.modules.pop(name, None)
             else:
                 sys.modules[name] = mod
-        for name in ("_xlwindows", "udfs", "com_server"):
+        for name in _ATTRS:
             if name in saved_attrs:
                 setattr(xlwings, name, saved_attrs[name])
             elif hasattr(xlwings, name):
                 delattr(xlwings, name)
+
+
+@pytest.fixture(scope="module")
+def xlwings_com(xlwings_pipeline: Any) -> Iterator[ComSide]:
+    with real_xlwings_com() as side:
+        yield side

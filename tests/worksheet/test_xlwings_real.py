@@ -6,9 +6,9 @@ through its real call path, compared with the harness. The real path is the refe
 
 from __future__ import annotations
 
-import os
 import re
 import types
+from pathlib import Path
 from typing import Any
 
 import pytest
@@ -17,7 +17,7 @@ from sheetfuncs.worksheet import harness
 from sheetfuncs.worksheet.docs import resolve
 from sheetfuncs.worksheet.functions import EXAMPLE_SHEET, REGISTRY
 from sheetfuncs.worksheet.registry import DIALOG_LIMIT, MISSING, Ref
-from tests.support.xlwings_com import MODULE, VBA_MISSING, ComRange
+from tests.support.xlwings_com import MODULE, VBA_MISSING, ComRange, real_xlwings_com
 from tests.support.xlwings_engine import com_value
 
 # VBA reserved words (keywords and statements that cannot name a procedure or an argument), from
@@ -82,12 +82,15 @@ def imported(xlwings_com) -> dict[str, Any]:
     return seen
 
 
-def test_xlwings_version_is_the_verified_one() -> None:
+def test_xlwings_requirement_is_bounded_to_the_verified_version() -> None:
     import xlwings
 
+    pyproject = Path(__file__).resolve().parents[2] / "pyproject.toml"
+    (req,) = re.findall(r'^\s*"(xlwings[^"]*)"', pyproject.read_text(encoding="utf-8"), flags=re.M)
+    assert req == f"xlwings>={VERIFIED},<0.38", "bound xlwings to the versions these tests ran on"
     assert xlwings.__version__ == VERIFIED, (
-        f"these tests were verified on xlwings {VERIFIED}, not {xlwings.__version__}; run them and "
-        "widen the bound in pyproject.toml"
+        f"these tests were verified on xlwings {VERIFIED}, not {xlwings.__version__}; when they "
+        "pass, add the version here and widen the bound in pyproject.toml"
     )
 
 
@@ -149,8 +152,8 @@ def _host_form(value: Any, cells: tuple[tuple[Any, ...], ...]) -> tuple[Any, Any
     if value is MISSING:
         return MISSING, VBA_MISSING
     if isinstance(value, tuple):
-        flat = value[0] if len(value) == 1 else value
-        return flat, com_value([list(r) for r in value])[0] if len(value) == 1 else com_value([list(r) for r in value])
+        com = com_value([list(r) for r in value])
+        return (value[0], com[0]) if len(value) == 1 else (value, com)
     return value, harness.host_value(value)
 
 
@@ -200,3 +203,19 @@ def test_example_equals_harness(xlwings_com, case, name, args, cells) -> None:
 def test_every_example_compared() -> None:
     assert sum(c[0].endswith(" example") for c in _CASES) == len(REGISTRY)
     print(f"\n{len(_CASES)} calls compared through xlwings {VERIFIED}'s com_server, udfs and conversion")
+
+
+def test_stand_ins_leave_sys_modules_as_they_were(xlwings_pipeline) -> None:
+    import sys
+
+    import xlwings
+
+    # (whether or not this module's fixture has its own stand-ins in place at the moment)
+    names = ("pythoncom", "pywintypes", "win32com.client", "xlwings.udfs", "xlwings.com_server")
+    before = {name: sys.modules.get(name) for name in names}
+    attrs = {name: getattr(xlwings, name, None) for name in ("_xlwindows", "udfs", "com_server")}
+    with real_xlwings_com() as side:
+        assert sys.modules["xlwings.udfs"] is side.udfs and sys.modules["pythoncom"] is not before["pythoncom"]
+        assert side.com_call("SF_FTAIL", 4.1, 2.0, 14.0) == harness.call("SF_FTAIL", 4.1, 2, 14)
+    assert {name: sys.modules.get(name) for name in names} == before
+    assert {name: getattr(xlwings, name, None) for name in attrs} == attrs
