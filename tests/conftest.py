@@ -1,5 +1,6 @@
 from hypothesis import HealthCheck, settings
 
+from tests.support.xlwings_com import xlwings_com  # noqa: F401  (a fixture)
 from tests.support.xlwings_engine import xlwings_pipeline  # noqa: F401  (a fixture)
 
 # Property tests repeat exactly from run to run (no flaky CI) and have no per-example deadline.

@@ -128,19 +128,17 @@ def _row_notes(
     *, between_raw: float, n0: float, balanced: bool, within_zero: bool, k: int, df_between: int
 ) -> dict[str, list[str]]:
     """The plain-language notes of a result, keyed by the table row each concerns (a note may
-    concern several rows; the result's ``notes`` lists each once)."""
+    concern several rows; the result's ``notes`` lists each once, in full). They are short: a
+    spreadsheet keeps at most 255 characters of text in a cell of an array result, and the
+    Between groups row can carry three of them (at most about 230 characters together)."""
     out: dict[str, list[str]] = {row: [] for row in ROWS}
     between, within, total, icc, size = ROWS
     if between_raw < 0:
-        out[between].append(
-            f"the estimate (MSB - MSW)/n0 came out negative ({between_raw:.4g}) and is shown "
-            "as 0: the groups vary no more than the values within them"
-        )
+        out[between].append(f"the estimate (MSB - MSW)/n0 came out negative ({between_raw:.4g}) and is shown as 0")
         out[icc].append("0 because the between-group estimate is shown as 0")
     if not balanced:
-        approx = "approximate: group sizes differ, and n0 stands in for the common size"
         for row in (between, total, icc):
-            out[row].append(f"interval {approx}")
+            out[row].append("interval approximate: group sizes differ")
         out[size].append(f"group sizes differ: n0 = {n0:.6g} stands in for the common group size")
     else:
         out[size].append("the common group size (sizes are equal)")

@@ -31,6 +31,7 @@ from ..input import cell_position, check_number, error_text, format_label, one_l
 
 __all__ = [
     "MAX_DOUBLE",
+    "TABLE_TEXT_LIMIT",
     "ArgSpec",
     "normalise",
     "check_range_errors",
@@ -44,6 +45,10 @@ __all__ = [
 
 #: The largest double: what a cell shows for an infinite result (the host cannot hold infinity).
 MAX_DOUBLE = sys.float_info.max
+#: Longest text of a cell of a table result: Excel keeps at most 255 characters of text in an
+#: array a function returns (longer text is cut or fails). Longer text (a long group label) is
+#: cut to this length, ending in "…".
+TABLE_TEXT_LIMIT = 255
 #: Longest message a cell gets; a message quoting a huge label is cut short (a cell holds at
 #: most 32,767 characters).
 _MESSAGE_MAX = 1000
@@ -171,12 +176,20 @@ def to_cell(value: Any) -> Any:
 
 
 def shape_result(value: Any, result: str) -> Any:
-    """A wrapper's return value as cells: one value for a scalar, else rows of equal length."""
+    """A wrapper's return value as cells: one value for a scalar, else rows of equal length,
+    text cut to :data:`TABLE_TEXT_LIMIT` characters."""
     if result == "scalar":
         return to_cell(value)
-    rows = [[to_cell(v) for v in row] for row in value]
+    rows = [[_table_cell(v) for v in row] for row in value]
     width = max((len(r) for r in rows), default=0)
     return [r + [None] * (width - len(r)) for r in rows]
+
+
+def _table_cell(value: Any) -> Any:
+    cell = to_cell(value)
+    if isinstance(cell, str) and len(cell) > TABLE_TEXT_LIMIT:
+        return cell[: TABLE_TEXT_LIMIT - 1] + "…"
+    return cell
 
 
 def cell_message(err: InputError) -> str:

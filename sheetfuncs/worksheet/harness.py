@@ -18,13 +18,14 @@ What a caller writes for a cell (host values):
   read with ``err_to_str=True`` (into a blank otherwise!), and passes newer ones such as
   ``#SPILL!`` and ``#CALC!`` through as the bare integer code.
 
-A range (or an array constant such as ``{1,-0.5,-0.5}``) is a list or tuple of rows; one cell
-is just its value. :data:`MISSING` stands for an argument left out of the formula.
+A range (or an array constant such as ``{1;-0.5;-0.5}``) is a list or tuple of rows; one cell
+is just its value. A flat list or tuple of values is one row, as xlwings takes it: pywin32 hands
+a horizontal array constant such as ``{1,-0.5,-0.5}`` over as ``(1.0, -0.5, -0.5)``. :data:`MISSING` stands for an argument left out of the formula.
 
 Reading an argument (xlwings 0.37, ``conversion.read`` on a UDF argument):
 
 1. the host value: a block of cells is a tuple of row tuples, one cell is its value;
-2. ``Ensure2DStage``: one value becomes ``[[value]]``;
+2. ``Ensure2DStage``: one value becomes ``[[value]]``, a flat sequence one row;
 3. the Windows engine's cleaning: ``""`` and ``None`` become ``None``; dates become
    ``datetime``; a classic error code becomes its text (``err_to_str``) or ``None``; rows
    become lists;
@@ -37,7 +38,7 @@ Writing the return value (``conversion.write``): one value becomes ``[[value]]``
 becomes one row; rows must all be the same length; then each element: NaN and ``None`` become
 ``""`` (a blank), numpy numbers become ``float``, everything else is kept. The harness finally
 checks that the host can hold every element (finite numbers, text of at most 32,767 characters,
-logicals, dates) and raises :class:`HostError` otherwise, because that would be a bug of the
+or 255 in a cell of an array result, logicals, dates) and raises :class:`HostError` otherwise, because that would be a bug of the
 worksheet function, not an input problem.
 """
 
@@ -56,6 +57,7 @@ import numpy as np
 
 from ..errors import PREFIX
 from ..input import COM_ERROR_CODES  # each error value's COM code, by name (re-exported)
+from .convert import TABLE_TEXT_LIMIT
 from .functions import REGISTRY
 from .registry import MISSING, Function
 
@@ -206,6 +208,8 @@ def read_argument(value: Any, options: dict[str, Any]) -> Any:
     """One argument as the worksheet function receives it, for the xlwings ``options`` declared."""
     err_to_str = bool(options.get("err_to_str", False))
     if isinstance(value, (list, tuple)):
+        if value and not isinstance(value[0], (list, tuple)):
+            value = [value]  # a flat sequence is one row (xlwings' Ensure2DStage)
         cleaned = _clean_rows(_as_rows(value), err_to_str)
     else:
         cleaned = [[_clean(host_value(value), err_to_str)]]
@@ -268,6 +272,8 @@ def write_result(value: Any, options: dict[str, Any] | None = None) -> tuple[lis
     for r in out:
         for x in r:
             _host_check(x)
+            if not scalar and type(x) is str and len(x) > TABLE_TEXT_LIMIT:
+                raise HostError(f"text of {len(x)} characters in an array result; Excel keeps at most {TABLE_TEXT_LIMIT}")
     return out, scalar
 
 

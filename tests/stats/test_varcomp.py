@@ -171,6 +171,18 @@ def test_unequal_sizes_and_few_groups_notes_reach_the_table():
     assert rows["Within groups"][5] is None  # the chi-square interval is exact whatever the sizes
 
 
+def test_every_note_cell_fits_a_spreadsheet_cell():
+    # the Between groups row with all three of its notes (negative estimate, unequal sizes, few
+    # groups) stays within the 255 characters a cell of an array result keeps (common practice)
+    groups = [[1.0, 5.0, 3.0, 2.0], [4.0, 2.0, 3.0, 3.0, 3.0], [3.0, 2.0, 4.0]]
+    v = variance_components(groups)
+    assert v.between_raw < 0 and not v.balanced
+    note = {r[0]: r[5] for r in v.table()[1:]}["Between groups"]
+    assert "negative" in note and "approximate" in note and "only 3 groups" in note
+    assert all(len(r[5] or "") <= 255 for r in v.table()[1:]), note
+    assert any("vary no more than" in n for n in v.notes)  # the full wording stays in notes
+
+
 def test_no_within_variation_note_reaches_the_table():
     groups = [[2.0, 2.0, 2.0], [5.0, 5.0, 5.0], [3.0, 3.0, 3.0], [7.0, 7.0, 7.0]]
     rows = {r[0]: r for r in variance_components(groups).table()[1:]}

@@ -18,7 +18,7 @@ from xlwings.main import Engine
 
 from sheetfuncs.worksheet import harness
 
-__all__ = ["CELL_ERRORS", "xlwings_pipeline", "com_value"]
+__all__ = ["CELL_ERRORS", "WindowsLikeEngine", "xlwings_pipeline", "com_value"]
 
 # The two element functions of xlwings 0.37's Windows engine (xlwings/_xlwindows.py,
 # ``_clean_value_data_element`` and ``Engine.prepare_xl_data_element``), transcribed with the
@@ -45,7 +45,7 @@ def _clean_element(value, datetime_builder, empty_as, number_builder, err_to_str
     return value
 
 
-class _WindowsLikeEngine:
+class WindowsLikeEngine:
     name = "excel"
     type = "desktop"
 
@@ -69,7 +69,7 @@ class _WindowsLikeEngine:
 
 @pytest.fixture(scope="module")
 def xlwings_pipeline():
-    engine = Engine(impl=_WindowsLikeEngine())
+    engine = Engine(impl=WindowsLikeEngine())
     assert "excel" not in xlwings.engines.engines_by_name
     xlwings.engines.add(engine)
     yield conversion

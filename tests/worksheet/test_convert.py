@@ -18,7 +18,7 @@ import pytest
 from sheetfuncs.errors import InputError
 from sheetfuncs.udfs import SF_TABLE
 from sheetfuncs.worksheet.convert import (
-    MAX_DOUBLE, NotANumber, cell_message, check_range_errors, normalise, per_group_column, shape_result,
+    MAX_DOUBLE, TABLE_TEXT_LIMIT, NotANumber, cell_message, check_range_errors, normalise, per_group_column, shape_result,
     to_cell,
 )
 from sheetfuncs.worksheet.registry import Arg
@@ -147,3 +147,14 @@ def test_cell_message_is_one_line_and_cut_short() -> None:
     long_label = "x" * 5000
     text = cell_message(InputError(f'group "{long_label}" has no numbers'))
     assert len(text) == 1000 and text.endswith("…") and text.startswith('sheetfuncs: group "xxx')
+
+
+def test_table_text_is_cut_to_what_an_array_result_keeps() -> None:
+    # Excel keeps at most 255 characters of text in a cell of an array a function returns
+    # (common practice); a message or other one-cell text keeps its length
+    label = "Head " + "x" * 300
+    rows = shape_result([["Group", "n"], [label, 3], ["x" * 255, 2]], "table")
+    assert TABLE_TEXT_LIMIT == 255
+    assert rows[1][0] == label[:254] + "…" and len(rows[1][0]) == 255
+    assert rows[2][0] == "x" * 255
+    assert shape_result(label, "scalar") == label

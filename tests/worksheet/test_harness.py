@@ -26,7 +26,7 @@ import sheetfuncs as sf
 from sheetfuncs.worksheet import harness
 from sheetfuncs.worksheet.harness import BLANK, CALC, DIV0, MISSING, NA, REF, SPILL, VALUE, call, column, is_message
 from sheetfuncs.worksheet.convert import MAX_DOUBLE
-from sheetfuncs.worksheet.functions import REGISTRY
+from sheetfuncs.worksheet.functions import EXAMPLE_SHEET, REGISTRY
 
 # --------------------------------------------------------------------------------------------
 # Part 1: the harness against xlwings' pipeline (tests/support/xlwings_engine.py)
@@ -78,6 +78,14 @@ def test_write_matches_xlwings(xlwings_pipeline, value) -> None:
     assert scalar == (not isinstance(value, list))
 
 
+def test_host_refuses_long_text_in_an_array_result() -> None:
+    # common practice: 255 characters of text per cell of an array result, 32,767 in one cell
+    with pytest.raises(harness.HostError, match="255"):
+        harness.write_result([["Note"], ["x" * 256]])
+    assert harness.write_result("x" * 256) == ([["x" * 256]], True)
+    assert harness.write_result([["x" * 255]]) == ([["x" * 255]], False)
+
+
 def test_host_refuses_what_a_cell_cannot_hold() -> None:
     # common practice: a cell holds finite doubles, text up to 32,767 characters, logicals, dates
     for bad in (math.inf, [[1.0, -math.inf]], object(), [[np.bool_(True)]], "x" * 40000, [[1.0], [1.0, 2.0]], []):
@@ -86,9 +94,20 @@ def test_host_refuses_what_a_cell_cannot_hold() -> None:
     with pytest.raises(TypeError):
         harness.host_value(object())
     with pytest.raises(TypeError):
-        harness.read_argument([1.0, 2.0], {"ndim": 2})  # a range is given as rows
+        harness.read_argument([1.0, [2.0]], {"ndim": 2})  # a flat row holds cells, not rows
     with pytest.raises(ValueError):
         harness.ErrorCell("#OOPS!")
+
+
+@pytest.mark.parametrize("options", [{"ndim": 2, "err_to_str": True}, {"err_to_str": True}])
+def test_flat_tuple_is_one_row_as_in_xlwings(xlwings_pipeline, options) -> None:
+    # pywin32 hands a horizontal array constant {1,-0.5,-0.5} over as a flat tuple (common practice)
+    flat = (1.0, -0.5, "", -0.5)
+    expected = xlwings_pipeline.read(None, flat, dict(options))
+    assert harness.read_argument(flat, options) == expected
+    assert harness.read_argument(list(flat), options) == expected
+    sheet = [list(r) for r in EXAMPLE_SHEET]
+    assert call("SF_CONTRAST", sheet, (1.0, -0.5, -0.5)) == call("SF_CONTRAST", sheet, [[1.0, -0.5, -0.5]])
 
 
 def test_error_codes() -> None:
