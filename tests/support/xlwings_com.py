@@ -12,7 +12,8 @@ What is a stand-in: the pywin32 modules (no Windows here), and ``xlwings._xlwind
 cannot be imported off Windows at all (``ctypes.windll``, ``PyDLL(pythoncom.__file__)``). Its
 stand-in holds only what ``udfs.call_udf`` reaches: ``is_range_instance``, ``BOOK_CALLER`` and a
 ``Range`` that reads a :class:`ComRange`'s ``Value`` and cleans it with the Windows engine of
-:mod:`tests.support.xlwings_engine` (a transcription of xlwings' own element functions).
+:mod:`tests.support.xlwings_engine` (its copy of the two per-cell functions of xlwings' Windows
+engine).
 """
 
 from __future__ import annotations
