@@ -15,7 +15,7 @@ import sys
 from pathlib import Path
 from typing import Any
 
-from ..input import LoadedGroups, read_groups
+from ..input import LoadedGroups, group_sizes, read_groups
 from .output import aligned, cell_log, csv_safe, json_ready, records
 from .parser import read_options
 from .progress import Progress
@@ -162,7 +162,7 @@ def table_text(args: argparse.Namespace, loaded: LoadedGroups, ck: Any, desc: An
         f"Read {r.where} of {Path(args.input).name}"
         + (" (found on the sheet; no range given)" if r.detected else "")
         + f": {g.n_total} values in {g.k} groups ("
-        + ", ".join(f"{lab} {n}" for lab, n in zip(g.labels, g.counts)) + ")",
+        + group_sizes(g.labels, g.counts) + ")",
         *(f"  left out {r.address(x.ref)}: {x.described}" for x in r.left_out[:LEFT_OUT_SHOWN]),
         *([f"  and {len(r.left_out) - LEFT_OUT_SHOWN} more left out (see --json)"]
           if len(r.left_out) > LEFT_OUT_SHOWN else []),

@@ -18,7 +18,7 @@ from .files import (
     workbook_properties,
 )
 from .labels import parse_rename, relabel
-from .reading import LeftOut, Reading, cell_content, sheet_ref
+from .reading import LeftOut, Reading, cell_content, group_sizes, sheet_ref
 from .groups import CellNote, Groups, as_groups, first_duplicate, format_label
 from .options import (
     as_real, check_alpha, check_conf, check_number, check_probability, check_range, check_whole,
@@ -36,5 +36,5 @@ __all__ = [
     "CellNote", "Groups", "as_groups", "first_duplicate", "format_label", "groups_from_long", "groups_from_range",
     "as_real", "check_alpha", "check_conf", "check_number", "check_probability", "check_range",
     "check_whole", "one_line", "shown",
-    "InputSource", "LeftOut", "Reading", "cell_content", "sheet_ref", "parse_rename", "relabel", "parse_errors",
+    "InputSource", "LeftOut", "Reading", "cell_content", "group_sizes", "sheet_ref", "parse_rename", "relabel", "parse_errors",
 ]

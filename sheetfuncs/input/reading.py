@@ -16,7 +16,7 @@ from typing import Any
 from .cells import a1_range, column_letters
 from .options import shown
 
-__all__ = ["LeftOut", "Reading", "cell_content", "sheet_ref"]
+__all__ = ["LeftOut", "Reading", "cell_content", "group_sizes", "sheet_ref"]
 
 #: Characters of a text cell that a log line shows before it cuts the rest.
 CONTENT_SHOWN = 40
@@ -30,6 +30,11 @@ def sheet_ref(sheet: str | None, ref: str) -> str:
     if not sheet:
         return ref
     return "'" + sheet.replace("'", "''") + "'!" + ref
+
+
+def group_sizes(labels: Sequence[str], counts: Sequence[int]) -> str:
+    """Each group with its n, as every output names them: ``Line A 12, Line B 11``."""
+    return ", ".join(f"{lab} {n}" for lab, n in zip(labels, counts))
 
 
 def cell_content(value: Any) -> str:
@@ -135,7 +140,7 @@ class Reading:
         e.g. ``read 'Hardness'!B3:E15: 4 groups, 47 values (L1 12, L2 12, L3 12, L4 11); left
         out 29 cells: A1:A2 title and note rows, A4:A15 identifier column (Sample), ...``
         """
-        groups = ", ".join(f"{lab} {n}" for lab, n in zip(labels, counts))
+        groups = group_sizes(labels, counts)
         line = (
             f"read {self.where}: {len(labels)} group{'s' if len(labels) != 1 else ''}, "
             f"{sum(counts)} values ({groups})"

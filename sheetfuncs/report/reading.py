@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from ..input import group_sizes
 from .context import ReportContext
 
 __all__ = ["LEFT_OUT_SHOWN", "data_read_lines", "left_out_lines"]
@@ -19,7 +20,7 @@ LEFT_OUT_SHOWN = 6
 
 def _groups_phrase(an: ReportContext) -> str:
     g = an.groups
-    each = ", ".join(f"{lab} {n}" for lab, n in zip(g.labels, g.counts))
+    each = group_sizes(g.labels, g.counts)
     return f"{g.n_total} values in {g.k} group{'s' if g.k != 1 else ''} ({each})"
 
 
