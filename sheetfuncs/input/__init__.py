@@ -10,7 +10,7 @@ invented data). Other layers import from this package, not its modules.
 
 from .cells import (
     COM_ERROR_CODES, ERROR_TEXTS, MAX_COLS, MAX_ROWS, RangeRef, a1_range, cell_position,
-    column_letters, column_number, error_text, parse_range,
+    column_letters, column_number, error_text, is_error_text, parse_range,
 )
 from .demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups, demo_rows
 from .files import (
@@ -29,7 +29,7 @@ from .source import InputSource
 
 __all__ = [
     "COM_ERROR_CODES", "ERROR_TEXTS", "MAX_COLS", "MAX_ROWS", "RangeRef", "a1_range",
-    "cell_position", "column_letters", "column_number", "error_text", "parse_range",
+    "cell_position", "column_letters", "column_number", "error_text", "is_error_text", "parse_range",
     "DEMO_FACTOR", "DEMO_RESPONSE", "DEMO_TITLE", "DEMO_UNIT", "demo_groups", "demo_rows",
     "DEFAULT_MAX_CELLS", "DEFAULT_MAX_FIELDS", "DEFAULT_SIZE_LIMIT", "CellBlock", "LoadedGroups", "read_cells", "read_groups",
     "same_file", "workbook_properties",

@@ -20,12 +20,13 @@ from ..errors import InputError
 
 __all__ = [
     "ERROR_TEXTS", "COM_BASE", "COM_LOW", "COM_HIGH", "COM_NAMES", "COM_ERROR_CODES", "MAX_ROWS", "MAX_COLS",
-    "error_text", "com_error_name", "classify", "cell_position", "column_letters",
+    "error_text", "is_error_text", "com_error_name", "classify", "cell_position", "column_letters",
     "column_number", "a1_range", "RangeRef", "parse_range",
 ]
 
 #: Error texts as the host shows them (xlwings' ``err_to_str`` gives the first seven; newer hosts
-#: add the rest, which may also arrive as text from CSV exports).
+#: add the rest, which may also arrive as text from CSV exports). LibreOffice Calc shows its other
+#: errors as ``Err:`` and a three-digit code (:func:`is_error_text`).
 ERROR_TEXTS = frozenset(
     {
         "#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A",
@@ -59,11 +60,17 @@ def com_error_name(code: int) -> str:
     return COM_NAMES.get(code - COM_BASE, f"with code {code}")
 
 
+def is_error_text(s: str) -> bool:
+    """Is the (trimmed) text ``s`` an error value: one of :data:`ERROR_TEXTS`, or one of
+    LibreOffice Calc's own error values such as ``Err:502``?"""
+    return s in ERROR_TEXTS or (len(s) == 7 and s.startswith("Err:") and s[4:].isdigit())
+
+
 def error_text(v: Any) -> str | None:
     """The error's name if the cell holds a host error value, else None."""
     if isinstance(v, str):
         s = v.strip()
-        return s if s in ERROR_TEXTS else None
+        return s if is_error_text(s) else None
     if isinstance(v, (int, np.integer)) and not isinstance(v, (bool, np.bool_)):
         iv = int(v)
         if COM_LOW <= iv <= COM_HIGH:
@@ -83,7 +90,7 @@ def classify(v: Any) -> tuple[str, Any]:
         if v == "":
             return "blank", None
         s = v.strip()
-        if s in ERROR_TEXTS:
+        if is_error_text(s):
             return "error", s
         return "text", v
     if isinstance(v, (int, np.integer)):

@@ -25,7 +25,7 @@ from typing import Any
 import numpy as np
 
 from ..errors import InputError
-from .cells import ERROR_TEXTS, cell_position, classify, error_text
+from .cells import cell_position, classify, error_text, is_error_text
 from .groups import CellNote, Groups, bad_number_message, build_groups, first_duplicate, format_label
 from .options import shown
 
@@ -201,7 +201,7 @@ def _line_values(
 
 
 def _is_labelish_text(v: Any) -> bool:
-    return isinstance(v, str) and v.strip() != "" and v.strip() not in ERROR_TEXTS
+    return isinstance(v, str) and v.strip() != "" and not is_error_text(v.strip())
 
 
 # --------------------------------------------------------------------------------------------

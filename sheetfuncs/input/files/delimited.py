@@ -22,7 +22,7 @@ from pathlib import Path
 from typing import Any
 
 from ...errors import InputError
-from ..cells import ERROR_TEXTS, RangeRef, column_letters
+from ..cells import RangeRef, column_letters, is_error_text
 from ..source import InputSource
 from .block import PROGRESS_STEP, CellBlock, Progress, cell_block, trim_rows
 from .records import RecordLines, TooManyFields
@@ -355,7 +355,7 @@ def csv_value(text: str, decimal_comma: bool = False) -> Any:
     s = text.strip()
     if s == "":
         return None
-    if s in ERROR_TEXTS:
+    if is_error_text(s):
         return s
     up = s.upper()
     if up == "TRUE":

@@ -17,7 +17,7 @@ from typing import Any
 
 import numpy as np
 
-from ..cells import ERROR_TEXTS, a1_range, column_letters
+from ..cells import a1_range, column_letters, is_error_text
 from ..groups import format_label
 from ..reading import LeftOut, sheet_ref
 from .block import is_blank
@@ -57,7 +57,7 @@ def _is_number(v: Any) -> bool:
 
 def is_label(v: Any) -> bool:
     """Whether a cell holds a text label (not blank, not an error text)."""
-    return isinstance(v, str) and v.strip() != "" and v.strip() not in ERROR_TEXTS
+    return isinstance(v, str) and v.strip() != "" and not is_error_text(v.strip())
 
 
 @dataclass

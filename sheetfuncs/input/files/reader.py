@@ -18,7 +18,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any, TypedDict
 
 from ...errors import InputError
-from ..cells import ERROR_TEXTS, RangeRef, a1_range, cell_position, error_text, parse_range
+from ..cells import RangeRef, a1_range, cell_position, error_text, is_error_text, parse_range
 from ..groups import Groups
 from ..labels import relabel
 from ..ranges import groups_from_range, parse_labels, parse_layout
@@ -292,7 +292,7 @@ def _clean(path: str | os.PathLike[str], block: CellBlock, layout: Any, labels: 
     """``groups_from_range`` on a block, its messages given the sheet address and file name
     (for a block ``found`` on the sheet, in place of a position in a range nobody gave)."""
     if layout in ("wide", "long") and block.n_rows == 1 and all(
-        isinstance(v, str) and v not in ERROR_TEXTS for v in block.rows[0] if not is_blank(v)
+        isinstance(v, str) and not is_error_text(v) for v in block.rows[0] if not is_blank(v)
     ):
         raise InputError(
             f"{_where(block)} holds only a row of labels and no values; check that "
