@@ -80,6 +80,7 @@ _TOKENS = re.compile(
 #: Formula text worth scanning holds one of these (any case).
 _MARKER = re.compile(r"sf_|sheetfuncs\.", re.I)
 _MARKER_BYTES = re.compile(rb"sf_|sheetfuncs\.", re.I)
+_UTF16_BOMS = (b"\xff\xfe", b"\xfe\xff")
 
 
 # --------------------------------------------------------------------------------------------
@@ -418,7 +419,7 @@ def _copy_members(zin: zipfile.ZipFile, out: zipfile.ZipFile, kinds: dict[str, s
     for info in zin.infolist():
         data = _read_member(zin, info)
         kind = kinds.get(info.filename.lower())
-        if kind is not None and _MARKER_BYTES.search(data):
+        if kind is not None and (data[:2] in _UTF16_BOMS or _MARKER_BYTES.search(data)):
             data, change, tally, note = _convert_part(info.filename, data, kind, to, maps)
             total = _add(total, tally)
             changes += [change] if change.calls else []
