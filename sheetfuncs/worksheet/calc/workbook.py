@@ -71,10 +71,12 @@ _Q = r"""(?:"|&quot;|&\#0*34;|&\#[xX]0*22;)"""
 _A = r"""(?:'|&apos;|&\#0*39;|&\#[xX]0*27;)"""
 #: The pieces of formula text: strings, quoted sheet names, brackets (skipped) and names.
 _TOKENS = re.compile(
-    rf"""{_Q}.*?{_Q} | {_Q}.*
+    rf"""(?=["'&\[\w\\])  # a quick first look: nothing else can start a piece
+    (?:{_Q}.*?{_Q} | {_Q}.*
        | {_A}.*?{_A} | {_A}.*
        | \[(?:{_A}.|[^\[\]]|\[(?:{_A}.|[^\[\]])*\])*\]
-       | (?<![\w.?\\])(?P<name>(?:[^\W\d]|\\)[\w.?\\]*)(?P<call>\()?""",
+       | (?<![\w.?\\])(?P<name>(?:[^\W\d]|\\)[\w.?\\]*)(?=\()
+       )""",
     re.X | re.S,
 )
 #: Formula text worth scanning holds one of these (any case).
@@ -168,6 +170,20 @@ def _empty_tally() -> _Tally:
     return _Tally(Counter(), 0, Counter(), Counter())
 
 
+class _Counts:
+    """Running counts while the formulas of a part are scanned; :meth:`frozen` gives the
+    result. (One per call of :func:`rewrite_part`: adding a counter per formula is slow.)"""
+
+    def __init__(self) -> None:
+        self.rewritten: Counter[str] = Counter()
+        self.unknown: Counter[str] = Counter()
+        self.qualified: Counter[str] = Counter()
+        self.already = 0
+
+    def frozen(self) -> _Tally:
+        return _Tally(self.rewritten, self.already, self.unknown, self.qualified)
+
+
 def _add(a: _Tally, b: _Tally) -> _Tally:
     return _Tally(a.rewritten + b.rewritten, a.already + b.already,
                   a.unknown + b.unknown, a.qualified + b.qualified)
@@ -191,36 +207,43 @@ def rewrite_formula(text: str, to: str, maps: tuple[dict[str, str], dict[str, st
                     ) -> tuple[str, _Tally]:
     """Rewrite the SF_ function names in one formula's text (as it stands in the XML, escapes
     included) to the ``to`` form; return the new text and what was counted."""
-    to_calc, to_excel = maps if maps is not None else name_maps()
+    counts = _Counts()
+    new = _rewrite_into(text, to, maps if maps is not None else name_maps(), counts)
+    return new, counts.frozen()
+
+
+def _rewrite_into(text: str, to: str, maps: tuple[dict[str, str], dict[str, str]],
+                  counts: _Counts) -> str:
+    """:func:`rewrite_formula`, adding to ``counts``."""
+    to_calc, to_excel = maps
     wanted, other = (to_calc, to_excel) if to == "calc" else (to_excel, to_calc)
     stored_prefix = SERVICE.upper() + "."
-    rewritten: Counter[str] = Counter()
-    unknown: Counter[str] = Counter()
-    qualified: Counter[str] = Counter()
-    already = 0
     pieces: list[str] = []
     done = 0
     for m in _TOKENS.finditer(text):
-        if m.group("call") is None:
+        found = m.group("name")
+        if found is None:
             continue
-        name = m.group("name").upper()
-        if name in wanted and m.start() > 0 and text[m.start() - 1] == "!":
-            qualified["!" + name] += 1
-        elif name in wanted:
-            pieces += [text[done:m.start()], wanted[name]]
-            done = m.end("name")
-            rewritten[to_excel.get(name, name)] += 1
+        name = found.upper()
+        hit = wanted.get(name)
+        if hit is not None and not (m.start() and text[m.start() - 1] == "!"):
+            pieces += [text[done:m.start()], hit]
+            done = m.end()
+            counts.rewritten[to_excel.get(name, name)] += 1
+        elif hit is not None:
+            counts.qualified["!" + name] += 1
+        elif "SF_" not in name and "SHEETFUNCS." not in name:
+            continue  # any other function: the common case, kept fast
         elif name in other:
-            already += 1
+            counts.already += 1
         elif name.startswith("SF_") or name.startswith(stored_prefix):
-            unknown[name] += 1
+            counts.unknown[name] += 1
         elif "." in name and _qualifies(name, to_calc, to_excel):
-            qualified[name] += 1
-    tally = _Tally(rewritten, already, unknown, qualified)
+            counts.qualified[name] += 1
     if not pieces:
-        return text, tally
+        return text
     pieces.append(text[done:])
-    return "".join(pieces), tally
+    return "".join(pieces)
 
 
 def _qualifies(name: str, to_calc: dict[str, str], to_excel: dict[str, str]) -> bool:
@@ -248,22 +271,22 @@ def rewrite_part(xml: str, kind: str, to: str, maps: tuple[dict[str, str], dict[
                  ) -> tuple[str, int, _Tally]:
     """Rewrite the formulas in one XML part of kind ``kind`` (``worksheet``, ``workbook``,
     ``table``): the new text, the number of formulas changed, the counts."""
-    tally = _empty_tally()
+    counts = _Counts()
     changed = 0
 
     def one(m: re.Match[str]) -> str:
-        nonlocal tally, changed
+        nonlocal changed
         text = m.group("text")
         if text is None or not _MARKER.search(text):
             return m.group(0)
-        new, counts = rewrite_formula(text, to, maps)
-        tally = _add(tally, counts)
+        new = _rewrite_into(text, to, maps, counts)
         if new == text:
             return m.group(0)
         changed += 1
         return m.group("open") + new + m.group("close")
 
-    return _element_pattern(_TAGS[kind]).sub(one, xml), changed, tally
+    new = _element_pattern(_TAGS[kind]).sub(one, xml)
+    return new, changed, counts.frozen()
 
 
 # --------------------------------------------------------------------------------------------
