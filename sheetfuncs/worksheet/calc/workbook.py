@@ -330,8 +330,11 @@ def _check_source(src: Path, size_limit: int) -> tuple[dict[str, str], str]:
         raise InputError(f"{src} not found; check the path and the file name")
     if src.is_dir():
         raise InputError(f"{src} is a folder, not a workbook; give the .xlsx file inside it")
-    _refuse_opendocument(src)
-    check_archive(src, size_limit)
+    try:
+        _refuse_opendocument(src)
+        check_archive(src, size_limit)
+    except PermissionError as e:
+        raise InputError(f"cannot read {src} ({e.strerror}); check the file's permissions") from None
     try:
         with zipfile.ZipFile(src) as zf:
             types = zf.read("[Content_Types].xml")
@@ -418,17 +421,29 @@ def _check_target(src: Path, dst: Path, book_type: str) -> None:
 def _write_atomic(src: Path, dst: Path, write: Callable[[zipfile.ZipFile], _T]) -> _T:
     """Run ``write`` on a zip file beside ``dst``, then rename it to ``dst``; on any failure
     remove the temporary file and leave ``dst`` as it was."""
-    fd, tmp_name = tempfile.mkstemp(prefix=f".{dst.name}.", suffix=".tmp", dir=dst.parent)
+    try:
+        fd, tmp_name = tempfile.mkstemp(prefix=f".{dst.name}.", suffix=".tmp", dir=dst.parent)
+    except OSError as e:
+        raise _write_error(dst, e) from None
     tmp = Path(tmp_name)
     try:
         with os.fdopen(fd, "wb") as fh, zipfile.ZipFile(fh, "w") as out:
             result = write(out)
         shutil.copymode(dst if dst.exists() else src, tmp)
         os.replace(tmp, dst)
-    except BaseException:
+    except BaseException as e:
         tmp.unlink(missing_ok=True)
+        if isinstance(e, OSError):
+            raise _write_error(dst, e) from None
         raise
     return result
+
+
+def _write_error(dst: Path, e: OSError) -> InputError:
+    return InputError(
+        f"cannot write {dst} ({e.strerror or e}); check the folder's permissions and the free "
+        "space, or choose another target (nothing was written)"
+    )
 
 
 def _copy_members(zin: zipfile.ZipFile, out: zipfile.ZipFile, kinds: dict[str, str], to: str,

@@ -431,6 +431,21 @@ def test_a_damaged_part_leaves_no_target_and_no_temporary_file(tmp_path):
     assert sorted(p.name for p in tmp_path.iterdir()) == ["bad.xlsx", "big.xlsx", "fill.xlsx", "out.xlsx"]
 
 
+def test_a_failed_write_says_so_and_leaves_nothing(tmp_path, monkeypatch):
+    src = make_book(tmp_path / "fill.xlsx", {"E1": "=SF_P(A1:C4)"})
+
+    def full(a: object, b: object) -> None:
+        raise OSError(28, "No space left on device")
+
+    monkeypatch.setattr(workbook.os, "replace", full)
+    with pytest.raises(InputError) as ei:
+        convert_workbook(src, tmp_path / "out.xlsx", to="calc")
+    assert str(ei.value) == (
+        f"sheetfuncs: cannot write {tmp_path / 'out.xlsx'} (No space left on device); check the "
+        "folder's permissions and the free space, or choose another target (nothing was written)")
+    assert [p.name for p in tmp_path.iterdir()] == ["fill.xlsx"]
+
+
 def test_the_target_replaces_an_earlier_file_and_keeps_its_mode(tmp_path):
     src = make_book(tmp_path / "fill.xlsx", {"E1": "=SF_P(A1:C4)"})
     out = tmp_path / "out.xlsx"
