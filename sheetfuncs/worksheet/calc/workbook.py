@@ -41,7 +41,10 @@ from ...input.files import DEFAULT_SIZE_LIMIT, check_archive
 from ..functions import REGISTRY
 from .names import SERVICE, stored_name
 
-__all__ = ["TARGETS", "PartChange", "Converted", "convert_workbook", "rewrite_formula", "name_maps"]
+__all__ = [
+    "TARGETS", "PartChange", "Converted", "Tally", "convert_workbook", "rewrite_formula",
+    "rewrite_part", "name_maps",
+]
 
 _T = TypeVar("_T")
 
@@ -157,8 +160,9 @@ class Converted:
 
 
 @dataclass(frozen=True)
-class _Tally:
-    """Counts of one formula or part: rewritten names and what was left."""
+class Tally:
+    """Counts of one formula or part: calls rewritten per function (display name), calls
+    already in the target form, unknown names and qualified calls (as in :class:`Converted`)."""
 
     rewritten: Counter[str]
     already: int
@@ -166,8 +170,8 @@ class _Tally:
     qualified: Counter[str]
 
 
-def _empty_tally() -> _Tally:
-    return _Tally(Counter(), 0, Counter(), Counter())
+def _empty_tally() -> Tally:
+    return Tally(Counter(), 0, Counter(), Counter())
 
 
 class _Counts:
@@ -180,12 +184,12 @@ class _Counts:
         self.qualified: Counter[str] = Counter()
         self.already = 0
 
-    def frozen(self) -> _Tally:
-        return _Tally(self.rewritten, self.already, self.unknown, self.qualified)
+    def frozen(self) -> Tally:
+        return Tally(self.rewritten, self.already, self.unknown, self.qualified)
 
 
-def _add(a: _Tally, b: _Tally) -> _Tally:
-    return _Tally(a.rewritten + b.rewritten, a.already + b.already,
+def _add(a: Tally, b: Tally) -> Tally:
+    return Tally(a.rewritten + b.rewritten, a.already + b.already,
                   a.unknown + b.unknown, a.qualified + b.qualified)
 
 
@@ -204,7 +208,7 @@ def name_maps(names: Iterable[str] | None = None) -> tuple[dict[str, str], dict[
 
 
 def rewrite_formula(text: str, to: str, maps: tuple[dict[str, str], dict[str, str]] | None = None,
-                    ) -> tuple[str, _Tally]:
+                    ) -> tuple[str, Tally]:
     """Rewrite the SF_ function names in one formula's text (as it stands in the XML, escapes
     included) to the ``to`` form; return the new text and what was counted."""
     counts = _Counts()
@@ -268,7 +272,7 @@ def _element_pattern(tags: tuple[str, ...]) -> re.Pattern[str]:
 
 
 def rewrite_part(xml: str, kind: str, to: str, maps: tuple[dict[str, str], dict[str, str]],
-                 ) -> tuple[str, int, _Tally]:
+                 ) -> tuple[str, int, Tally]:
     """Rewrite the formulas in one XML part of kind ``kind`` (``worksheet``, ``workbook``,
     ``table``): the new text, the number of formulas changed, the counts."""
     counts = _Counts()
@@ -448,7 +452,7 @@ def _write_error(dst: Path, e: OSError) -> InputError:
 
 def _copy_members(zin: zipfile.ZipFile, out: zipfile.ZipFile, kinds: dict[str, str], to: str,
                   maps: tuple[dict[str, str], dict[str, str]],
-                  ) -> tuple[tuple[PartChange, ...], _Tally, tuple[str, ...]]:
+                  ) -> tuple[tuple[PartChange, ...], Tally, tuple[str, ...]]:
     """Copy every member of ``zin`` to ``out`` in order, rewriting the formula parts."""
     changes: list[PartChange] = []
     notes: list[str] = []
@@ -489,7 +493,7 @@ def _copy_info(info: zipfile.ZipInfo) -> zipfile.ZipInfo:
 
 def _convert_part(name: str, data: bytes, kind: str, to: str,
                   maps: tuple[dict[str, str], dict[str, str]],
-                  ) -> tuple[bytes, PartChange, _Tally, str]:
+                  ) -> tuple[bytes, PartChange, Tally, str]:
     """One formula part: its new bytes, what changed, the counts and a note (or ``""``)."""
     try:
         xml = data.decode("utf-8")

@@ -493,3 +493,26 @@ def test_plain_formulas_saved_by_libreoffice_are_untouched(tmp_path):
         res = convert_workbook(saved, tmp_path / f"{to}.xlsx", to=to)
         assert (res.calls, res.parts) == (0, ())
         assert members(res.target) == members(saved)
+
+
+def test_formulas_as_calc_writes_them_come_back_in_the_excel_form(tmp_path):
+    # the form LibreOffice 7.4 with the extension writes (measured with the prototype; see
+    # sheetfuncs.worksheet.calc.names), put into a file LibreOffice saved
+    require_office()
+    src = make_book(tmp_path / "calc.xlsx", {"E1": "=SUM(A2:C4)", "E2": "=SUM(A2:C4)"})
+    saved = convert(src, "xlsx", tmp_path / "lo")
+    xml = sheet_xml(saved)
+    cells = re.findall(r'<f aca="false">SUM\(A2:C4\)</f>', xml)
+    assert len(cells) == 2
+    xml = xml.replace(cells[0], '<f aca="false">ORG.SHEETFUNCS.CALC.FUNCTIONS.SFP(A1:C4,'
+                      '&quot;wide&quot;)</f>', 1)
+    xml = xml.replace(cells[1], '<f aca="false" t="array" ref="E2:F3">'
+                      'ORG.SHEETFUNCS.CALC.FUNCTIONS.SFTABLE(A1:C4)</f>', 1)
+    patched = patch_zip(saved, tmp_path / "from-calc.xlsx", {SHEET: xml.encode()})
+    res = convert_workbook(patched, tmp_path / "for-excel.xlsx", to="excel")
+    assert (res.calls, res.names) == (2, (("SF_P", 1), ("SF_TABLE", 1)))
+    out = sheet_xml(res.target)
+    assert '<f aca="false">SF_P(A1:C4,&quot;wide&quot;)</f>' in out
+    assert '<f aca="false" t="array" ref="E2:F3">SF_TABLE(A1:C4)</f>' in out
+    assert out.replace("SF_P(", "ORG.SHEETFUNCS.CALC.FUNCTIONS.SFP(").replace(
+        "SF_TABLE(", "ORG.SHEETFUNCS.CALC.FUNCTIONS.SFTABLE(") == xml
