@@ -1,4 +1,4 @@
-"""The ``sheetfuncs`` command line: ``report``, ``demo``, ``table`` and ``plan``.
+"""The ``sheetfuncs`` command line: ``report``, ``demo``, ``table``, ``plan`` and ``calc``.
 
 A front only: inputs are read by :func:`sheetfuncs.input.read_groups` (which cleans every range
 with ``groups_from_range``), numbers come from the core, reports from
@@ -22,6 +22,7 @@ from types import MappingProxyType
 from typing import Any
 
 from ..errors import InputError, message
+from .calc import run_calc
 from .demo import run_demo
 from .files import os_reason
 from .parser import UsageError, build_parser, parse_args
@@ -37,6 +38,7 @@ COMMANDS: MappingProxyType[str, Callable[[argparse.Namespace], int]] = MappingPr
     "demo": run_demo,
     "table": run_table,
     "plan": run_plan,
+    "calc": run_calc,
 })
 
 

@@ -1,6 +1,7 @@
 """The command line's parser: the commands, their options and the usage errors.
 
-One builder per command (``report``, ``demo``, ``table``, ``plan``) on shared option groups: the
+One builder per command (``report``, ``demo``, ``table``, ``plan``, ``calc`` and its actions) on
+shared option groups: the
 reading options, the names of the factor and the response, the significance level, progress and
 help. A usage error is two short lines on stderr: the command's usage, then one line that says
 what is wrong (exit code 2). The commands themselves live in their own modules and are run by
@@ -310,6 +311,59 @@ def add_plan_command(sub: Any) -> None:
     add_other(plan, progress=False)
 
 
+def _calc_action(actions: Any, name: str, summary: str, usage: str) -> argparse.ArgumentParser:
+    action = actions.add_parser(name, prog=f"sheetfuncs calc {name}", help=summary, usage=usage,
+                                description=summary[:1].upper() + summary[1:] + ".",
+                                add_help=False)
+    action.set_defaults(parser=action)
+    return action
+
+
+def add_calc_command(sub: Any) -> None:
+    calc = add_command(
+        sub, "calc", summary="the LibreOffice Calc extension: build, install, check; convert "
+                             "workbooks between Excel and Calc",
+        usage="sheetfuncs calc {build,install,check,convert} [options]",
+        description="The SF_ worksheet functions in LibreOffice Calc: build the extension from "
+                    "this sheetfuncs, install it for LibreOffice, check it in a headless Calc, "
+                    "and convert the SF_ formulas of an .xlsx between Excel's and Calc's form.",
+    )
+    actions = calc.add_subparsers(dest="calc_action", metavar="ACTION", title="actions")
+    actions.required = True
+    python_help = ("the Python whose environment holds sheetfuncs, numpy and scipy, for "
+                   "LibreOffice to use (default: the Python running this command)")
+    build = _calc_action(actions, "build", "write the extension (.oxt) without installing it",
+                         "sheetfuncs calc build [-o FILE.oxt] [--python PATH]")
+    build.add_argument("-o", "--output", metavar="FILE.oxt", default="sheetfuncs.oxt",
+                       help="where to write it (default sheetfuncs.oxt)")
+    build.add_argument("--python", metavar="PATH", help=python_help)
+    install = _calc_action(actions, "install", "build the extension and install it for "
+                           "LibreOffice", "sheetfuncs calc install [--python PATH] [--shared]")
+    install.add_argument("--python", metavar="PATH", help=python_help)
+    install.add_argument("--shared", action="store_true",
+                         help="install it for every user of this machine (needs root)")
+    check = _calc_action(actions, "check", "compute SF_P and SF_TABLE in a headless Calc and "
+                         "compare them with the Python call", "sheetfuncs calc check")
+    for action in (install, check):
+        action.add_argument("--profile", metavar="DIR",
+                            help="a LibreOffice profile folder to use instead of your own "
+                                 "(for a throw-away test)")
+    convert = _calc_action(actions, "convert", "rewrite the SF_ formulas of an .xlsx for the "
+                           "other program", "sheetfuncs calc convert INPUT.xlsx -o OUT.xlsx "
+                           "--to {calc,excel} [--force]")
+    convert.add_argument("input", metavar="INPUT.xlsx", help="an .xlsx or .xlsm workbook")
+    convert.add_argument("-o", "--output", metavar="OUT.xlsx", required=True,
+                         help="the converted copy (the input is never changed)")
+    convert.add_argument("--to", choices=("calc", "excel"), required=True,
+                         help="calc: for LibreOffice Calc with the extension; excel: for "
+                              "Excel with xlwings")
+    convert.add_argument("--force", action="store_true",
+                         help="replace OUT.xlsx when it exists (default: keep it and stop)")
+    for action in (build, install, check, convert):
+        add_other(action, progress=False)
+    add_other(calc, progress=False)
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser (exposed for documentation and tests)."""
     from .. import __version__
@@ -331,7 +385,8 @@ def build_parser() -> argparse.ArgumentParser:
                      help="show the version and exit")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", title="commands")
     sub.required = True
-    for add in (add_report_command, add_demo_command, add_table_command, add_plan_command):
+    for add in (add_report_command, add_demo_command, add_table_command, add_plan_command,
+                add_calc_command):
         add(sub)
     return parser
 

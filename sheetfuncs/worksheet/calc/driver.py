@@ -9,6 +9,8 @@ each step's ``key`` to what it read. It uses only the standard library and ``uno
 runs in an environment without sheetfuncs. Steps (``op``):
 
 * ``new`` (an empty spreadsheet), ``load`` (``path``), ``save`` (``path``, ``filter``), ``close``;
+* ``sheet`` (``name``, ``index``: add a sheet, or choose one, for the steps that follow; a step
+  may also name its own ``sheet``, by name or index);
 * ``cells`` (``at``: top-left cell, ``rows``: values, ``None`` for blank), ``formula``
   (``at``, ``formula`` in Calc's English API syntax, ``;`` between arguments), ``array``
   (``at``: a range, ``formula``: entered as an array formula), ``value`` (``at``, ``value``);
@@ -37,11 +39,12 @@ def _prop(name, value):
 
 
 def start(profile, pipe):
-    """Start soffice headless on ``profile`` and connect; returns (process, component context)."""
+    """Start soffice headless on ``profile`` (the user's own when None) and connect; returns
+    (process, component context)."""
     office = os.environ.get("SHEETFUNCS_SOFFICE", "soffice")
+    own = [] if profile is None else ["-env:UserInstallation=" + uno.systemPathToFileUrl(profile)]
     proc = subprocess.Popen(
-        [office, "-env:UserInstallation=" + uno.systemPathToFileUrl(profile), "--headless",
-         "--invisible", "--norestore", "--nolockcheck", "--nodefault", "--nologo",
+        [office, *own, "--headless", "--invisible", "--norestore", "--nolockcheck", "--nodefault", "--nologo",
          f"--accept=pipe,name={pipe};urp;"],
         stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
     )
@@ -129,44 +132,59 @@ def _time(sheet, step):
     return times
 
 
+def _sheet(doc, which):
+    """A sheet by name or by index."""
+    if isinstance(which, str):
+        return doc.Sheets.getByName(which)
+    return doc.Sheets.getByIndex(int(which))
+
+
+def _sheet_step(doc, sheet, step, out):
+    """One step on a sheet; returns False when ``op`` is not a sheet step."""
+    op = step["op"]
+    if op == "cells":
+        rows = _cell_rows(step["rows"])
+        first = sheet.getCellRangeByName(step["at"]).getCellAddress()
+        sheet.getCellRangeByPosition(first.Column, first.Row, first.Column + len(rows[0]) - 1,
+                                     first.Row + len(rows) - 1).setDataArray(rows)
+    elif op == "formula":
+        sheet.getCellRangeByName(step["at"]).setFormula(step["formula"])
+    elif op == "array":
+        sheet.getCellRangeByName(step["at"]).setArrayFormula(step["formula"])
+    elif op == "value":
+        sheet.getCellRangeByName(step["at"]).setValue(step["value"])
+    elif op == "read":
+        out[step["key"]] = _read(sheet, step["at"])
+    elif op == "time":
+        out[step["key"]] = _time(sheet, step)
+    else:
+        return False
+    return True
+
+
 def run_steps(ctx, steps):
     desktop = ctx.ServiceManager.createInstanceWithContext("com.sun.star.frame.Desktop", ctx)
-    out, doc = {}, None
+    out, doc, current = {}, None, 0
     for step in steps:
         op = step["op"]
         if op in ("new", "load"):
             url = "private:factory/scalc" if op == "new" else uno.systemPathToFileUrl(step["path"])
             doc = desktop.loadComponentFromURL(url, "_blank", 0, (_prop("Hidden", True),))
-            continue
-        if op == "wizard":
+            current = 0
+        elif op == "wizard":
             out[step["key"]] = _wizard(ctx, step.get("prefix", "SF_"))
-            continue
-        sheet = doc.Sheets.getByIndex(int(step.get("sheet", 0)))
-        if op == "cells":
-            rows = _cell_rows(step["rows"])
-            start_cell = sheet.getCellRangeByName(step["at"]).getCellAddress()
-            rng = sheet.getCellRangeByPosition(start_cell.Column, start_cell.Row,
-                                               start_cell.Column + len(rows[0]) - 1,
-                                               start_cell.Row + len(rows) - 1)
-            rng.setDataArray(rows)
-        elif op == "formula":
-            sheet.getCellRangeByName(step["at"]).setFormula(step["formula"])
-        elif op == "array":
-            sheet.getCellRangeByName(step["at"]).setArrayFormula(step["formula"])
-        elif op == "value":
-            sheet.getCellRangeByName(step["at"]).setValue(step["value"])
+        elif op == "sheet":
+            if not doc.Sheets.hasByName(step["name"]):
+                doc.Sheets.insertNewByName(step["name"], int(step.get("index", 0)))
+            current = step["name"]
         elif op == "recalc":
             doc.calculateAll()
-        elif op == "read":
-            out[step["key"]] = _read(sheet, step["at"])
-        elif op == "time":
-            out[step["key"]] = _time(sheet, step)
         elif op == "save":
             doc.storeToURL(uno.systemPathToFileUrl(step["path"]), (_prop("FilterName", step["filter"]),))
         elif op == "close":
             doc.close(True)
             doc = None
-        else:
+        elif not _sheet_step(doc, _sheet(doc, step.get("sheet", current)), step, out):
             raise SystemExit(f"unknown step {op!r}")
     return out
 
@@ -174,7 +192,7 @@ def run_steps(ctx, steps):
 def main(argv):
     job = json.loads(open(argv[1], encoding="utf-8").read())
     t0 = time.perf_counter()
-    proc, ctx = start(job["profile"], job.get("pipe", f"sheetfuncs{os.getpid()}"))
+    proc, ctx = start(job.get("profile"), job.get("pipe", f"sheetfuncs{os.getpid()}"))
     started = time.perf_counter() - t0
     try:
         out = run_steps(ctx, job["steps"])

@@ -15,7 +15,8 @@ mapping differs:
   values for a range or an inline array (``((1.0, -0.5, -0.5),)``); ``''`` is a blank, and
   Calc's logicals are numbers, so a logical argument's 1 or 0 is TRUE or FALSE;
 * the result goes back as a number or one line of text, a table as rows of equal length with
-  ``''`` in the cells the table leaves blank (``None`` would show as an error in Calc), and a
+  ``''`` in the cells the table leaves blank (``None`` would show as an error in Calc), a
+  logical as 1 or 0 (Calc's own form of TRUE and FALSE), and a
   table function's message as a table of one cell (Calc takes a table function's result only as
   rows of values: the interface declares it so).
 """
@@ -105,7 +106,17 @@ def to_calc(shown: Any, result: str) -> Any:
         return "" if shown is None else shown
     if isinstance(shown, str):  # a message: one line in the first cell
         return ((shown,),)
-    return tuple(tuple("" if v is None else v for v in row) for row in shown)
+    return tuple(tuple(_calc_value(v) for v in row) for row in shown)
+
+
+def _calc_value(v: Any) -> Any:
+    """One cell of a table for Calc: ``''`` for blank, a logical as the number 1 or 0 (Calc
+    has no logical type: TRUE is 1; format the column as Boolean to read TRUE and FALSE)."""
+    if v is None:
+        return ""
+    if v is True or v is False:
+        return 1.0 if v else 0.0
+    return v
 
 
 def call(name: str, given: Sequence[Any]) -> Any:

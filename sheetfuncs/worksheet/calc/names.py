@@ -15,7 +15,13 @@ names are camelCase (``SF_BROWNFORSYTHE`` → ``sfBrownforsythe``, ``factor_name
 
 from __future__ import annotations
 
-__all__ = ["MODULE", "SERVICE", "INTERFACE", "method_name", "argument_name", "stored_name"]
+from typing import Any
+
+from ...input import format_label
+from ..registry import MISSING, Ref
+
+__all__ = ["MODULE", "SERVICE", "INTERFACE", "method_name", "argument_name", "stored_name",
+           "calc_literal", "calc_formula"]
 
 #: The UNO module of the extension's types.
 MODULE = "org.sheetfuncs.calc"
@@ -42,3 +48,25 @@ def stored_name(name: str) -> str:
     """What Calc writes into a saved file for worksheet function ``name``:
     ``SF_P`` → ``ORG.SHEETFUNCS.CALC.FUNCTIONS.SFP``."""
     return f"{SERVICE}.{method_name(name)}".upper()
+
+
+def calc_literal(value: Any) -> str:
+    """An argument as typed in Calc's formula syntax for the API (``setFormula``): text quoted,
+    ``TRUE()``/``FALSE()``, the shortest number, an inline array with ``;`` between columns and
+    ``|`` between rows (``{1;-0.5;-0.5}`` is one row), a reference as its A1 address."""
+    if value is MISSING:
+        return ""
+    if isinstance(value, Ref):
+        return value.address
+    if isinstance(value, bool):
+        return "TRUE()" if value else "FALSE()"
+    if isinstance(value, str):
+        return '"' + value.replace('"', '""') + '"'
+    if isinstance(value, tuple):
+        return "{" + "|".join(";".join(calc_literal(v) for v in row) for row in value) + "}"
+    return format_label(value)
+
+
+def calc_formula(name: str, args: tuple[Any, ...]) -> str:
+    """A call of worksheet function ``name`` in Calc's API syntax: ``=SF_P(A1:C7;"long")``."""
+    return f"={name}({';'.join(calc_literal(a) for a in args)})"

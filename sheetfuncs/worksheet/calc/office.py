@@ -165,16 +165,16 @@ def office_environment(office: Office) -> dict[str, str]:
     return env
 
 
-def run_job(office: Office, steps: list[dict[str, Any]], profile: Path,
+def run_job(office: Office, steps: list[dict[str, Any]], profile: Path | None,
             timeout: int = _TIMEOUT) -> dict[str, Any]:
-    """Run :mod:`.driver` in LibreOffice's Python: start Calc headless on ``profile``, do
-    ``steps``, and return what they read."""
+    """Run :mod:`.driver` in LibreOffice's Python: start Calc headless on ``profile`` (the
+    user's own profile when ``None``), do ``steps``, and return what they read."""
     if office.python is None:
         check_import(office, ())  # raises the line that says what to install
     driver = Path(__file__).with_name("driver.py")
     with tempfile.TemporaryDirectory(prefix="sheetfuncs-calc-") as tmp:
         job, out = Path(tmp) / "job.json", Path(tmp) / "out.json"
-        job.write_text(json.dumps({"profile": str(profile), "steps": steps,
+        job.write_text(json.dumps({"profile": None if profile is None else str(profile), "steps": steps,
                                    "pipe": f"sheetfuncs{os.getpid()}"}), encoding="utf-8")
         env = office_environment(office)
         try:
