@@ -14,6 +14,7 @@ arrives. Everything else, the cleaning, the call and the shaping of the result, 
 :mod:`sheetfuncs.worksheet.calc.host`, which is tested without LibreOffice.
 """
 
+import gc
 import site
 import sys
 
@@ -84,7 +85,10 @@ def _errors(rng):
 
 def _read_range(document, rng):
     """A cell-range argument as the host module takes it."""
-    return _host().CalcRange(rng.getDataArray(), _errors(rng), _kinds(document, rng), _null_date(document))
+    values = rng.getDataArray()
+    # an error cell arrives as None (a blank as ''): look for the errors only when one is there
+    errors = _errors(rng) if any(None in row for row in values) else {}
+    return _host().CalcRange(values, errors, _kinds(document, rng), _null_date(document))
 
 
 def _null_date(document):
@@ -100,11 +104,17 @@ def _function(name):
         host = _host()
         if isinstance(host, str):
             return host
+        paused = gc.isenabled()
+        gc.disable()  # the range's cells are many new objects: no collection while they live
         try:
-            given = [_read_range(document, a) if hasattr(a, "getDataArray") else a for a in args]
-        except Exception as err:  # a failure reading the cells: one line, never a traceback
-            return host.read_failure(name, err)
-        return host.call(name, given)
+            try:
+                given = [_read_range(document, a) if hasattr(a, "getDataArray") else a for a in args]
+            except Exception as err:  # a failure reading the cells: one line, never a traceback
+                return host.read_failure(name, err)
+            return host.call(name, given)
+        finally:
+            if paused:
+                gc.enable()
     call.__name__ = name
     return call
 

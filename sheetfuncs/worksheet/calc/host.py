@@ -74,9 +74,20 @@ def _kind_value(v: Any, kind: str, null_date: tuple[int, int, int]) -> Any:
     return _dt.datetime(*null_date) + _dt.timedelta(days=v)
 
 
-def range_cells(rng: CalcRange) -> list[list[Any]]:
+def _clean_row(row: Sequence[Any]) -> Sequence[Any]:
+    """One row with ``None`` for its blanks; a row without blanks is kept as it is (the usual
+    row of measurements: the test runs at C speed, and the wrapper reads rows as sequences)."""
+    if "" not in row:
+        return row
+    return [_blank(v) for v in row]
+
+
+def range_cells(rng: CalcRange) -> list[Sequence[Any]]:
     """The cells of a range argument as xlwings' cleaning hands them over in Excel."""
-    rows = [[_blank(v) for v in row] for row in rng.values]
+    rows: list[Any] = list(map(_clean_row, rng.values))
+    for r in {r for r, _ in rng.kinds} | {r for r, _ in rng.errors}:
+        if r < len(rows):
+            rows[r] = list(rows[r])
     for (r, c), kind in rng.kinds.items():
         if r < len(rows) and c < len(rows[r]):
             rows[r][c] = _kind_value(rows[r][c], kind, rng.null_date)
