@@ -37,6 +37,7 @@ _TIMEOUT = 600
 #: as arguments: the same steps as the component (site folders first on the path).
 IMPORT_CHECK = (
     "import site, sys\n"
+    "sys.path[:] = [p for p in sys.path if p]  # not the current folder: LibreOffice's differs\n"
     "before = list(sys.path)\n"
     "for d in sys.argv[1:]: site.addsitedir(d)\n"
     "sys.path[:] = [p for p in sys.path if p not in before] + before\n"
