@@ -42,8 +42,11 @@ def test_no_message_in_the_package_types_the_prefix():
     from pathlib import Path
 
     root = Path(sf.__file__).parent
+    # the Calc component runs inside LibreOffice before sheetfuncs can be imported: its one line
+    # for a failed import is the only message written out in full
+    apart = {root / "errors.py", root / "worksheet" / "calc" / "component.py"}
     for path in root.rglob("*.py"):
-        if path.name == "errors.py" and path.parent == root:
+        if path in apart:
             continue
         for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
             if isinstance(node, ast.Constant) and isinstance(node.value, str):

@@ -63,9 +63,12 @@ def _shown(calc: Any) -> Any:
 
 
 def _same(a: Any, b: Any) -> bool:
-    """Equal and of the same type, cell by cell (numbers exactly, text equal)."""
+    """Equal and of the same type, cell by cell (numbers exactly, text equal); a logical of the
+    harness (``a``) is the number 1 or 0 in Calc (``b``), Calc's own form of TRUE and FALSE."""
     if isinstance(a, list):
         return isinstance(b, list) and len(a) == len(b) and all(map(_same, a, b))
+    if isinstance(a, bool):
+        return type(b) is float and b == float(a)
     return type(a) is type(b) and a == b
 
 
@@ -156,7 +159,7 @@ def test_example_equals_harness(name) -> None:
     if REGISTRY[name].result == "table":
         assert isinstance(calc, tuple) and all(isinstance(r, tuple) for r in calc), f"{name}: rows for Calc"
         assert len({len(r) for r in calc}) == 1, f"{name}: rows of equal length"
-    assert _same(_shown(calc), reference), f"{name}: Calc's result differs from the harness"
+    assert _same(reference, _shown(calc)), f"{name}: Calc's result differs from the harness"
     assert not harness.is_message(_shown(calc)), f"{name}: the example gives a message"
 
 
