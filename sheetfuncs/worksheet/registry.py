@@ -218,18 +218,22 @@ class Function:
         return formula_text(self.name, self.example.args)
 
 
-def formula_literal(value: Any) -> str:
-    """A value as typed in a formula: text quoted, TRUE/FALSE, shortest numbers, array constants."""
+def formula_literal(value: Any, *, columns: str = ",", rows: str = ";",
+                    logicals: tuple[str, str] = ("FALSE", "TRUE")) -> str:
+    """A value as typed in a formula: text quoted, TRUE/FALSE, shortest numbers, array constants
+    (Excel's separators by default: ``,`` between the columns of an array constant, ``;``
+    between its rows; another host's separators and logicals can be given)."""
     if value is MISSING:
         return ""
     if isinstance(value, Ref):
         return value.address
     if isinstance(value, bool):
-        return "TRUE" if value else "FALSE"
+        return logicals[value]
     if isinstance(value, str):
         return '"' + value.replace('"', '""') + '"'
     if isinstance(value, tuple):
-        return "{" + ";".join(",".join(formula_literal(v) for v in row) for row in value) + "}"
+        same = {"columns": columns, "rows": rows, "logicals": logicals}
+        return "{" + rows.join(columns.join(formula_literal(v, **same) for v in row) for row in value) + "}"
     return format_label(value)
 
 

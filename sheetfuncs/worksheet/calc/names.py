@@ -17,8 +17,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from ...input import format_label
-from ..registry import MISSING, Ref
+from ..registry import formula_literal
 
 __all__ = ["MODULE", "SERVICE", "INTERFACE", "method_name", "argument_name", "stored_name",
            "calc_literal", "calc_formula"]
@@ -54,17 +53,7 @@ def calc_literal(value: Any) -> str:
     """An argument as typed in Calc's formula syntax for the API (``setFormula``): text quoted,
     ``TRUE()``/``FALSE()``, the shortest number, an inline array with ``;`` between columns and
     ``|`` between rows (``{1;-0.5;-0.5}`` is one row), a reference as its A1 address."""
-    if value is MISSING:
-        return ""
-    if isinstance(value, Ref):
-        return value.address
-    if isinstance(value, bool):
-        return "TRUE()" if value else "FALSE()"
-    if isinstance(value, str):
-        return '"' + value.replace('"', '""') + '"'
-    if isinstance(value, tuple):
-        return "{" + "|".join(";".join(calc_literal(v) for v in row) for row in value) + "}"
-    return format_label(value)
+    return formula_literal(value, columns=";", rows="|", logicals=("FALSE()", "TRUE()"))
 
 
 def calc_formula(name: str, args: tuple[Any, ...]) -> str:
