@@ -75,7 +75,10 @@ def _errors(rng):
     """Error cells of ``rng``: {(row, col): Calc's error code}."""
     found = {}
     origin = rng.getRangeAddress()
-    cells = rng.queryFormulaCells(_ERROR).getCells().createEnumeration()
+    ranges = rng.queryFormulaCells(_ERROR)
+    if ranges.getCount() == 0:
+        return found
+    cells = ranges.getCells().createEnumeration()
     while cells.hasMoreElements():
         cell = cells.nextElement()
         a = cell.getCellAddress()
@@ -86,9 +89,8 @@ def _errors(rng):
 def _read_range(document, rng):
     """A cell-range argument as the host module takes it."""
     values = rng.getDataArray()
-    # an error cell arrives as None (a blank as ''): look for the errors only when one is there
-    errors = _errors(rng) if any(None in row for row in values) else {}
-    return _host().CalcRange(values, errors, _kinds(document, rng), _null_date(document))
+    blanks = rng.queryEmptyCells().getCount() > 0  # else the rows go on as they are
+    return _host().CalcRange(values, _errors(rng), _kinds(document, rng), _null_date(document), blanks)
 
 
 def _null_date(document):

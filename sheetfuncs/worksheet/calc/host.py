@@ -48,13 +48,16 @@ class CalcRange:
 
     ``values`` are the rows of ``getDataArray``; ``errors`` maps (row, column) within the range
     to Calc's error code; ``kinds`` maps (row, column) to ``logical``, ``date`` or ``time`` for
-    cells whose number format says so; ``null_date`` is the document's day zero.
+    cells whose number format says so; ``null_date`` is the document's day zero; ``blanks`` is
+    False when Calc found no empty cell in the range: the rows then go on as they are (a formula
+    cell showing empty text stays ``''``, which the cleaning reads as a blank too).
     """
 
     values: Sequence[Sequence[Any]]
     errors: Mapping[tuple[int, int], int] = field(default_factory=dict)
     kinds: Mapping[tuple[int, int], str] = field(default_factory=dict)
     null_date: tuple[int, int, int] = (1899, 12, 30)
+    blanks: bool = True
 
 
 def error_name(code: int) -> str:
@@ -84,7 +87,7 @@ def _clean_row(row: Sequence[Any]) -> Sequence[Any]:
 
 def range_cells(rng: CalcRange) -> list[Sequence[Any]]:
     """The cells of a range argument as xlwings' cleaning hands them over in Excel."""
-    rows: list[Any] = list(map(_clean_row, rng.values))
+    rows: list[Any] = list(map(_clean_row, rng.values)) if rng.blanks else list(rng.values)
     for r in {r for r, _ in rng.kinds} | {r for r, _ in rng.errors}:
         if r < len(rows):
             rows[r] = list(rows[r])

@@ -203,3 +203,14 @@ def test_date_and_logical_cells_as_with_xlwings() -> None:
     logical = CalcRange(_calc_rows(_sheet_with(2, 0, True)), kinds={(2, 0): "logical"})
     assert call("SF_P", [logical, None, None]) == harness.call("SF_P", _sheet_with(2, 0, True))
     assert isinstance(call("SF_P", [logical, None, None]), float)  # a logical is left out, not an error
+
+
+def test_rows_without_blanks_go_on_as_they_are() -> None:
+    rows = (("Head A", "Head B"), (1.5, 2.0), (1.7, 2.4))
+    cleaned = range_cells(CalcRange(rows, blanks=False))
+    assert cleaned == list(rows) and all(a is b for a, b in zip(cleaned, rows))
+    # a formula cell showing empty text ('' with no empty cell in the range) is still a blank to
+    # the core: the same p-value as the harness gives with that cell blank (the Python call)
+    with_text = (("Head A", "Head B"), (1.5, 2.0), (1.7, ""), (1.6, 2.4))
+    given = [CalcRange(with_text, blanks=False), None, None]
+    assert call("SF_P", given) == harness.call("SF_P", [list(r) for r in with_text])
