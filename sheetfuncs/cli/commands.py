@@ -1,4 +1,5 @@
-"""The ``sheetfuncs`` command line: ``report``, ``demo``, ``table``, ``plan`` and ``calc``.
+"""The ``sheetfuncs`` command line: ``report``, ``demo``, ``table``, ``plan``, ``template``,
+``fill`` and ``calc``.
 
 A front only: inputs are read by :func:`sheetfuncs.input.read_groups` (which cleans every range
 with ``groups_from_range``), numbers come from the core, reports from
@@ -29,6 +30,7 @@ from .parser import UsageError, build_parser, parse_args
 from .plan import run_plan
 from .report import run_report
 from .table import run_table
+from .templates import run_fill, run_template
 
 __all__ = ["COMMANDS", "DEBUG_VARIABLE", "EXIT_BUG", "EXIT_INTERRUPTED", "bug_line", "main"]
 
@@ -38,6 +40,8 @@ COMMANDS: MappingProxyType[str, Callable[[argparse.Namespace], int]] = MappingPr
     "demo": run_demo,
     "table": run_table,
     "plan": run_plan,
+    "template": run_template,
+    "fill": run_fill,
     "calc": run_calc,
 })
 

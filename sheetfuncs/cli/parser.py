@@ -22,6 +22,7 @@ from ..input import DEFAULT_MAX_CELLS, DEFAULT_MAX_FIELDS, DEFAULT_SIZE_LIMIT
 __all__ = [
     "UsageError", "CommandParser", "DEFAULT_DEMO_OUTPUT", "build_parser", "parse_args",
     "read_options", "positive_mb", "real", "whole", "count", "REPORT_MAX_GROUPS",
+    "TEMPLATE_KINDS",
 ]
 
 DEFAULT_DEMO_OUTPUT = "sheetfuncs-demo.xlsx"
@@ -364,6 +365,63 @@ def add_calc_command(sub: Any) -> None:
     add_other(calc, progress=False)
 
 
+#: The kinds of ready template (sheetfuncs.templates.KINDS, which the tests compare), for the
+#: help text: the templates are imported only when one is written.
+TEMPLATE_KINDS = ("compare-groups", "lot-homogeneity", "study-plan", "summary-compare")
+
+
+def add_template_command(sub: Any) -> None:
+    tpl = add_command(
+        sub, "template", summary="write a ready QA template (.xlsx) with live SF_ formulas",
+        usage="sheetfuncs template KIND -o FILE.xlsx [--for excel|calc] [--force]",
+        description="Write a ready QA template: a record sheet with header fields, SF_ "
+                    "formulas, decisions guarded by ISNUMBER(), instructions and cautions, and "
+                    "a data sheet whose block (a defined name and a table) holds invented "
+                    "example data. Kinds: compare-groups (one-way table, checks, pairwise "
+                    "comparisons with letters, decision), lot-homogeneity (variance components, "
+                    "ICC), study-plan (power, sample size, detectable difference from a pilot), "
+                    "summary-compare (from n, mean and SD per group).",
+    )
+    g = tpl.add_argument_group("template")
+    g.add_argument("kind", choices=TEMPLATE_KINDS, metavar="KIND",
+                   help="one of: " + ", ".join(TEMPLATE_KINDS))
+    g.add_argument("-o", "--output", metavar="FILE.xlsx", required=True,
+                   help="where to write it")
+    g.add_argument("--for", dest="host", choices=("excel", "calc"), default="excel",
+                   help="excel (default): formulas for Excel with xlwings; calc: for "
+                        "LibreOffice Calc with the sheetfuncs extension")
+    g.add_argument("--force", action="store_true", help="replace FILE.xlsx when it exists")
+    add_other(tpl, progress=False)
+
+
+def add_fill_command(sub: Any) -> None:
+    fill = add_command(
+        sub, "fill", summary="fill a template's data block and store every result, headless",
+        usage="sheetfuncs fill TEMPLATE --data FILE... (-o OUT.xlsx | --out-dir DIR) "
+              "[--into NAME] [options]",
+        description="Put the data of a file into a template's data block (a defined name or "
+                    "a table), compute every SF_ formula with the same core as the live "
+                    "functions, evaluate the formulas that depend on them, and store each "
+                    "value with its formula, so that the filled workbook shows the numbers in "
+                    "any spreadsheet program. Nothing else in the template changes.",
+    )
+    io_ = fill.add_argument_group("template, data and output")
+    io_.add_argument("template", metavar="TEMPLATE", help="an .xlsx or .xlsm template")
+    io_.add_argument("--data", nargs="+", required=True, metavar="FILE",
+                     help="the data: .xlsx, .xlsm or .csv files (several with --out-dir)")
+    out = io_.add_mutually_exclusive_group(required=True)
+    out.add_argument("-o", "--output", metavar="OUT.xlsx", help="the filled workbook")
+    out.add_argument("--out-dir", metavar="DIR",
+                     help="folder for one filled workbook per data file, named after it")
+    io_.add_argument("--into", metavar="NAME",
+                     help="the data block: a defined name or a table (default: the "
+                          "template's only defined name over a range of cells)")
+    io_.add_argument("--force", action="store_true",
+                     help="replace outputs that exist (default: keep them and stop)")
+    add_read_options(fill)
+    add_other(fill, progress=True)
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser (exposed for documentation and tests)."""
     from .. import __version__
@@ -386,7 +444,7 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", title="commands")
     sub.required = True
     for add in (add_report_command, add_demo_command, add_table_command, add_plan_command,
-                add_calc_command):
+                add_template_command, add_fill_command, add_calc_command):
         add(sub)
     return parser
 

@@ -86,7 +86,7 @@ def test_every_command_of_the_parser_has_a_runner():
     section = help_text.split("commands:\n")[1].splitlines()[1:]  # after the COMMAND line
     listed = [line.split()[0] for line in section
               if line.startswith("    ") and not line.startswith("     ")]  # not wrapped help
-    assert listed == list(COMMANDS) == ["report", "demo", "table", "plan", "calc"]
+    assert listed == list(COMMANDS) == ["report", "demo", "table", "plan", "template", "fill", "calc"]
 
 
 def test_a_file_system_error_is_one_line(tmp_path, capsys, monkeypatch):
