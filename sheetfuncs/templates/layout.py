@@ -141,11 +141,13 @@ class Page:
             self.row += 1
 
     def fields(self, labels: tuple[str, ...]) -> None:
-        """Label in column B, an empty input cell in C, one row each (the header fields)."""
+        """Label in column B, an empty input cell over C:E, one row each (the header fields)."""
         for label in labels:
             self.ws.cell(self.row, 2, label).font = _LABEL
-            cell = self.ws.cell(self.row, 3)
-            cell.fill, cell.border = _INPUT_FILL, _BOX
+            for col in (3, 4, 5):
+                cell = self.ws.cell(self.row, col)
+                cell.fill, cell.border = _INPUT_FILL, _BOX
+            self.ws.merge_cells(start_row=self.row, start_column=3, end_row=self.row, end_column=5)
             self.row += 1
 
     def setting(self, name: str, label: str, value: Any, hint: str,
@@ -154,7 +156,7 @@ class Page:
         self.ws.cell(self.row, 2, label).font = _LABEL
         cell = self.ws.cell(self.row, 3, value)
         cell.fill, cell.border = _INPUT_FILL, _BOX
-        self.ws.cell(self.row, 4, hint).font = _SUB
+        self.ws.cell(self.row, 5, hint).font = _SUB
         if choices:
             dv = DataValidation(type="list", formula1='"' + ",".join(choices) + '"',
                                 allow_blank=False, showErrorMessage=True)
@@ -176,16 +178,17 @@ class Page:
         return left
 
     def value(self, label: str, formula: str, hint: str = "", decision: bool = False) -> str:
-        """A labelled result cell with a plain formula; returns its address (``C12``)."""
+        """A labelled result cell with a formula (written without ``=``), its hint in column F;
+        returns its address (``C12``)."""
         self.ws.cell(self.row, 2, label).font = _LABEL
-        cell = self.ws.cell(self.row, 3, formula)
+        cell = self.ws.cell(self.row, 3, "=" + formula)
         cell.fill = _DECISION_FILL if decision else _RESULT_FILL
         cell.border = _BOX
         if decision:
             cell.font = Font(bold=True, size=12)
             self.decisions.append(cell.coordinate)
         if hint:
-            self.ws.cell(self.row, 4, hint).font = _SUB
+            self.ws.cell(self.row, 6, hint).font = _SUB
         self.row += 1
         return cell.coordinate
 
@@ -247,7 +250,7 @@ def setup_print(ws: Any, title: str, last_col: int, landscape: bool) -> None:
     ws.oddFooter.left.text = "&F"
     ws.oddFooter.right.text = "Page &P of &N"
     ws.column_dimensions["A"].width = 2
-    ws.column_dimensions["B"].width = 24
+    ws.column_dimensions["B"].width = 26
     for col in range(3, last_col + 1):
-        ws.column_dimensions[get_column_letter(col)].width = 14
+        ws.column_dimensions[get_column_letter(col)].width = 20 if col == 3 else 14
     ws.sheet_view.showGridLines = False

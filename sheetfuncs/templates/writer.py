@@ -78,7 +78,7 @@ def build_workbook(kind: Kind) -> tuple[Workbook, Page, str]:
     for name, ref in page.names.items():
         wb.defined_names[name] = DefinedName(name, attr_text=ref)
     setup_print(record, f"{kind.title} (sheetfuncs template)", 11, landscape=True)
-    setup_print(data, f"{kind.title}: data entry", 1 + max(len(kind.block.header), 5),
+    setup_print(data, f"{kind.title}: data entry", 1 + max(len(kind.block.header), 7),
                 landscape=False)
     wb.properties.creator = "sheetfuncs"
     wb.properties.lastModifiedBy = "sheetfuncs"
