@@ -98,7 +98,8 @@ def closing(page: Page) -> None:
 
 def verdict(p: str, alpha: str, yes: str, no: str) -> str:
     """The guarded decision on a p-value cell."""
-    return f'IF(ISNUMBER({p}),IF({p}<{alpha},"{yes}","{no}"),"check the data")'
+    return (f'IF(AND(ISNUMBER({p}),ISNUMBER({alpha})),IF({p}<{alpha},"{yes}","{no}"),'
+            f'"check the data and alpha")')
 
 
 def build_compare(page: Page, block: Block) -> None:
@@ -136,7 +137,9 @@ def build_compare(page: Page, block: Block) -> None:
                "at alpha, on the result read", decision=True)
     page.value("Result read", f'IF(ISNUMBER({p}),{reading},"check the data")')
     page.value("p-value read", f'IF(ISNUMBER({p}),{p},"check the data")')
-    page.value("Pairs that differ", f'IF(ISNUMBER({p}),COUNTIF({differs},TRUE),"check the data")',
+    first_p = at(pairs, 2, 8)
+    page.value("Pairs that differ",
+               f'IF(ISNUMBER({first_p}),COUNTIF({differs},TRUE),"check the data")',
                "by the comparison method, at alpha")
     page.goto(end)
 
@@ -199,8 +202,9 @@ def build_plan(page: Page, block: Block) -> None:
     page.value("Detectable range of means", f"IF(AND(ISNUMBER({det}),ISNUMBER(WithinSD)),"
                f"{det}*WithinSD*SQRT(2*GroupCount),\"check the inputs\")",
                "two groups at the extremes, the others midway (Cohen 1988, ch. 8)")
-    page.value("Decision", f'IF(ISNUMBER({power}),IF({power}>=WantedPower,"plan reaches the '
-               f'wanted power","plan falls short: see the values needed per group"),'
+    page.value("Decision", f'IF(AND(ISNUMBER({power}),ISNUMBER(WantedPower)),'
+               f'IF({power}>=WantedPower,"plan reaches the wanted power",'
+               f'"plan falls short: see the values needed per group"),'
                f'"check the inputs")', decision=True)
     page.section("From the pilot data (Data sheet)")
     effect = page.array(f"SF_EFFECT({block.name},{WIDE})", shape("SF_EFFECT", block))

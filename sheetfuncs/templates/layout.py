@@ -163,7 +163,7 @@ class Page:
             dv.error = "Choose one of the listed values."
             self.ws.add_data_validation(dv)
             dv.add(cell.coordinate)
-        self.names[name] = absolute(self.ws.title, (self.row, 3), (self.row, 3))
+        self.names[name] = f"'{self.ws.title}'!$C${self.row}"
         self.row += 1
         return name
 
