@@ -13,7 +13,12 @@ from openpyxl import load_workbook
 from sheetfuncs.errors import InputError
 from sheetfuncs.templates import FIXED_TIME, KINDS, template_parts, write_all, write_template
 from sheetfuncs.worksheet.calc.workbook import convert_workbook
+from sheetfuncs.worksheet import harness
+from sheetfuncs.worksheet.calc.check import Example, compare
+from sheetfuncs.worksheet.calc.office import run_job
+from tests.support.calc import installed_profile, remove, require_calc
 from tests.support.libreoffice import convert_many, require_office
+from tests.support.template_cells import argument_value, calls
 
 
 @pytest.fixture(scope="module")
@@ -124,3 +129,71 @@ def test_every_kind_opens_in_libreoffice_headless(folder: Path, tmp_path: Path) 
     pdf = (tmp_path / "pdf" / "compare-groups.pdf").read_bytes()
     pages = re.findall(rb"/Type\s*/Page\b(?!s)", pdf)
     assert pdf.startswith(b"%PDF") and len(pages) >= 2  # the record and the data sheet
+
+
+@pytest.fixture(scope="module")
+def calc_read(tmp_path_factory: pytest.TempPathFactory) -> dict[str, tuple]:
+    """Every kind in its Calc form, opened and recalculated in headless Calc with the
+    extension built from this checkout (one LibreOffice start for all kinds)."""
+    office = require_calc()
+    profile = installed_profile(office)
+    folder = tmp_path_factory.mktemp("calc-form")
+    try:
+        steps, written = [], {}
+        for kind in KINDS:
+            w = write_template(kind, folder / f"{kind}.xlsx", host="calc")
+            excel = write_template(kind, folder / f"{kind}-excel.xlsx")
+            written[kind] = (w, load_workbook(excel.path))
+            steps += [{"op": "load", "path": str(w.path)}, {"op": "recalc"}]
+            steps += [{"op": "read", "sheet": w.record_sheet, "at": a.ref, "key": f"{kind} {a.ref}"}
+                      for a in w.arrays]
+            steps += [{"op": "read", "sheet": w.record_sheet, "at": d, "key": f"{kind} {d}"}
+                      for d in w.decisions]
+            steps += [{"op": "close"}]
+        read = run_job(office, steps, profile)
+    finally:
+        remove(profile)
+    return {kind: (w, wb, read) for kind, (w, wb) in written.items()}
+
+
+@pytest.mark.parametrize("kind", KINDS)
+def test_calc_recalculates_every_area_to_the_python_call(calc_read, kind) -> None:
+    """Calc's numbers against the Python call through the harness (equal to 1e-15 relative, as
+    the extension's own live tests hold them), with the arguments read from the formula."""
+    w, wb, read = calc_read[kind]
+    for area in w.arrays:
+        (call,) = calls("=" + area.formula)
+        expected = harness.call(call.name, *[argument_value(wb, a) for a in call.args])
+        ex = Example(call.name, (), "=" + area.formula, expected)
+        assert compare(ex, read[f"{kind} {area.ref}"]) == [], area.ref
+
+
+def python_verdicts(kind: str, wb) -> list[str]:
+    """The decisions the Python call (through the harness) gives on the example data, with the
+    template's settings (alpha 0.05, ICC limit 0.2, wanted power 0.8)."""
+    def value(formula: str):
+        (call,) = calls("=" + formula)
+        return harness.call(call.name, *[argument_value(wb, a) for a in call.args])
+    differ = {True: "means differ", False: "no difference shown"}
+    if kind == "compare-groups":
+        return [differ[value('SF_CHECKS(Measurements,"wide",TRUE,Alpha)')[1][3] < 0.05]]
+    if kind == "lot-homogeneity":
+        p = value('SF_P(Lots,"wide",TRUE)')
+        upper = value('SF_VARCOMP(Lots,"wide",TRUE,Confidence)')[4][3]
+        return ["lots differ" if p < 0.05 else "no difference between lots shown",
+                "upper limit of the ICC within the limit" if upper <= 0.2
+                else "ICC not shown within the limit"]
+    if kind == "study-plan":
+        power = value("SF_POWER(GroupCount,PerGroup,EffectF,Alpha)")
+        return ["plan reaches the wanted power" if power >= 0.8
+                else "plan falls short: see the values needed per group"]
+    table = value("SF_FROMSTATS('Data'!$C$9:$C$19,'Data'!$D$9:$D$19,'Data'!$E$9:$E$19,"
+                  "'Data'!$B$9:$B$19)")
+    return [differ[table[1][5] < 0.05]]
+
+
+@pytest.mark.parametrize("kind", KINDS)
+def test_calc_shows_the_python_verdict_in_every_decision_cell(calc_read, kind) -> None:
+    w, wb, read = calc_read[kind]
+    shown = [read[f"{kind} {d}"]["values"][0][0] for d in w.decisions]
+    assert shown == python_verdicts(kind, wb)
