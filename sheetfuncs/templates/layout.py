@@ -26,7 +26,7 @@ from openpyxl.worksheet.properties import PageSetupProperties
 from openpyxl.worksheet.table import Table, TableStyleInfo
 
 __all__ = [
-    "HEADER_FIELDS", "CAUTIONS", "SPARE_ROWS_NOTE", "ArrayArea", "Block", "Page",
+    "HEADER_FIELDS", "CAUTIONS", "NUMBER_FORMAT", "SPARE_ROWS_NOTE", "ArrayArea", "Block", "Page",
     "absolute", "write_block", "setup_print",
 ]
 
@@ -58,7 +58,9 @@ _INPUT_FILL = PatternFill("solid", start_color="FFF6D5", end_color="FFF6D5")
 _RESULT_FILL = PatternFill("solid", start_color="EEF2F8", end_color="EEF2F8")
 _DECISION_FILL = PatternFill("solid", start_color="E3EFDA", end_color="E3EFDA")
 _SECTION_RULE = Border(bottom=Side(style="medium", color=NAVY))
-_WRAP = Alignment(wrap_text=True, vertical="top")
+_HEAD_ALIGN = Alignment(wrap_text=True, vertical="bottom")
+#: Four decimals, and scientific notation for numbers closer to zero (small p-values).
+NUMBER_FORMAT = "[>=0.001]0.0000;[<=-0.001]-0.0000;0.00E+00"
 
 
 def absolute(sheet: str, first: tuple[int, int], last: tuple[int, int]) -> str:
@@ -183,7 +185,7 @@ class Page:
         self.ws.cell(self.row, 2, label).font = _LABEL
         cell = self.ws.cell(self.row, 3, "=" + formula)
         cell.fill = _DECISION_FILL if decision else _RESULT_FILL
-        cell.border = _BOX
+        cell.border, cell.number_format = _BOX, NUMBER_FORMAT
         if decision:
             cell.font = Font(bold=True, size=12)
             self.decisions.append(cell.coordinate)
@@ -204,7 +206,10 @@ class Page:
                 cell = self.ws.cell(r, c)
                 cell.border, cell.fill = _BOX, _RESULT_FILL
                 if r == top[0]:
-                    cell.font = _LABEL
+                    cell.font, cell.alignment = _LABEL, _HEAD_ALIGN
+                else:
+                    cell.number_format = NUMBER_FORMAT
+        self.ws.row_dimensions[top[0]].height = 30
         self.arrays.append(ArrayArea(self.ws.title, ref, formula))
         self.row = bottom[0] + 1
         return top
