@@ -205,3 +205,10 @@ def test_errors_missing_merge_case_and_rename_on_the_command_line(tmp_path, caps
 def test_bad_renames_exit_1_with_one_line(tmp_path, capsys, extra, message):
     code, out, err = run(["table", str(na_csv(tmp_path)), "--errors", "missing", *extra], capsys)
     assert code == 1 and out == "" and err == f"sheetfuncs: {message}\n"
+
+
+def test_template_kinds_in_the_help_are_the_templates_kinds():
+    from sheetfuncs.cli.parser import TEMPLATE_KINDS
+    from sheetfuncs.templates import KINDS
+
+    assert TEMPLATE_KINDS == tuple(KINDS)
