@@ -115,7 +115,7 @@ def cell_xml(ref: str, new: CellValue, old: str | None, prefix: str = "") -> str
     if kind is not None:
         attrs["t"] = kind
     text = " ".join(f'{k}="{v}"' for k, v in attrs.items())
-    body = formula + inner
+    body = formula + (re.sub(r"<(/?)(is|t|v)\b", rf"<\1{prefix}\2", inner) if prefix else inner)
     if not body:
         return f"<{prefix}c {text}/>"
     return f"<{prefix}c {text}>{body}</{prefix}c>"

@@ -18,7 +18,11 @@ evaluation), and it pins networkx below 2.7. LibreOffice was not chosen because 
 work where no office program is installed.
 
 The library does not know every function a spreadsheet has; a value it cannot give
-(``#NAME?``) is not stored, and the caller is told which cells kept their old value.
+(``#NAME?``) is not stored, and the caller is told which cells kept their old value. It
+misreads sheet names that hold an apostrophe (a reference to ``'It''s'!A1`` becomes ``#REF!``,
+measured with 1.3.4), so such a template is refused with one line rather than filled wrongly. A logical joined
+with ``&`` reads ``True`` where Excel and Calc show ``TRUE`` (1.3.4): join the texts of an IF
+instead (``IF(cond, "TRUE", "FALSE") & ...``) in a template to be filled.
 """
 
 from __future__ import annotations
@@ -32,6 +36,7 @@ from typing import Any, Mapping
 
 import numpy as np
 
+from ..errors import InputError
 from ..input import column_letters, column_number
 from .cells import ErrorValue, Value
 
@@ -97,6 +102,11 @@ def evaluate_workbook(path: Path, sheets: tuple[str, ...],
     ``given`` maps (sheet, A1 address or area such as ``E5:J8``) to a value or, for an area, a
     list of rows. Returns the value of every formula cell the library computed.
     """
+    quoted = [s for s in sheets if "'" in s]
+    if quoted:
+        raise InputError(f'the sheet name "{quoted[0]}" holds an apostrophe, which the formula '
+                         "library misreads (its formulas would get wrong values); rename the sheet "
+                         "in the template and retry (nothing was written)")
     import formulas  # imported here: it takes a second to load and only filling needs it
 
     with contextlib.redirect_stderr(io.StringIO()):
