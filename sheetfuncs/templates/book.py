@@ -16,13 +16,14 @@ from pathlib import Path
 
 from defusedxml import ElementTree
 
-from ..errors import InputError
+from ..errors import PREFIX, InputError
 from ..input import column_letters, column_number
 
 __all__ = ["Block", "Table", "Book", "read_book", "find_block", "CELLS_MARK"]
 
-#: The defined name's comment that marks a block of cells copied as they are.
-CELLS_MARK = "sheetfuncs: cells"
+#: The defined name's comment that marks a block of cells copied as they are
+#: (``sheetfuncs: cells``; built from the one spelling of the prefix, which lives in errors.py).
+CELLS_MARK = PREFIX + "cells"
 
 _MAIN = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
 _REL = "{http://schemas.openxmlformats.org/package/2006/relationships}"

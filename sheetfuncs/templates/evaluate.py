@@ -66,9 +66,11 @@ def _plain(v: Any) -> Value:
         return v
     if isinstance(v, (int, float)):
         return float(v)
-    if isinstance(v, str):
-        return v
     text = str(v)
+    if type(v) is str:
+        return v
+    if isinstance(v, str) and text.startswith("#"):  # the library's errors are str subclasses
+        return ErrorValue(text)
     if text.startswith("#"):
         return ErrorValue(text)
     if text in ("", "empty"):
