@@ -30,7 +30,7 @@ from typing import Any, Callable, Mapping, Sequence
 import openpyxl
 
 from ..errors import InputError
-from ..input import column_letters, read_cells, read_groups, same_file
+from ..input import column_letters, is_error_text, read_cells, read_groups, same_file
 from ..input.files import check_archive
 from .book import Block, find_block, read_book
 from .cells import CellValue, ErrorValue, Value, patch_sheet, split_ref
@@ -111,8 +111,12 @@ def _group_grid(block: Block, data: Path, options: dict[str, Any]) -> tuple[list
     return grid, tuple(loaded.reading.notes)
 
 
+#: The reading options that apply to a cells block (copied as it is: no groups, no labels).
+_CELL_OPTIONS = ("sheet", "cell_range", "decimal_comma", "size_limit", "max_cells", "max_fields")
+
+
 def _cell_grid(block: Block, data: Path, options: dict[str, Any]) -> tuple[list[list[Value]], tuple[str, ...]]:
-    cells = read_cells(data, **options)
+    cells = read_cells(data, **{k: v for k, v in options.items() if k in _CELL_OPTIONS})
     if cells.n_rows > block.rows or cells.n_cols > block.cols:
         raise InputError(
             f"the data ({cells.n_rows} rows x {cells.n_cols} columns) do not fit the block "
@@ -130,9 +134,8 @@ def _data_value(v: Any) -> Value:
         return v
     if isinstance(v, (int, float)):
         return float(v)
-    if isinstance(v, str) and v.startswith("#") and v.upper() in (
-            "#N/A", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#NULL!"):
-        return ErrorValue(v.upper())
+    if isinstance(v, str) and is_error_text(v.strip()):
+        return ErrorValue(v.strip())
     if hasattr(v, "isoformat"):
         return v.isoformat()
     return str(v)

@@ -25,6 +25,8 @@ from openpyxl.worksheet.formula import ArrayFormula
 from openpyxl.worksheet.properties import PageSetupProperties
 from openpyxl.worksheet.table import Table, TableStyleInfo
 
+from .book import CELLS_MARK  # the mark the filler reads: one spelling
+
 __all__ = [
     "HEADER_FIELDS", "CAUTIONS", "CELLS_MARK", "NUMBER_FORMAT", "SPARE_ROWS_NOTE", "ArrayArea", "Block", "Page",
     "absolute", "write_block", "setup_print",
@@ -44,10 +46,6 @@ CAUTIONS = (
     "procedure before using them for regulated decisions.",
 )
 
-#: The ``comment`` of a defined name whose block holds cells copied as they are (a summary
-#: block), fixed by the contract between the writer and the filler. It is a marker, not a
-#: message, so it is spelled in two pieces (the message check looks for the prefix).
-CELLS_MARK = "sheetfuncs" + ": cells"
 
 SPARE_ROWS_NOTE = ("With fewer groups than the data block has columns, the spare rows of a "
                    "result area show #N/A; that is expected.")
