@@ -71,11 +71,13 @@ class Block:
 
 @dataclass(frozen=True)
 class Book:
-    """Sheets (name → part, in order), defined names (name → (text, comment)), tables."""
+    """Sheets (name → part, in order), defined names (name → (text, comment)), tables, and
+    the workbook part itself."""
 
     sheets: tuple[tuple[str, str], ...]
     names: tuple[tuple[str, str, str], ...]
     tables: tuple[tuple[str, Table], ...]
+    part: str = "xl/workbook.xml"
 
     def part_of(self, sheet: str) -> str:
         for name, part in self.sheets:
@@ -133,7 +135,7 @@ def read_book(path: Path) -> Book:
                 if t is not None and t.tag == _MAIN + "table":
                     tables.append((sheet_part, Table(target, t.get("displayName") or
                                                      t.get("name", ""), t.get("ref", ""))))
-    return Book(sheets, names, tuple(tables))
+    return Book(sheets, names, tuple(tables), part)
 
 
 def _corners(text: str) -> tuple[str, int, int, int, int] | None:

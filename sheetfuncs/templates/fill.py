@@ -37,7 +37,7 @@ from .cells import CellValue, ErrorValue, Value, patch_sheet, split_ref
 from .compute import FormulaCell, compute_sf_cells
 from .evaluate import UNKNOWN, evaluate_workbook
 
-__all__ = ["Filled", "Batch", "fill_template", "fill_batch"]
+__all__ = ["Filled", "Batch", "fill_template", "fill_batch", "keep_stored_values", "CALC_ID"]
 
 #: Progress of a batch: (files done, files in all, the data file being filled).
 BatchProgress = Callable[[int, int, Path], None]
@@ -108,7 +108,8 @@ def _group_grid(block: Block, data: Path, options: dict[str, Any]) -> tuple[list
         grid[0][j] = label
         for i, v in enumerate(values.tolist(), start=1):
             grid[i][j] = float(v)
-    return grid, tuple(loaded.reading.notes)
+    said = loaded.reading.summary(groups.labels, groups.counts)  # what was read, left out
+    return grid, (said, *loaded.reading.notes)
 
 
 #: The reading options that apply to a cells block (copied as it is: no groups, no labels).
@@ -178,10 +179,35 @@ def _copy_info(info: zipfile.ZipInfo) -> zipfile.ZipInfo:
     return copy
 
 
+#: Excel's calculation-engine id since Excel 2016 (common practice: what it writes in calcPr).
+CALC_ID = 191029
+_CALC_PR = re.compile(r"<calcPr\b[^>]*?/?>")
+
+
+def keep_stored_values(xml: str) -> str:
+    """The workbook part with its calculation settings asking programs to show the stored
+    values: no ``fullCalcOnLoad`` (openpyxl sets it, and a program then recalculates every
+    formula on opening: an SF_ cell where the functions are not installed would show #NAME?
+    instead of its value) and a current ``calcId`` (Excel recalculates a workbook calculated by
+    an older engine). Nothing else in the part changes; without a ``calcPr`` it is unchanged."""
+    m = _CALC_PR.search(xml)
+    if m is None:
+        return xml
+    tag = re.sub(r'\s+fullCalcOnLoad="(?:1|true)"', "", m.group(0))
+    found = re.search(r'\bcalcId="(\d+)"', tag)
+    if found is None:
+        tag = tag.replace("<calcPr", f'<calcPr calcId="{CALC_ID}"', 1)
+    elif int(found.group(1)) < CALC_ID:
+        tag = tag.replace(found.group(0), f'calcId="{CALC_ID}"')
+    return xml[:m.start()] + tag + xml[m.end():]
+
+
 def write_copy(src: Path, dst: Path, parts: Mapping[str, Mapping[str, CellValue]],
-               tables: Mapping[str, Sequence[str]]) -> None:
+               tables: Mapping[str, Sequence[str]], workbook: str | None = None) -> None:
     """Copy ``src`` to ``dst`` member by member, with the cells of ``parts`` (sheet part →
-    cells) written and the table parts ``tables`` given their column names."""
+    cells) written, the table parts ``tables`` given their column names and, when
+    ``workbook`` names the workbook part, its calculation settings set to show the stored
+    values (:func:`keep_stored_values`)."""
     fd, tmp_name = tempfile.mkstemp(prefix=f".{dst.name}.", suffix=".tmp", dir=dst.parent)
     tmp = Path(tmp_name)
     try:
@@ -193,6 +219,8 @@ def write_copy(src: Path, dst: Path, parts: Mapping[str, Mapping[str, CellValue]
                     data = patch_sheet(data.decode("utf-8"), parts[info.filename]).encode("utf-8")
                 elif info.filename in tables:
                     data = patch_table(data.decode("utf-8"), tables[info.filename]).encode("utf-8")
+                elif info.filename == workbook:
+                    data = keep_stored_values(data.decode("utf-8")).encode("utf-8")
                 out.writestr(_copy_info(info), data)
         shutil.copymode(src, tmp)
         os.replace(tmp, dst)
@@ -270,7 +298,7 @@ def fill_template(template: str | os.PathLike[str], data: str | os.PathLike[str]
     parts: dict[str, dict[str, CellValue]] = {block.part: dict(writes)}
     for (sh, ref), v in list(computed.cells) + list(deps.items()):
         parts.setdefault(book.part_of(sh), {})[ref] = CellValue(v, keep_formula=True)
-    write_copy(src, dst, parts, tables)
+    write_copy(src, dst, parts, tables, workbook=book.part)
     return Filled(src, dst, block.name, block.address, len(writes),
                   tuple(_where(f.sheet, f.area or f.ref) for f in formulas if f.sf),
                   tuple(_where(*k) for k in deps), notes + computed.notes + tuple(dep_notes))

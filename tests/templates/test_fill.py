@@ -16,7 +16,7 @@ import openpyxl
 import pytest
 
 from sheetfuncs.errors import InputError
-from sheetfuncs.templates.fill import fill_batch, fill_template
+from sheetfuncs.templates.fill import fill_batch, fill_template, keep_stored_values
 from sheetfuncs.worksheet.harness import call
 from tests.support.fill_books import (
     DECISION, VBA_BYTES, as_xlsm, data_book, line_template, lots_template,
@@ -119,7 +119,22 @@ def test_every_other_member_is_byte_identical_and_in_order(line: tuple[Path, Pat
     old, new = members(tpl), members(out)
     assert [n for n, _ in old] == [n for n, _ in new]
     changed = {n for (n, a), (_, b) in zip(old, new) if a != b}
-    assert changed == {SHEET, "xl/worksheets/sheet2.xml", "xl/tables/table1.xml"}
+    assert changed == {SHEET, "xl/worksheets/sheet2.xml", "xl/tables/table1.xml", "xl/workbook.xml"}
+    # the workbook part changes in its calculation settings only (the stored values are shown)
+    book_old, book_new = dict(old)["xl/workbook.xml"].decode(), dict(new)["xl/workbook.xml"].decode()
+    calc = re.compile(r"<calcPr\b[^>]*?/?>")
+    assert calc.sub("", book_old) == calc.sub("", book_new)
+    assert 'fullCalcOnLoad="1"' in calc.search(book_old).group(0)
+    assert calc.search(book_new).group(0) == '<calcPr calcId="191029" />'
+
+
+def test_calculation_settings_ask_for_the_stored_values() -> None:
+    # fullCalcOnLoad makes a program recalculate on opening; an old calcId makes Excel do so
+    # (ECMA-376 Part 1, 18.2.2 calcPr; common practice for the engine id)
+    assert keep_stored_values('<w><calcPr calcId="124519" fullCalcOnLoad="1"/></w>') == '<w><calcPr calcId="191029"/></w>'
+    assert keep_stored_values('<calcPr calcId="191029"/>') == '<calcPr calcId="191029"/>'
+    assert keep_stored_values('<calcPr calcId="999999" fullCalcOnLoad="true"/>') == '<calcPr calcId="999999"/>'
+    assert keep_stored_values("<workbook><sheets/></workbook>") == "<workbook><sheets/></workbook>"
 
 
 def cell_pieces(xml: str, skip: set[str]) -> tuple[str, list[str]]:
