@@ -153,3 +153,21 @@ def test_fill_without_a_data_block_is_one_line(tmp_path, capsys) -> None:
     assert err == ["sheetfuncs: plain.xlsx has no data block (no defined name that refers to a range "
                    "of cells); name the data-entry range and retry, or give --into"]
     assert not out.exists()
+
+
+def test_stored_one_way_table_equals_the_python_call(filled) -> None:
+    """The compare-groups record's one-way table against sheetfuncs.oneway on the same data
+    (the Python call)."""
+    import sheetfuncs as sf
+
+    _, target, _ = filled["compare-groups"]
+    rows = list(openpyxl.load_workbook(target, data_only=True)["Record"].iter_rows(values_only=True))
+    at = next(i for i, r in enumerate(rows) if "Source" in r)
+    col = rows[at].index("Source")
+    factor = rows[at + 1][col:col + 6]
+    columns = list(zip(*[line.split(",") for line in DATA["compare-groups"].splitlines()]))
+    groups = {c[0]: [float(v) for v in c[1:] if v] for c in columns}
+    result = sf.oneway(groups)
+    assert factor[1] == result.df_between
+    assert math.isclose(factor[4], result.f, rel_tol=RELATIVE)
+    assert math.isclose(factor[5], result.p, rel_tol=RELATIVE)
