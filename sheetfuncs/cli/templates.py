@@ -79,7 +79,7 @@ def run_fill(args: argparse.Namespace) -> int:
 
 
 def _said(done) -> None:
-    print(f"{done.template.name} + data: {done.cells_written} cells written into {done.name} "
+    print(f"{done.target.name}: {done.cells_written} cells written into {done.name} "
           f"({done.block}), {len(done.computed)} SF_ cells computed, {len(done.dependents)} other "
           "formula cells evaluated", file=sys.stderr)
     for note in done.notes:
