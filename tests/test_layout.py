@@ -26,6 +26,7 @@ import sheetfuncs
 PACKAGE = "sheetfuncs"
 #: Rank of each layer; a module may import its own layer and the layers of lower rank.
 RANKS = {"errors": 0, "input": 1, "distributions": 2, "stats": 3, "worksheet": 4, "report": 4, "templates": 5,
+         "engines": 4,
          "cli": 6}
 ENTRY = {"", "__main__", "udfs"}  # the package itself, ``python -m``, the module xlwings loads
 MODULE_LINES = 600

@@ -1,0 +1,2 @@
+"""Exact analyses pushed down to database engines: per-group exact sums computed where the data live.
+"""
