@@ -22,7 +22,7 @@ import math
 import numbers
 from collections.abc import Mapping, Sequence
 from functools import cached_property
-from dataclasses import dataclass
+from dataclasses import InitVar, dataclass
 from typing import Any
 
 import numpy as np
@@ -78,6 +78,12 @@ class Groups:
     case, labels renamed or merged, missing values dropped); ``dropped`` counts, per group, the
     missing values left out (NaN or None with ``missing="drop"``, error cells read with
     ``errors="missing"``): zeros when nothing was left out. Arrays are read-only float64.
+
+    Arrays given as contiguous float64 are used as read-only views, not copied: the groups share
+    their memory with the caller's arrays (change those arrays and the groups change too). A
+    writable array is never made read-only itself; the view is. ``checked`` (not stored) says
+    the arrays were already checked for finite values by the cleaning step, which then is not
+    done twice.
     """
 
     labels: tuple[str, ...]
@@ -87,8 +93,9 @@ class Groups:
     layout: str = "python"
     label_source: str = "given"
     dropped: tuple[int, ...] = ()
+    checked: InitVar[bool] = False
 
-    def __post_init__(self) -> None:
+    def __post_init__(self, finite: bool) -> None:
         if len(self.labels) != len(self.arrays):
             raise InputError(
                 f"{len(self.labels)} labels for {len(self.arrays)} groups; "
@@ -103,11 +110,11 @@ class Groups:
                 raise InputError(
                     f'group "{lab}" has no numbers; give it values or leave it out'
                 )
-            if not np.isfinite(a).all():
+            if not finite and not np.isfinite(a).all():
                 i = int(np.flatnonzero(~np.isfinite(a))[0])
                 raise InputError(bad_number_message(float(a[i]), f'position {i + 1} of group "{lab}"'))
             if a.flags.writeable:
-                a = a.copy()
+                a = a.view()  # read-only for the groups, the caller's array left as it was
                 a.setflags(write=False)
             checked.append(a)
         dropped = tuple(int(x) for x in self.dropped) if self.dropped else (0,) * len(checked)
@@ -179,6 +186,7 @@ class Groups:
         return build_groups(
             list(parts), arrays, self.cells, self.layout, self.label_source, dropped=dropped,
             notes=[n for n in self.notes if n not in made] + list(notes), after=[new_drop],
+            checked=True,
         )
 
     def __repr__(self) -> str:
@@ -222,14 +230,16 @@ def build_groups(
     dropped: Sequence[int] = (),
     notes: Sequence[str] = (),
     after: Sequence[str] = (),
+    checked: bool = False,
 ) -> Groups:
     """:class:`Groups` from checked labels and arrays: read-only float64 arrays, ``cells``
     sorted by position; the notes are ``notes``, then those on labels that differ only in case,
     then ``after`` (empty ones left out); ``source`` says where the labels came from
-    (``given``, ``range``, ``default``); ``dropped`` the missing values left out per group."""
+    (``given``, ``range``, ``default``); ``dropped`` the missing values left out per group;
+    ``checked`` that every array was already checked for finite values."""
     frozen = []
     for a in arrays:
-        a = np.ascontiguousarray(a, dtype=np.float64)
+        a = np.ascontiguousarray(a, dtype=np.float64).view()  # no copy of a float64 array
         a.setflags(write=False)
         frozen.append(a)
     return Groups(
@@ -240,6 +250,7 @@ def build_groups(
         layout=layout,
         label_source=source,
         dropped=tuple(dropped),
+        checked=checked,
     )
 
 
@@ -294,7 +305,7 @@ def _numbers(values: Any, label: str, *, drop: bool = False, hint: bool = True) 
     """
     seq = _sequence(values, label)
     if isinstance(seq, np.ndarray):
-        arr = seq.astype(np.float64)
+        arr = seq.astype(np.float64, copy=False)  # a float64 array is used as it is
     elif set(map(type, seq)) <= _NUMBER_OR_NONE:
         # plain numbers and None only (numpy would turn [1.0, "x"] into text and [1.0, True]
         # into 1.0); None becomes NaN
@@ -379,7 +390,7 @@ def _python_groups(data: Any, drop: bool) -> Groups:
     dropped = [n for _, n in parts]
     return build_groups(
         labels, [a for a, _ in parts], (), "python", source, dropped=dropped,
-        after=[dropped_note(labels, dropped)],
+        after=[dropped_note(labels, dropped)], checked=True,
     )
 
 

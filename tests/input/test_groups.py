@@ -200,3 +200,19 @@ def test_regrouped_needs_one_label_per_group():
         g.regrouped(["X"])
     assert str(e.value) == "sheetfuncs: 1 new labels for 2 groups; give one per group"
     assert g.case_notes == ()
+
+
+def test_contiguous_float64_arrays_are_read_only_views_not_copies():
+    # issue 13: the user's arrays are used as they are (common practice: numpy views)
+    a = np.array([1.0, 2.0, 3.5])
+    b = np.array([2.0, 4.0, 4.5])
+    g = as_groups({"a": a, "b": b})
+    assert np.shares_memory(g.arrays[0], a) and np.shares_memory(g.arrays[1], b)
+    assert a.flags.writeable and not g.arrays[0].flags.writeable  # the caller's array untouched
+    strided = np.arange(8.0)[::2]
+    ints = np.array([1, 2, 3])
+    g2 = as_groups([strided, ints])
+    assert not np.shares_memory(g2.arrays[0], strided) and g2.arrays[0].flags.c_contiguous
+    assert g2.arrays[1].dtype == np.float64
+    with pytest.raises(InputError, match="an infinite value at position 2"):
+        as_groups([np.array([1.0, np.inf]), b])
