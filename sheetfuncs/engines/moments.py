@@ -7,7 +7,7 @@ exact rationals as :func:`sheetfuncs.oneway`'s, whatever scale and offset the en
 
 How the scale is found, by column type:
 
-* DECIMAL(w, s): the stored decimals are exact; the scale is ``s`` (``w + s <= 38``).
+* DECIMAL(w, s): the stored decimals are exact; the scale is ``s`` (values below ``10**(38 - 2s)``).
 * integers: scale 0.
 * DOUBLE (and FLOAT, read as DOUBLE): a first query finds, per row, the smallest ``D <= 22``
   with ``r = round(x * 10**D)``, ``|r| < 10**15`` and ``r / 10**D = x`` (then ``r / 10**D`` is
@@ -170,6 +170,11 @@ def _offset_and_bound(scan: dict[str, Any], scale: int, kind: str) -> tuple[int,
     hi_i = Fraction(Decimal(hi) if not isinstance(hi, float) else hi) * p
     offset = round((lo_i + hi_i) / 2)
     bound = math.ceil(max(hi_i - offset, offset - lo_i)) + 2
+    if kind == "decimal" and max(abs(hi_i), abs(lo_i)) >= Fraction(10 ** (38 - scale)):
+        raise InputError(
+            f"the DECIMAL values reach {max(abs(hi), abs(lo))}, too large to scale to integers "
+            f"with their {scale} decimals inside the engine; cast them to fewer decimals in a query"
+        )
     if kind == "double":  # only |r| < 1e15 is summed in SQL, the rest in Python
         offset = max(-(2**53), min(2**53, offset))
         bound = min(bound, 10**15 + abs(offset) + 2)

@@ -126,11 +126,6 @@ def _kind(type_name: str, value: str) -> tuple[str, int]:
     if t in _INTEGER_TYPES:
         return "integer", 0
     m = re.fullmatch(r"DECIMAL\((\d+),\s*(\d+)\)", t)
-    if m and int(m.group(1)) + int(m.group(2)) > 38:
-        raise InputError(
-            f'the value column "{value}" is {type_name}, too wide to scale to integers exactly '
-            "(width + decimals above 38); cast it to a narrower DECIMAL in a query"
-        )
     if m:
         return "decimal", int(m.group(2))
     raise InputError(
