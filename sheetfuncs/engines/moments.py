@@ -147,16 +147,16 @@ def _check_values(rel: Relation, scan: dict[str, Any], drop: bool) -> None:
         k = scan["infinite"]
         raise InputError(
             f'{k} infinite value{"s" if k != 1 else ""} in column "{rel.value_name}", the first '
-            f'in group "{_first_label(rel, "isinf(x)")}"; remove them or replace them with the '
-            "measured values"
+            f'in group "{_first_label(rel, "isinf(x)")}"; remove {"it" if k == 1 else "them"} or '
+            f'replace {"it" if k == 1 else "them"} with the measured value{"s" if k != 1 else ""}'
         )
     if scan["missing"] and not drop:
         k = scan["missing"]
         cond = "x IS NULL OR isnan(x)" if rel.kind == "double" else "x IS NULL"
         raise InputError(
             f'{k} missing value{"s" if k != 1 else ""} (NULL or NaN) in column "{rel.value_name}", '
-            f'the first in group "{_first_label(rel, cond)}"; filter them out, or pass '
-            'missing="drop" to leave them out and count them'
+            f'the first in group "{_first_label(rel, cond)}"; filter them out in the query or the '
+            'where filter, or pass missing="drop" to leave them out and count them'
         )
 
 
