@@ -133,3 +133,66 @@ def test_integer_labels_read_as_in_memory():
     mem = sf.oneway({"1": [2.5, 3.5], "10": [1.0], "2": [4.0, 4.5]})
     assert res.labels == ("1", "10", "2")
     assert fields(res) == fields(mem)
+
+
+@pytest.fixture()
+def messy():
+    con = duckdb.connect()
+    con.execute(
+        "CREATE TABLE n AS SELECT * FROM (VALUES ('A', 1.0::DOUBLE), ('A', 'nan'::DOUBLE), "
+        "('B', 2.0), ('B', 3.0), (NULL, 4.0), (NULL, 5.0), ('A', NULL), ('A', 1.5), "
+        "('C', 'inf'::DOUBLE), ('C', 1.0), ('D', NULL)) v(g, x)"
+    )
+    return con
+
+
+def _message(source, **kw) -> str:
+    with pytest.raises(sf.InputError) as e:
+        oneway_sql(source, **{"group": "g", "value": "x", **kw})
+    return str(e.value)
+
+
+def test_infinite_values_stop_with_their_count(messy):
+    # as in memory: an infinite value is never a measurement (common practice)
+    assert _message((messy, "n")) == (
+        'sheetfuncs: 1 infinite value in column "x", the first in group "C"; remove it or '
+        "replace it with the measured value"
+    )
+
+
+def test_missing_values_stop_or_are_dropped_and_counted(messy):
+    assert _message((messy, "n"), where="g <> 'C'") == (
+        'sheetfuncs: 3 missing values (NULL or NaN) in column "x", the first in group "A"; '
+        'filter them out in the query or the where filter, or pass missing="drop" to leave '
+        "them out and count them"
+    )
+    assert _message((messy, "n"), where="g <> 'C'", missing="drop") == (
+        'sheetfuncs: group "D" has no numbers left after dropping its 1 missing value (NULL or '
+        "NaN); filter it out or give it values"
+    )
+    res = oneway_sql((messy, "n"), group="g", value="x", where="g IN ('A', 'B') OR g IS NULL", missing="drop")
+    # the in-memory path on the same values, NaN and None dropped (the Python call)
+    mem = sf.oneway({"A": [1.0, float("nan"), None, 1.5], "B": [2.0, 3.0]}, missing="drop")
+    assert fields(res) == fields(mem) and res.dropped == (2, 0)
+    assert res.notes == (
+        "2 rows with no group label (NULL) left out",
+        '2 missing values (NULL or NaN) dropped: "A" 2',
+    )
+
+
+def test_one_group(messy):
+    assert _message((messy, "n"), where="g = 'B'") == (
+        'sheetfuncs: at least two groups are needed to compare means, got 1 (only "B"); check '
+        "the group column and the filter"
+    )
+
+
+def test_labels_that_read_alike():
+    con = duckdb.connect()
+    double_table(con, "t", {"A": [1.0, 2.0], " A": [3.0], "B": [4.0, 5.0]})
+    assert _message((con, "t")) in (
+        "sheetfuncs: the group values 'A' and ' A' both read as the label \"A\"; make the group "
+        "column's values distinct (e.g. trim them in a query)",
+        "sheetfuncs: the group values ' A' and 'A' both read as the label \"A\"; make the group "
+        "column's values distinct (e.g. trim them in a query)",
+    )
