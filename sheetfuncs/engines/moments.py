@@ -17,9 +17,16 @@ How the scale is found, by column type:
   by one through their shortest decimals in Python. A value of more than 15 significant digits
   cannot be exact: the caller then takes the floating-point path.
 
-A 128-bit ``sum(m * m)`` overflows after about 2e6 rows whose centred spread is near 2**53:
-when ``rows * bound**2`` could pass 2**126 the squares are summed in the split form
-``m = a * K + b`` (``K = 2**h``): ``sum m^2 = K^2 sum a^2 + 2 K sum ab + sum b^2``.
+A 128-bit ``sum(m * m)`` overflows after about 2e6 rows whose centred spread is near 2**53,
+and a BIGINT square beyond 2**31: centred integers that reach 2**31 are summed in the split
+form ``m = a * K + b`` (``K = 2**h``, ``|a|, |b| < 2**32``), ``sum m^2 = K^2 sum a^2 + 2 K sum ab
++ sum b^2``, every product in 64 bits (128 for values beyond 2**62) and every sum in DuckDB's
+128-bit accumulator, which cannot overflow below 2**63 rows. DuckDB's integer arithmetic is
+checked: an overflow is an error, never a wrapped number.
+
+DOUBLE columns usually take one pass: the scale and the offset are guessed from the first
+values, and the rows that do not fit (more decimals, or ``|m| >= 2**31``) are left over; when
+more than 100,000 are, a scan finds the scale and the bounds and a second pass sums them all.
 """
 
 from __future__ import annotations
@@ -40,7 +47,11 @@ __all__ = ["GroupSums", "NotExact", "group_sums", "sums_from_relation"]
 
 _MAX_SCALE = 22
 _WIDE = 99
-_LIMIT = 1 << 126
+#: Centred integers below this size are squared directly in BIGINT; larger ones are split.
+_DIRECT = 1 << 31
+#: Rows read for the first guess of the scale, and rows the first pass may leave to Python.
+_SAMPLE = 4096
+_MAX_LEFT = 100_000
 
 
 @dataclass(frozen=True)
@@ -181,30 +192,46 @@ def _offset_and_bound(scan: dict[str, Any], scale: int, kind: str) -> tuple[int,
     return offset, bound
 
 
-def _m_expr(rel: Relation, scale: int, offset: int) -> str:
+def _m_expr(rel: Relation, scale: int, offset: int, typ: str, narrow: bool = False) -> str:
+    """The centred integer ``m`` of a row (NULL for a double that SQL cannot scale exactly, or,
+    with ``narrow``, whose ``|m|`` reaches 2**31)."""
     if rel.kind == "double":
-        r = f"round(x * {_p10(scale)})"
-        return f"CASE WHEN isfinite(x) AND {_fits(scale)} THEN CAST({r} AS HUGEINT) - {offset} END"
+        p = _p10(scale)
+        near = f" AND abs(r - {offset}) < {_DIRECT}" if narrow else ""
+        return (
+            f"CASE WHEN isfinite(x) AND abs(r) < {_p10(15)} AND r / {p} = x{near} "
+            f"THEN CAST(r AS BIGINT) - {offset} END"
+        )
     if rel.kind == "decimal":
         s = rel.decimals
-        return f"CAST(CAST(x AS DECIMAL(38, {s})) * CAST({10**s} AS DECIMAL(38, 0)) AS HUGEINT) - {offset}"
-    return f"CAST(x AS HUGEINT) - {offset}"
+        m = f"CAST(CAST(x AS DECIMAL(38, {s})) * CAST({10**s} AS DECIMAL(38, 0)) AS HUGEINT) - {offset}"
+    else:
+        m = f"CAST(x AS HUGEINT) - {offset}"
+    return f"CAST({m} AS {typ})"
 
 
-def _sums_sql(rel: Relation, scale: int, offset: int, split: int) -> str:
-    """Per group: count, sum m, the square sums (one, or three in the split form), the missing
-    values and the rows left for Python."""
-    missing = "x IS NULL OR isnan(x)" if rel.kind == "double" else "x IS NULL"
-    inner = f"SELECT g, x, {_m_expr(rel, scale, offset)} AS m FROM ({_rows(rel)})"
+def _inner(rel: Relation, scale: int, offset: int, typ: str, narrow: bool) -> str:
+    r = f", round(x * {_p10(scale)}) AS r" if rel.kind == "double" else ""
+    rows = f"SELECT g, x{r} FROM ({_rows(rel, labelled=False)})"
+    return f"SELECT g, x, {_m_expr(rel, scale, offset, typ, narrow)} AS m FROM ({rows})"
+
+
+def _sums_sql(inner: str, kind: str, split: int, typ: str) -> str:
+    """Per group (NULL labels as one more row): count, sum m, the square sums (one, or three in
+    the split form ``m = a * K + b``), the missing, infinite and left-over values, all rows."""
     if split:
-        k = f"CAST({1 << split} AS HUGEINT)"
+        k = f"CAST({1 << split} AS {typ})"
         inner = f"SELECT g, x, m, m // {k} AS a, m - (m // {k}) * {k} AS b FROM ({inner})"
         squares = "sum(a * a), sum(a * b), sum(b * b)"
     else:
         squares = "sum(m * m), 0, 0"
-    left = "count(*) FILTER (WHERE m IS NULL AND isfinite(x))" if rel.kind == "double" else "0"
+    if kind == "double":
+        bad, inf, left = "x IS NULL OR isnan(x)", "isinf(x)", "m IS NULL AND isfinite(x)"
+    else:
+        bad, inf, left = "x IS NULL", "FALSE", "FALSE"
     return (
-        f"SELECT g, count(m), sum(m), {squares}, count(*) FILTER (WHERE {missing}), {left} "
+        f"SELECT g, count(m), sum(m), {squares}, count(*) FILTER (WHERE {bad}), "
+        f"count(*) FILTER (WHERE {inf}), count(*) FILTER (WHERE {left}), count(*) "
         f"FROM ({inner}) GROUP BY g"
     )
 
@@ -223,12 +250,12 @@ def _labels(raw: list[Any]) -> list[str]:
 
 
 def _add_left(
-    rel: Relation, sql_inner: str, labels: list[str], raw: list[Any], sums: GroupSums
+    rel: Relation, inner: str, labels: list[str], raw: list[Any], sums: GroupSums
 ) -> GroupSums | NotExact:
     """``sums`` with the rows SQL could not scale read in Python through their shortest
     decimals (the scale grows to theirs), or :class:`NotExact` for a value of too many digits."""
     where = {repr(v): i for i, v in enumerate(raw)}
-    rows = run(rel.con, f"SELECT g, x FROM ({sql_inner}) WHERE m IS NULL AND isfinite(x)")
+    rows = run(rel.con, f"SELECT g, x FROM ({inner}) WHERE g IS NOT NULL AND m IS NULL AND isfinite(x)")
     parts: list[tuple[int, int, int]] = []
     for g, x in rows:
         i = where[repr(g)]
@@ -247,11 +274,61 @@ def _add_left(
     return GroupSums(out.labels, scale, out.offset, tuple(n), tuple(s), tuple(q), out.missing, out.null_labels)
 
 
+def _pass(
+    rel: Relation, scale: int, offset: int, bound: int, drop: bool, max_left: int | None
+) -> GroupSums | NotExact | None:
+    """One pass of exact sums at ``scale`` and ``offset`` (``|m| <= bound``); ``None`` when more
+    than ``max_left`` rows are left for Python (``bound = 0``: none known, rows with
+    ``|m| >= 2**31`` are left over)."""
+    typ = "BIGINT" if bound < 1 << 62 else "HUGEINT"
+    split = 0 if bound < _DIRECT else (bound.bit_length() + 1) // 2
+    inner = _inner(rel, scale, offset, typ, narrow=bound == 0)
+    got = run(rel.con, _sums_sql(inner, rel.kind, split, typ))
+    nulls = sum(int(r[9]) for r in got if r[0] is None)
+    got = [r for r in got if r[0] is not None]
+    counts = {"infinite": sum(int(r[7]) for r in got), "missing": sum(int(r[6]) for r in got)}
+    _check_values(rel, counts, drop)
+    left = sum(int(r[8]) for r in got)
+    if max_left is not None and left > max_left:
+        return None
+    raw = [r[0] for r in got]
+    labels = _labels(raw)
+    k = 1 << split
+    n = tuple(int(r[1]) for r in got)
+    s = tuple(int(r[2] or 0) for r in got)
+    q = tuple(
+        int(r[3] or 0) * k * k + 2 * int(r[4] or 0) * k + int(r[5] or 0) if split else int(r[3] or 0)
+        for r in got
+    )
+    sums = GroupSums(tuple(labels), scale, offset, n, s, q, tuple(int(r[6]) for r in got), nulls)
+    return _add_left(rel, inner, labels, raw, sums) if left else sums
+
+
+def _guess(rel: Relation) -> tuple[int, int]:
+    """A scale and an offset from the first few thousand finite values (read in Python)."""
+    sample = run(rel.con, f"SELECT x FROM ({_rows(rel)}) WHERE isfinite(x) LIMIT {_SAMPLE}")
+    parts = [decimal_parts(v) for (v,) in sample]
+    parts = [(m, e) for m, e, nd in parts if nd <= MAX_DIGITS and -e <= _MAX_SCALE]
+    if not parts:
+        return 0, 0
+    scale = max(0, max(-e for _, e in parts))
+    ints = sorted(m * 10 ** (e + scale) for m, e in parts)
+    return scale, max(-(2**53), min(2**53, ints[len(ints) // 2]))
+
+
 def sums_from_relation(rel: Relation, *, missing: str = "stop") -> GroupSums | NotExact:
-    """Exact per-group sums of ``rel`` (see the module docstring), or :class:`NotExact`."""
+    """Exact per-group sums of ``rel`` (see the module docstring), or :class:`NotExact`.
+
+    DOUBLE values first take one pass at a scale and offset guessed from a sample; when more
+    than a few rows are left over (the guess was wrong) a scan finds the scale and the bounds,
+    and a second pass sums at those."""
     drop = _parse_missing(missing)
+    if rel.kind == "double":
+        scale, offset = _guess(rel)
+        quick = _pass(rel, scale, offset, 0, drop, _MAX_LEFT)
+        if quick is not None:
+            return _sorted(quick) if isinstance(quick, GroupSums) else quick
     scan = _scan(rel)
-    _check_values(rel, scan, drop)
     scale = int(scan["scale"] or 0)
     offset, bound = _offset_and_bound(scan, scale, rel.kind)
     if bound.bit_length() > 64:
@@ -259,26 +336,9 @@ def sums_from_relation(rel: Relation, *, missing: str = "stop") -> GroupSums | N
             f'the values of column "{rel.value_name}" span more than 2**64 units of their last '
             "decimal; they cannot be summed exactly here: rescale them in a query"
         )
-    split = 0 if (scan["rows"] or 1) * bound * bound < _LIMIT else (bound.bit_length() + 1) // 2
-    sql = _sums_sql(rel, scale, offset, split)
-    got = run(rel.con, sql)
-    raw = [r[0] for r in got]
-    labels = _labels(raw)
-    k = 1 << split
-    n, s, q, miss = [], [], [], []
-    for _, cnt, sm, a2, ab, b2, mi, _left in got:
-        n.append(int(cnt))
-        s.append(int(sm or 0))
-        q.append(int(a2 or 0) * k * k + 2 * int(ab or 0) * k + int(b2 or 0) if split else int(a2 or 0))
-        miss.append(int(mi))
-    sums = GroupSums(tuple(labels), scale, offset, tuple(n), tuple(s), tuple(q), tuple(miss), int(scan["null_labels"]))
-    if any(r[7] for r in got):
-        inner = f"SELECT g, x, {_m_expr(rel, scale, offset)} AS m FROM ({_rows(rel)})"
-        done = _add_left(rel, inner, labels, raw, sums)
-        if isinstance(done, NotExact):
-            return done
-        sums = done
-    return _sorted(sums)
+    done = _pass(rel, scale, offset, bound, drop, None)
+    assert done is not None
+    return _sorted(done) if isinstance(done, GroupSums) else done
 
 
 def _sorted(s: GroupSums) -> GroupSums:
