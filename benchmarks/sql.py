@@ -10,7 +10,8 @@ temporary Parquet file, then times, in the same run and on the same file:
   BY g`` (the baseline: one pass, no exactness);
 * ``oneway_sql``: :func:`sheetfuncs.oneway_sql` on the file (the user's path: the scale query,
   the exact sums, the rationals);
-* ``fetch``: the rows fetched into numpy and passed to :func:`sheetfuncs.oneway`.
+* ``fetch``: the values fetched into numpy, sorted by group, and passed to
+  :func:`sheetfuncs.oneway`.
 
 Each is run in a child process so that its peak resident memory (``ru_maxrss``; tracemalloc
 does not see DuckDB's own memory) is its own. Goal (issue 13): the push-down within 4x of
@@ -39,9 +40,12 @@ from sheetfuncs.engines import oneway_sql
 from timing import best_time
 
 path, what, repeat = {path!r}, {what!r}, {repeat}
+def quiet(con):
+    con.execute("SET enable_progress_bar = false")
+    return con
 
 def var_samp():
-    con = duckdb.connect()
+    con = quiet(duckdb.connect())
     return con.execute(
         "SELECT g, count(*), avg(x), var_samp(x) FROM read_parquet(?) GROUP BY g", [path]
     ).fetchall()
@@ -50,18 +54,17 @@ def pushdown():
     return oneway_sql(path, group="g", value="x")
 
 def fetch():
-    con = duckdb.connect()
-    got = con.execute("SELECT g, x FROM read_parquet(?) ORDER BY g", [path]).fetchnumpy()
-    g, x = got["g"], got["x"]
-    cut = np.flatnonzero(g[1:] != g[:-1]) + 1
-    labels = [str(v) for v in g[np.r_[0, cut]]]
-    return sf.oneway(dict(zip(labels, np.split(x, cut))))
+    con = quiet(duckdb.connect())
+    sizes = con.execute("SELECT g, count(*) FROM read_parquet(?) GROUP BY g ORDER BY g", [path]).fetchall()
+    x = con.execute("SELECT x FROM read_parquet(?) ORDER BY g", [path]).fetchnumpy()["x"]
+    cut = np.cumsum([n for _, n in sizes])[:-1]
+    return sf.oneway(dict(zip([g for g, _ in sizes], np.split(x, cut))))
 
 fn = {{"var_samp": var_samp, "oneway_sql": pushdown, "fetch": fetch}}[what]
 seconds = best_time(fn, repeat)
 out = fn()
 peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024  # KiB on Linux -> MiB
-print(json.dumps({{"seconds": seconds, "peak_mib": peak, "exact": getattr(out, "exact", None)}}))
+print("RESULT " + json.dumps({{"seconds": seconds, "peak_mib": peak, "exact": getattr(out, "exact", None)}}))
 """
 
 
@@ -70,6 +73,7 @@ def write_data(path: str, groups: int, size: int) -> None:
     import duckdb
 
     con = duckdb.connect()
+    con.execute("SET enable_progress_bar = false")
     con.execute(
         f"COPY (SELECT 'Head ' || CAST(i % {groups} + 1 AS VARCHAR) AS g, "
         "round(500.0::DOUBLE + (i % 997) * 0.013::DOUBLE + (i % 10) * 0.021::DOUBLE, 3) AS x "
@@ -82,7 +86,8 @@ def run(path: str, what: str, repeat: int) -> dict[str, float]:
     done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
     if done.returncode:
         raise SystemExit(f"{what} failed:\n{done.stderr}")
-    return json.loads(done.stdout.strip().splitlines()[-1])
+    line = next(ln for ln in done.stdout.splitlines()[::-1] if ln.startswith("RESULT "))
+    return json.loads(line[len("RESULT "):])
 
 
 def main() -> None:

@@ -65,6 +65,12 @@ def run(con: Any, sql: str, params: Sequence[Any] = ()) -> list[tuple[Any, ...]]
         ) from None
 
 
+def _quiet(con: Any) -> Any:
+    """``con`` without DuckDB's progress bar: a library call prints nothing."""
+    con.execute("SET enable_progress_bar = false")
+    return con
+
+
 def _from_path(path: str) -> tuple[Any, str]:
     import duckdb
 
@@ -72,9 +78,9 @@ def _from_path(path: str) -> tuple[Any, str]:
     if not os.path.isfile(path):
         raise InputError(f"no file {path!r}; give the path of a .parquet or .csv file")
     if low.endswith(".parquet"):
-        return duckdb.connect(), f"read_parquet({_literal(path)})"
+        return _quiet(duckdb.connect()), f"read_parquet({_literal(path)})"
     if low.endswith((".csv", ".csv.gz", ".tsv")):
-        return duckdb.connect(), f"read_csv({_literal(path)})"
+        return _quiet(duckdb.connect()), f"read_csv({_literal(path)})"
     raise InputError(
         f"cannot tell how to read {path!r}; give a .parquet or .csv file, or a DuckDB "
         "connection with a table or query: (con, \"my_table\")"
