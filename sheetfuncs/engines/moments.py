@@ -41,7 +41,7 @@ from ..errors import InputError
 from ..input import format_label
 from ..stats import ExactMoments
 from ..stats.moments import MAX_DIGITS, decimal_parts
-from .source import Relation, run
+from .source import Relation, open_relation, run
 
 __all__ = ["GroupSums", "NotExact", "group_sums", "sums_from_relation"]
 
@@ -368,6 +368,4 @@ def group_sums(
     """Exact per-group sums of ``value`` by ``group`` from ``source`` (see
     :func:`sheetfuncs.oneway_sql` for the sources), computed inside DuckDB; labels sorted as
     text. :class:`NotExact` when a value has more than 15 significant digits."""
-    from .source import open_relation
-
     return sums_from_relation(open_relation(source, group, value, where), missing=missing)

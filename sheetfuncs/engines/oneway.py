@@ -2,12 +2,13 @@
 
 from __future__ import annotations
 
+from dataclasses import replace
 from typing import Any
 
 import numpy as np
 
 from ..errors import InputError
-from ..input import Groups
+from ..input import Groups, format_label
 from ..stats import OneWayResult, compute_moments, oneway_from_moments, oneway_from_sums
 from .moments import GroupSums, NotExact, sums_from_relation
 from .source import Relation, open_relation, run
@@ -45,13 +46,9 @@ def _float_path(rel: Relation, sums: GroupSums, exact: bool | None) -> OneWayRes
         f"{rel.group} IS NOT NULL AND {rel.where} AND {rel.value} IS NOT NULL "
         f"AND isfinite(CAST({rel.value} AS DOUBLE)) GROUP BY {rel.group}",
     )
-    from ..input import format_label
-
     arrays = {format_label(g): np.asarray(v, dtype=np.float64) for g, v in got}
     g = Groups(sums.labels, tuple(arrays[lab] for lab in sums.labels), dropped=sums.missing)
     res = oneway_from_moments(g, compute_moments(g, exact))
-    from dataclasses import replace
-
     return replace(res, notes=tuple(_notes(sums)))
 
 
@@ -99,8 +96,6 @@ def _plain(rel: Relation, missing: str) -> GroupSums:
         f"FROM {rel.src} WHERE {rel.group} IS NOT NULL AND {rel.where} GROUP BY {rel.group}",
     )
     nulls = run(rel.con, f"SELECT count(*) FROM {rel.src} WHERE {rel.group} IS NULL AND {rel.where}")[0][0]
-    from ..input import format_label
-
     rows = sorted((format_label(g), int(n), int(m)) for g, n, m in got)
     z = tuple(0 for _ in rows)
     return GroupSums(
