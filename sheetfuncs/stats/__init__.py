@@ -27,7 +27,7 @@ from .lettering import LettersResult, letter_sets, letters
 from .linear import ContrastResult, LinearTestResult, contrast, linear_test
 from .moments import ExactMoments, FloatMoments, compute_moments
 from .normality import SHAPIRO_WILK_MAX_N, NormalityResult, shapiro_residuals
-from .oneway import OneWayResult, oneway, oneway_from_moments, oneway_from_summary, require_two_groups
+from .oneway import OneWayResult, oneway, oneway_from_moments, oneway_from_sums, oneway_from_summary, require_two_groups
 from .outcome import Unavailable, attempt
 from .planning import PowerPlan, detectable_effect, plan, power, sample_size
 from .residuals import residuals
@@ -49,7 +49,7 @@ __all__ = [
     "LettersResult", "letter_sets", "letters",
     "ContrastResult", "LinearTestResult", "contrast", "linear_test",
     "ExactMoments", "FloatMoments", "compute_moments",
-    "OneWayResult", "oneway", "oneway_from_moments", "oneway_from_summary", "require_two_groups",
+    "OneWayResult", "oneway", "oneway_from_moments", "oneway_from_sums", "oneway_from_summary", "require_two_groups",
     "Unavailable", "attempt",
     "PowerPlan", "detectable_effect", "plan", "power", "sample_size",
     "VarianceComponents", "variance_components",

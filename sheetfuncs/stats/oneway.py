@@ -28,7 +28,10 @@ from .moments import (
     decimal_parts, rounded,
 )
 
-__all__ = ["OneWayResult", "oneway", "oneway_from_moments", "oneway_from_summary", "require_two_groups"]
+__all__ = [
+    "OneWayResult", "oneway", "oneway_from_moments", "oneway_from_sums", "oneway_from_summary",
+    "require_two_groups",
+]
 
 @dataclass(frozen=True)
 class OneWayResult:
@@ -41,7 +44,9 @@ class OneWayResult:
     ``residual_sd = sqrt(MSW)``; ``exact`` tells whether the decimal-exact path was used, in
     which case ``ss_between_exact``, ``ss_within_exact`` and ``ss_total_exact`` hold the exact
     rationals (``None`` on the floating-point path); ``dropped`` the missing values left out of
-    each group (``missing="drop"``, or error cells read as missing), zeros when none.
+    each group (``missing="drop"``, or error cells read as missing), zeros when none; ``notes``
+    plain-language remarks on what was left out (set by sources that have no :class:`Groups`,
+    such as a database query).
     """
 
     labels: tuple[str, ...]
@@ -67,6 +72,7 @@ class OneWayResult:
     ss_total_exact: Fraction | None = None
     factor: str = "Factor"
     dropped: tuple[int, ...] = ()
+    notes: tuple[str, ...] = ()
 
     #: The table's header row.
     HEADER: ClassVar[tuple[str, ...]] = ("Source", "df", "SS", "MS", "F", "p")
@@ -101,6 +107,7 @@ def _finish(
     exact: bool,
     factor: str = "Factor",
     dropped: Sequence[int] = (),
+    notes: Sequence[str] = (),
 ) -> OneWayResult:
     k = len(counts)
     n = int(sum(counts))
@@ -141,7 +148,7 @@ def _finish(
         labels=labels, counts=counts, means=means, k=k, n_total=n,
         df_between=dfb, df_within=dfw, df_total=dft,
         f=f, p=p, r_squared=r2, residual_sd=math.sqrt(msw), exact=exact, factor=factor,
-        dropped=tuple(dropped) or (0,) * k, **fields,
+        dropped=tuple(dropped) or (0,) * k, notes=tuple(notes), **fields,
     )
 
 
@@ -165,6 +172,33 @@ def oneway_from_moments(g: Groups, mom: ExactMoments | FloatMoments) -> OneWayRe
         check_float_zero_spread(g, sst, within=False)
         check_float_zero_spread(g, ssw, within=True)
     return _finish(g.labels, g.counts, means, ssb, ssw, sst, mom.exact, dropped=g.dropped)
+
+
+def oneway_from_sums(
+    labels: Sequence[str],
+    mom: ExactMoments,
+    dropped: Sequence[int] = (),
+    notes: Sequence[str] = (),
+) -> OneWayResult:
+    """The one-way result from exact per-group sums alone (no values at hand), e.g. sums
+    computed inside a database. The same exact rationals, rounded once, as :func:`oneway` on
+    the same values, whatever scale and offset the sums use."""
+    k = len(labels)
+    if k < 2:
+        which = f' (only "{labels[0]}")' if k == 1 else ""
+        raise InputError(
+            f"at least two groups are needed to compare means, got {k}{which}; "
+            "check the group column and the filter"
+        )
+    if len(mom.n) != k or (dropped and len(dropped) != k):
+        raise InputError(f"{len(mom.n)} groups of sums for {k} labels; give one label per group")
+    ssw = mom.ss_within_parts([[i] for i in range(k)])
+    sst = mom.ss_within_parts([list(range(k))])
+    means = tuple(float(m) for m in mom.means())
+    return _finish(
+        tuple(labels), tuple(mom.n), means, sst - ssw, ssw, sst, True,
+        dropped=dropped, notes=notes,
+    )
 
 
 def oneway(

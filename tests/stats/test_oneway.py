@@ -178,3 +178,26 @@ def test_from_summary_label_count_mismatch():
 def test_from_summary_all_ones_no_residual_df():
     with pytest.raises(InputError, match="^sheetfuncs: no residual degrees of freedom"):
         sf.oneway_from_summary([1, 1], [1.0, 2.0], [0.0, 0.0])
+
+
+def test_from_sums_equals_oneway_at_any_scale_and_offset():
+    # the same exact rationals whatever scale and offset the sums use (common practice:
+    # exact integer arithmetic); the Python call through the harness for the reference
+    from sheetfuncs.stats import ExactMoments, oneway_from_sums
+
+    groups = {"A": [1.25, 2.5, 3.0], "B": [4.5, 4.75], "C": [0.5, 1.0, 1.125]}
+    ref = sf.oneway(groups)
+    for scale, offset in ((3, 0), (5, 123456)):
+        ints = [[round(v * 10**scale) - offset for v in vs] for vs in groups.values()]
+        mom = ExactMoments(scale, offset, tuple(map(len, ints)), tuple(map(sum, ints)),
+                           tuple(sum(m * m for m in g) for g in ints))
+        res = oneway_from_sums(tuple(groups), mom, notes=("a note",))
+        assert dataclasses.replace(res, notes=()) == ref and res.notes == ("a note",)
+    with pytest.raises(InputError) as e:
+        oneway_from_sums(("A",), ExactMoments(0, 0, (2,), (1,), (1,)))
+    assert str(e.value) == (
+        'sheetfuncs: at least two groups are needed to compare means, got 1 (only "A"); check '
+        "the group column and the filter"
+    )
+    with pytest.raises(InputError, match=r"^sheetfuncs: 2 groups of sums for 3 labels; give one label per group$"):
+        oneway_from_sums(("A", "B", "C"), ExactMoments(0, 0, (2, 2), (1, 1), (1, 1)))

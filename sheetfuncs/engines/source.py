@@ -1,0 +1,154 @@
+"""Where the rows come from: a DuckDB connection with a table or query, or a Parquet or CSV file.
+
+A :class:`Relation` holds the connection, the ``FROM`` text of the rows, and the two columns
+checked against the relation's schema. Engine errors become one :class:`InputError` line.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+from collections.abc import Sequence
+from dataclasses import dataclass
+from typing import Any
+
+from ..errors import InputError
+
+__all__ = ["Relation", "open_relation", "quote", "run"]
+
+_QUERY_START = re.compile(r"^\s*\(?\s*(select|with|from|values|table|pivot|unpivot)\b", re.I)
+_INTEGER_TYPES = frozenset({
+    "TINYINT", "SMALLINT", "INTEGER", "BIGINT", "HUGEINT",
+    "UTINYINT", "USMALLINT", "UINTEGER", "UBIGINT",
+})
+_FLOAT_TYPES = frozenset({"FLOAT", "DOUBLE"})
+
+
+@dataclass(frozen=True)
+class Relation:
+    """The rows to analyse: ``con`` runs SQL, ``src`` is the text after ``FROM``; ``group`` and
+    ``value`` are the columns as SQL identifiers, ``kind`` the value column's kind
+    (``"double"``, ``"decimal"``, ``"integer"``), ``decimals`` a DECIMAL column's scale,
+    ``where`` the filter (``TRUE`` when none) and ``name`` what the messages call the source."""
+
+    con: Any
+    src: str
+    group: str
+    value: str
+    kind: str
+    decimals: int
+    where: str
+    name: str
+    value_name: str
+
+
+def quote(name: str) -> str:
+    """``name`` as a quoted SQL identifier."""
+    return '"' + name.replace('"', '""') + '"'
+
+
+def _literal(text: str) -> str:
+    return "'" + text.replace("'", "''") + "'"
+
+
+def run(con: Any, sql: str, params: Sequence[Any] = ()) -> list[tuple[Any, ...]]:
+    """The rows of ``sql``; an engine error becomes one line that starts with the engine's own."""
+    import duckdb
+
+    try:
+        return con.execute(sql, list(params)).fetchall()
+    except duckdb.Error as e:
+        first = next((ln.strip() for ln in str(e).splitlines() if ln.strip()), type(e).__name__)
+        raise InputError(
+            f"the database engine rejected the query: {' '.join(first.split())}; check the "
+            "table or query, the column names and the filter"
+        ) from None
+
+
+def _quiet(con: Any) -> Any:
+    """``con`` without DuckDB's progress bar: a library call prints nothing."""
+    con.execute("SET enable_progress_bar = false")
+    return con
+
+
+def _from_path(path: str) -> tuple[Any, str]:
+    import duckdb
+
+    low = path.lower()
+    if not os.path.isfile(path):
+        raise InputError(f"no file {path!r}; give the path of a .parquet or .csv file")
+    if low.endswith(".parquet"):
+        return _quiet(duckdb.connect()), f"read_parquet({_literal(path)})"
+    if low.endswith((".csv", ".csv.gz", ".tsv")):
+        return _quiet(duckdb.connect()), f"read_csv({_literal(path)})"
+    raise InputError(
+        f"cannot tell how to read {path!r}; give a .parquet or .csv file, or a DuckDB "
+        "connection with a table or query: (con, \"my_table\")"
+    )
+
+
+def _resolve(source: Any) -> tuple[Any, str, str]:
+    """The connection, the ``FROM`` text and a name for messages."""
+    if isinstance(source, (str, os.PathLike)):
+        path = os.fspath(source)
+        con, src = _from_path(path)
+        return con, src, os.path.basename(path)
+    if isinstance(source, tuple) and len(source) == 2 and isinstance(source[1], str):
+        con, text = source
+        if not hasattr(con, "execute"):
+            raise InputError(
+                f"the first item of source must be a DuckDB connection, not {type(con).__name__}"
+            )
+        if _QUERY_START.match(text):
+            return con, f"({text}) AS sheetfuncs_rows", "the query"
+        return con, text, text.strip()
+    if hasattr(source, "execute"):
+        raise InputError(
+            "a connection alone does not say which rows to read; pass (con, \"table\") or "
+            "(con, \"SELECT ...\")"
+        )
+    raise InputError(
+        f"cannot read rows from {type(source).__name__}; give a .parquet or .csv path, or "
+        "(DuckDB connection, table name or query)"
+    )
+
+
+def _column(cols: dict[str, str], name: Any, role: str, where: str) -> str:
+    if not isinstance(name, str) or not name:
+        raise InputError(f"{role} must be a column name, not {name!r}")
+    if name in cols:
+        return name
+    folded = [c for c in cols if c.lower() == name.lower()]
+    if len(folded) == 1:
+        return folded[0]
+    shown = ", ".join(list(cols)[:12]) + (", ..." if len(cols) > 12 else "")
+    raise InputError(f'no column "{name}" in {where} (its columns: {shown}); check the {role} name')
+
+
+def _kind(type_name: str, value: str) -> tuple[str, int]:
+    t = type_name.upper()
+    if t in _FLOAT_TYPES:
+        return "double", 0
+    if t in _INTEGER_TYPES:
+        return "integer", 0
+    m = re.fullmatch(r"DECIMAL\((\d+),\s*(\d+)\)", t)
+    if m:
+        return "decimal", int(m.group(2))
+    raise InputError(
+        f'the value column "{value}" holds {type_name}, not numbers; give a numeric column '
+        f"(or cast it in a query: (con, \"SELECT ..., CAST({value} AS DOUBLE) AS {value} ...\"))"
+    )
+
+
+def open_relation(source: Any, group: Any, value: Any, where: str | None) -> Relation:
+    """The :class:`Relation` for ``source``, its two columns checked against its schema."""
+    con, src, name = _resolve(source)
+    if where is not None and (not isinstance(where, str) or not where.strip()):
+        raise InputError(f"where must be SQL text such as \"line = 'A'\", not {where!r}")
+    cols = {str(r[0]): str(r[1]) for r in run(con, f"DESCRIBE SELECT * FROM {src}")}
+    g = _column(cols, group, "group", name)
+    v = _column(cols, value, "value", name)
+    if g == v:
+        raise InputError(f'the group and the value are the same column "{g}"; give two columns')
+    kind, decimals = _kind(cols[v], v)
+    return Relation(con, src, quote(g), quote(v), kind, decimals, f"({where})" if where else "TRUE", name, v)
