@@ -32,6 +32,7 @@ _EXPORTS = {
     "EffectSizes": ".stats", "effect_sizes": ".stats", "PowerPlan": ".stats",
     "detectable_effect": ".stats", "plan": ".stats", "power": ".stats", "sample_size": ".stats",
     "VarianceComponents": ".stats", "variance_components": ".stats",
+    "oneway_sql": ".engines", "group_sums": ".engines", "GroupSums": ".engines",
 }
 
 __version__ = "0.1.0"
@@ -42,6 +43,8 @@ __all__ = [
     "CellBlock", "LoadedGroups", "read_cells", "read_groups",
     # the one-way analysis, general linear test, F distribution, summaries
     "OneWayResult", "oneway", "oneway_from_summary",
+    # the same analysis pushed down to a database engine (DuckDB; pip install sheetfuncs[sql])
+    "oneway_sql", "group_sums", "GroupSums",
     "LinearTestResult", "ContrastResult", "linear_test", "contrast",
     "f_tail", "f_critical",
     "DescribeResult", "GroupSummary", "describe",
