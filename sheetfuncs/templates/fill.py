@@ -31,7 +31,7 @@ import openpyxl
 
 from ..errors import InputError
 from ..input import column_letters, is_error_text, read_cells, read_groups, same_file
-from ..input.files import check_archive
+from ..input.files import check_archive, member_header
 from .book import Block, find_block, read_book
 from .cells import CellValue, ErrorValue, Value, patch_sheet, split_ref
 from .compute import FormulaCell, compute_sf_cells
@@ -171,14 +171,6 @@ def patch_table(xml: str, header: Sequence[str]) -> str:
     return _COLUMN.sub(one, xml)
 
 
-def _copy_info(info: zipfile.ZipInfo) -> zipfile.ZipInfo:
-    """The member's header for the copy: its name, time, compression and attributes."""
-    copy = zipfile.ZipInfo(info.filename, info.date_time)
-    for field in ("compress_type", "external_attr", "internal_attr", "create_system", "comment"):
-        setattr(copy, field, getattr(info, field))
-    return copy
-
-
 #: Excel's calculation-engine id since Excel 2016 (common practice: what it writes in calcPr).
 CALC_ID = 191029
 _CALC_PR = re.compile(r"<calcPr\b[^>]*?/?>")
@@ -221,7 +213,7 @@ def write_copy(src: Path, dst: Path, parts: Mapping[str, Mapping[str, CellValue]
                     data = patch_table(data.decode("utf-8"), tables[info.filename]).encode("utf-8")
                 elif info.filename == workbook:
                     data = keep_stored_values(data.decode("utf-8")).encode("utf-8")
-                out.writestr(_copy_info(info), data)
+                out.writestr(member_header(info), data)
         shutil.copymode(src, tmp)
         os.replace(tmp, dst)
     except BaseException:

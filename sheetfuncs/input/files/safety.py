@@ -28,6 +28,7 @@ __all__ = [
     "DEFAULT_SIZE_LIMIT", "CFB_MAGIC", "ZIP_MAGIC", "ZIP_EMPTY",
     "check_archive", "check_file_size", "openpyxl_uses_defusedxml", "defusedxml_refused",
     "size_text", "limit_hint", "bomb_message", "damaged_error", "looks_like_text",
+    "member_header",
 ]
 
 #: Default limit on the total uncompressed size of a workbook (and on the size of a CSV file).
@@ -350,3 +351,12 @@ def _cfb_names(p: Path) -> set[str]:
         if guard > len(fat) + 1:
             raise ValueError("directory chain loops")
     return names
+
+
+def member_header(info: zipfile.ZipInfo) -> zipfile.ZipInfo:
+    """A zip member's header for a copy of the archive: same name, time, compression,
+    attributes and comment (the size and checksum are set when the member is written)."""
+    copy = zipfile.ZipInfo(info.filename, info.date_time)
+    for name in ("compress_type", "external_attr", "internal_attr", "create_system", "comment"):
+        setattr(copy, name, getattr(info, name))
+    return copy

@@ -37,7 +37,7 @@ from xml.etree import ElementTree
 
 from ...errors import InputError
 from ...input import same_file
-from ...input.files import DEFAULT_SIZE_LIMIT, check_archive
+from ...input.files import DEFAULT_SIZE_LIMIT, check_archive, member_header
 from ..functions import REGISTRY
 from .names import SERVICE, stored_name
 
@@ -466,7 +466,7 @@ def _copy_members(zin: zipfile.ZipFile, out: zipfile.ZipFile, kinds: dict[str, s
             total = _add(total, tally)
             changes += [change] if change.calls else []
             notes += [note] if note else []
-        out.writestr(_copy_info(info), data)
+        out.writestr(member_header(info), data)
     return tuple(changes), total, tuple(notes)
 
 
@@ -478,17 +478,6 @@ def _read_member(zin: zipfile.ZipFile, info: zipfile.ZipInfo) -> bytes:
             f"{Path(str(zin.filename)).name} is damaged (part {info.filename}: {e}); "
             "open it in a spreadsheet program and save it as .xlsx again"
         ) from None
-
-
-def _copy_info(info: zipfile.ZipInfo) -> zipfile.ZipInfo:
-    """A member's header for the copy: same name, time, compression, attributes and comment."""
-    new = zipfile.ZipInfo(info.filename, info.date_time)
-    new.compress_type = info.compress_type
-    new.external_attr = info.external_attr
-    new.internal_attr = info.internal_attr
-    new.create_system = info.create_system
-    new.comment = info.comment
-    return new
 
 
 def _convert_part(name: str, data: bytes, kind: str, to: str,
