@@ -14,7 +14,7 @@ from typing import Any
 
 from ..errors import InputError
 
-__all__ = ["Relation", "open_relation", "quote", "run"]
+__all__ = ["Relation", "open_relation", "quote", "run", "engine"]
 
 _QUERY_START = re.compile(r"^\s*\(?\s*(select|with|from|values|table|pivot|unpivot)\b", re.I)
 _INTEGER_TYPES = frozenset({
@@ -51,10 +51,21 @@ def _literal(text: str) -> str:
     return "'" + text.replace("'", "''") + "'"
 
 
+def engine() -> Any:
+    """The ``duckdb`` module, or one line saying how to install it (it is an optional extra)."""
+    try:
+        import duckdb
+    except ImportError:
+        raise InputError(
+            "reading from a database engine needs DuckDB, which is not installed; install it "
+            "with: pip install \"sheetfuncs[sql]\" (or pip install duckdb)"
+        ) from None
+    return duckdb
+
+
 def run(con: Any, sql: str, params: Sequence[Any] = ()) -> list[tuple[Any, ...]]:
     """The rows of ``sql``; an engine error becomes one line that starts with the engine's own."""
-    import duckdb
-
+    duckdb = engine()
     try:
         return con.execute(sql, list(params)).fetchall()
     except duckdb.Error as e:
@@ -72,8 +83,7 @@ def _quiet(con: Any) -> Any:
 
 
 def _from_path(path: str) -> tuple[Any, str]:
-    import duckdb
-
+    duckdb = engine()
     low = path.lower()
     if not os.path.isfile(path):
         raise InputError(f"no file {path!r}; give the path of a .parquet or .csv file")

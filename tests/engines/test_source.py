@@ -110,3 +110,18 @@ def test_bad_options(con):
         'sheetfuncs: missing must be "stop" (a NULL or NaN value stops the analysis) or "drop" '
         "(they are left out and counted), not 'skip'"
     )
+
+
+def test_without_duckdb_one_line_says_how_to_install_it(tmp_path, monkeypatch):
+    import sys
+
+    import sheetfuncs as sf
+
+    data = tmp_path / "x.csv"
+    data.write_text("head,w\nA,1.5\nA,1.6\nB,1.7\nB,1.9\n", encoding="utf-8")
+    monkeypatch.setitem(sys.modules, "duckdb", None)  # as if it were not installed
+    with pytest.raises(sf.InputError) as err:
+        sf.oneway_sql(data, group="head", value="w")
+    assert str(err.value) == ('sheetfuncs: reading from a database engine needs DuckDB, which is not '
+                              'installed; install it with: pip install "sheetfuncs[sql]" (or pip '
+                              'install duckdb)')
