@@ -74,3 +74,13 @@ def installed_profile(office: Office) -> Path:
 
 def remove(profile: Path) -> None:
     shutil.rmtree(profile.parent, ignore_errors=True)
+
+
+@pytest.fixture(scope="session")
+def calc_office():
+    """LibreOffice and a throw-away profile with this checkout's extension installed: built and
+    installed once per test run, shared by every module that drives Calc."""
+    office = require_calc()
+    profile = installed_profile(office)
+    yield office, profile
+    remove(profile)

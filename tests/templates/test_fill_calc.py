@@ -22,7 +22,6 @@ from sheetfuncs.cli.commands import main
 from sheetfuncs.templates import KINDS, fill_template, write_template
 from sheetfuncs.worksheet.calc.office import run_job
 from sheetfuncs.worksheet.calc.workbook import convert_workbook
-from tests.support.calc import installed_profile, remove, require_calc
 
 #: The tests' own data for each kind (invented), as CSV text.
 DATA = {
@@ -38,11 +37,8 @@ RELATIVE = 1e-12
 
 
 @pytest.fixture(scope="module")
-def calc():
-    office = require_calc()
-    profile = installed_profile(office)
-    yield office, profile
-    remove(profile)
+def calc(calc_office):
+    return calc_office
 
 
 def _stored(path: Path, ref: str) -> list[list[Any]]:

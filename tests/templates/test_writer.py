@@ -16,7 +16,6 @@ from sheetfuncs.worksheet.calc.workbook import convert_workbook
 from sheetfuncs.worksheet import harness
 from sheetfuncs.worksheet.calc.check import Example, compare
 from sheetfuncs.worksheet.calc.office import run_job
-from tests.support.calc import installed_profile, remove, require_calc
 from tests.support.libreoffice import convert_many, require_office
 from tests.support.template_cells import argument_value, calls
 
@@ -132,27 +131,23 @@ def test_every_kind_opens_in_libreoffice_headless(folder: Path, tmp_path: Path) 
 
 
 @pytest.fixture(scope="module")
-def calc_read(tmp_path_factory: pytest.TempPathFactory) -> dict[str, tuple]:
+def calc_read(calc_office, tmp_path_factory: pytest.TempPathFactory) -> dict[str, tuple]:
     """Every kind in its Calc form, opened and recalculated in headless Calc with the
     extension built from this checkout (one LibreOffice start for all kinds)."""
-    office = require_calc()
-    profile = installed_profile(office)
+    office, profile = calc_office
     folder = tmp_path_factory.mktemp("calc-form")
-    try:
-        steps, written = [], {}
-        for kind in KINDS:
-            w = write_template(kind, folder / f"{kind}.xlsx", host="calc")
-            excel = write_template(kind, folder / f"{kind}-excel.xlsx")
-            written[kind] = (w, load_workbook(excel.path))
-            steps += [{"op": "load", "path": str(w.path)}, {"op": "recalc"}]
-            steps += [{"op": "read", "sheet": w.record_sheet, "at": a.ref, "key": f"{kind} {a.ref}"}
-                      for a in w.arrays]
-            steps += [{"op": "read", "sheet": w.record_sheet, "at": d, "key": f"{kind} {d}"}
-                      for d in w.decisions]
-            steps += [{"op": "close"}]
-        read = run_job(office, steps, profile)
-    finally:
-        remove(profile)
+    steps, written = [], {}
+    for kind in KINDS:
+        w = write_template(kind, folder / f"{kind}.xlsx", host="calc")
+        excel = write_template(kind, folder / f"{kind}-excel.xlsx")
+        written[kind] = (w, load_workbook(excel.path))
+        steps += [{"op": "load", "path": str(w.path)}, {"op": "recalc"}]
+        steps += [{"op": "read", "sheet": w.record_sheet, "at": a.ref, "key": f"{kind} {a.ref}"}
+                  for a in w.arrays]
+        steps += [{"op": "read", "sheet": w.record_sheet, "at": d, "key": f"{kind} {d}"}
+                  for d in w.decisions]
+        steps += [{"op": "close"}]
+    read = run_job(office, steps, profile)
     return {kind: (w, wb, read) for kind, (w, wb) in written.items()}
 
 

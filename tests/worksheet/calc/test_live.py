@@ -24,14 +24,10 @@ from sheetfuncs.worksheet.calc.check import Example, compare, example_job, examp
 from sheetfuncs.worksheet.calc.names import stored_name
 from sheetfuncs.worksheet.calc.office import run_job
 from sheetfuncs.worksheet.functions import EXAMPLE_SHEET
-from tests.support.calc import installed_profile, remove, require_calc
 
 @pytest.fixture(scope="module")
-def calc():
-    office = require_calc()
-    profile = installed_profile(office)
-    yield office, profile
-    remove(profile)
+def calc(calc_office):
+    return calc_office
 
 
 @pytest.fixture(scope="module")
