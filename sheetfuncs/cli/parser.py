@@ -21,7 +21,7 @@ from ..input import DEFAULT_MAX_CELLS, DEFAULT_MAX_FIELDS, DEFAULT_SIZE_LIMIT
 
 __all__ = [
     "UsageError", "CommandParser", "DEFAULT_DEMO_OUTPUT", "build_parser", "parse_args",
-    "read_options", "positive_mb", "real", "whole", "count", "REPORT_MAX_GROUPS",
+    "read_options", "add_engine_options", "positive_mb", "real", "whole", "count", "REPORT_MAX_GROUPS",
     "TEMPLATE_KINDS",
 ]
 
@@ -161,6 +161,29 @@ def add_read_options(p: argparse.ArgumentParser) -> None:
                         "label joins that group")
 
 
+def add_engine_options(p: argparse.ArgumentParser) -> None:
+    """Reading by column through the embedded database engine: a Parquet or CSV file, or a
+    DuckDB database file with a query."""
+    g = p.add_argument_group(
+        "reading by column (Parquet, CSV or a DuckDB database, through DuckDB)")
+    g.add_argument("--group", metavar="COL",
+                   help="the column that holds the group labels (needed for a .parquet input, "
+                        "a --duckdb query, or a .csv read by column)")
+    g.add_argument("--value", metavar="COL",
+                   help="the column that holds the measurements (with --group)")
+    g.add_argument("--where", metavar="SQL",
+                   help="a filter on the rows, in SQL: \"line = 'A' AND lot > 40\" (default: "
+                        "all rows)")
+    g.add_argument("--duckdb", metavar="FILE.db",
+                   help="a DuckDB database file, opened read-only; give the rows with --query")
+    g.add_argument("--query", metavar="SQL",
+                   help="with --duckdb: a table name or a query (SELECT ...) that gives the "
+                        "rows")
+    g.add_argument("--missing", choices=("stop", "drop"), default="stop",
+                   help="stop (default): a NULL or NaN value stops the run and is named; drop: "
+                        "leave them out and count them per group")
+
+
 def read_options(args: argparse.Namespace) -> dict[str, Any]:
     """The reading options of :func:`add_read_options` as keyword arguments of
     :func:`sheetfuncs.input.read_groups`."""
@@ -222,12 +245,16 @@ def add_report_command(sub: Any) -> None:
         usage="sheetfuncs report INPUT... (-o OUT.xlsx | --out-dir DIR) [options]",
         description="Write a formatted result workbook for each input file: .xlsx/.xlsm "
                     "workbooks (the saved values only; macros are never run) or .csv files. "
+                    "Rows in a .parquet or .csv file or a DuckDB database are read by column "
+                    "(DATA.parquet --group COL --value COL, or --duckdb FILE.db --query SQL "
+                    "--group COL --value COL): the exact sums are computed inside DuckDB. "
                     "An existing report is kept unless --force; an input is never "
                     "overwritten.",
     )
     io_ = rep.add_argument_group("input and output")
-    io_.add_argument("inputs", nargs="+", metavar="INPUT",
-                     help="one or more .xlsx, .xlsm or .csv files")
+    io_.add_argument("inputs", nargs="*", metavar="INPUT",
+                     help="one or more .xlsx, .xlsm or .csv files, or a .parquet or .csv file "
+                          "read by column (--group, --value)")
     out = io_.add_mutually_exclusive_group(required=True)
     out.add_argument("-o", "--output", metavar="OUT.xlsx",
                      help="the report to write (for one input)")
@@ -240,6 +267,7 @@ def add_report_command(sub: Any) -> None:
                      help="refuse to write a report on more than N groups (default "
                           f"{REPORT_MAX_GROUPS}; the comparisons grow with the square of N)")
     add_read_options(rep)
+    add_engine_options(rep)
     a = rep.add_argument_group("analysis")
     add_alpha(a)
     a.add_argument("--method", default="tukey", metavar="NAME",
@@ -275,10 +303,14 @@ def add_table_command(sub: Any) -> None:
         sub, "table", summary="print the one-way table, the checks and the group summary",
         usage="sheetfuncs table INPUT [--json | --csv] [options]",
         description="Print the one-way table, the assumption checks and the group summary of "
-                    "one input file, as aligned text (default), JSON or CSV.",
+                    "one input file, as aligned text (default), JSON or CSV. Rows in a .parquet "
+                    "or .csv file or a DuckDB database are read by column (DATA.parquet --group "
+                    "COL --value COL, or --duckdb FILE.db --query SQL --group COL --value COL).",
     )
     tio = tab.add_argument_group("input and output")
-    tio.add_argument("input", metavar="INPUT", help="an .xlsx, .xlsm or .csv file")
+    tio.add_argument("input", nargs="?", metavar="INPUT",
+                     help="an .xlsx, .xlsm or .csv file, or a .parquet or .csv file read by "
+                          "column (--group, --value)")
     fmt = tio.add_mutually_exclusive_group()
     fmt.add_argument("--json", dest="fmt", action="store_const", const="json",
                      help="print JSON (infinite values as \"inf\", undefined ones as null)")
@@ -286,6 +318,7 @@ def add_table_command(sub: Any) -> None:
                      help="print the three tables as CSV, separated by a blank line (text that "
                           "could be taken for a formula gets a leading ')")
     add_read_options(tab)
+    add_engine_options(tab)
     ta = tab.add_argument_group("analysis")
     add_alpha(ta)
     add_names(ta, response=False)

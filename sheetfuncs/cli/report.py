@@ -15,7 +15,8 @@ from collections.abc import Sequence
 from pathlib import Path
 
 from ..errors import InputError, message
-from ..input import read_groups, same_file
+from ..input import group_sizes, read_groups, same_file
+from .engine import EngineInput, by_column, engine_analysis, engine_inputs
 from .files import (
     check_output_folder, check_report_name, os_reason, write_report_file,
 )
@@ -61,7 +62,8 @@ def run_report(args: argparse.Namespace) -> int:
     from ..input import check_alpha
     from ..stats import parse_method
 
-    pairs = report_outputs(args)
+    engine_mode = by_column(args)
+    pairs = engine_outputs(args) if engine_mode else report_outputs(args)
     check_alpha(args.alpha)  # options first: one message, before any file is read
     parse_method(args.method)
     if args.out_dir is not None:
@@ -69,13 +71,16 @@ def run_report(args: argparse.Namespace) -> int:
         if folder.exists() and not folder.is_dir():
             raise InputError(f"{folder} exists and is not a folder; choose another")
         folder.mkdir(parents=True, exist_ok=True)
-    inputs = [inp for inp, _ in pairs]
+    inputs = [Path(inp.path) for inp, _ in pairs] if engine_mode else [inp for inp, _ in pairs]
     prog = Progress(args.progress, sys.stderr, batch=len(pairs))
     failures = 0
     for i, (inp, out) in enumerate(pairs, 1):
         prog.start(i, inp.name)
         try:
-            summary = report_one(args, inp, out, inputs, prog)
+            if engine_mode:
+                summary = report_by_column(args, inp, out, inputs, prog)
+            else:
+                summary = report_one(args, inp, out, inputs, prog)
         except InputError as e:
             failures += 1
             prog.finish()
@@ -91,10 +96,26 @@ def run_report(args: argparse.Namespace) -> int:
     return 1 if failures else 0
 
 
-def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[Path],
-               prog: Progress) -> str:
-    """Read one input and write its report, after checking where the report goes; returns
-    the one-line summary of what was read."""
+def engine_outputs(args: argparse.Namespace) -> list[tuple[EngineInput, Path]]:
+    """Each input read by column with the report it gets (as :func:`report_outputs`)."""
+    inputs = engine_inputs(args)
+    if args.output is not None:
+        if len(inputs) > 1:
+            raise UsageError(
+                f"-o names one report but {len(inputs)} inputs were given; use "
+                "--out-dir DIR for several inputs"
+            )
+        return [(inputs[0], check_report_name(args.output, out_dir=True))]
+    pairs = [(inp, Path(args.out_dir) / f"{inp.stem}-report.xlsx") for inp in inputs]
+    if len({p for _, p in pairs}) < len(pairs):
+        raise UsageError("two inputs have the same name and would share a report; run them "
+                         "separately")
+    return pairs
+
+
+def _check_out(args: argparse.Namespace, out: Path, inputs: Sequence[Path]) -> None:
+    """Where the report goes: never over an input, into an existing folder, not over an
+    existing report unless --force."""
     for other in inputs:
         if same_file(out, other):
             raise InputError(
@@ -108,6 +129,13 @@ def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[
         raise InputError(
             f"{out} already exists and is kept; add --force to replace it"
         )
+
+
+def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[Path],
+               prog: Progress) -> str:
+    """Read one input and write its report, after checking where the report goes; returns
+    the one-line summary of what was read."""
+    _check_out(args, out, inputs)
     loaded = read_groups(inp, progress=prog, **read_options(args))
     prog.consider_size(loaded.groups.n_total)
     write_report_file(
@@ -118,3 +146,20 @@ def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[
         **({} if args.max_groups is None else {"max_groups": args.max_groups}),
     )
     return loaded.reading.summary(loaded.groups.labels, loaded.groups.counts)
+
+
+def report_by_column(args: argparse.Namespace, inp: EngineInput, out: Path,
+                     inputs: Sequence[Path], prog: Progress) -> str:
+    """The report of one input read by column: the sums computed inside the engine."""
+    from ..report import write_sums_report
+
+    _check_out(args, out, inputs)
+    res = engine_analysis(args, inp, method=args.method, control=args.control)
+    an = res.analysis
+    write_sums_report(
+        an, out, origin=res.origin, query=inp.query,
+        factor=args.factor, response=args.response, unit=args.unit, title=args.title,
+        force=args.force, progress=prog,
+        **({} if args.max_groups is None else {"max_groups": args.max_groups}),
+    )
+    return f"{an.n_total:,} values in {an.k} groups ({group_sizes(an.labels, an.counts)})"

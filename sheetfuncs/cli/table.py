@@ -17,6 +17,7 @@ from typing import Any
 
 from ..input import LoadedGroups, group_sizes, read_groups
 from .output import aligned, cell_log, csv_safe, json_ready, records
+from .engine import by_column, engine_analysis, engine_inputs, origin_record, origin_lines
 from .parser import read_options
 from .progress import Progress
 
@@ -43,6 +44,8 @@ def analysis(loaded: LoadedGroups, alpha: float, factor: str) -> tuple[Any, Any,
 
 
 def run_table(args: argparse.Namespace) -> int:
+    if by_column(args):
+        return run_engine_table(args)
     prog = Progress(args.progress, sys.stderr)
     prog.start(1, Path(args.input).name)
     try:
@@ -59,6 +62,61 @@ def run_table(args: argparse.Namespace) -> int:
     else:
         table_text(args, loaded, ck, desc, one)
     return 0
+
+
+def run_engine_table(args: argparse.Namespace) -> int:
+    """``table`` for an input read by column: the sums computed inside the engine."""
+    (inp,) = engine_inputs(args)
+    res = engine_analysis(args, inp, comparisons=False, conf=0.95)
+    an = res.analysis
+    one = an.oneway.table(args.factor)
+    print(f"{inp.name}: {an.n_total} values in {an.k} groups ({group_sizes(an.labels, an.counts)})",
+          file=sys.stderr)
+    if args.fmt == "json":
+        doc = {
+            "input": origin_record(inp, res, an),
+            "oneway": oneway_record(args.factor, an.oneway, one),
+            "checks": checks_record(an.checks),
+            "groups": records(an.describe.table()),
+            "caution": CAUTION,
+        }
+        sys.stdout.write(json.dumps(json_ready(doc), allow_nan=False, indent=2) + "\n")
+    elif args.fmt == "csv":
+        w = csv.writer(sys.stdout, lineterminator="\n")
+        read = [["Read", "Item", "Rows"], *([["source", line, None] for line in origin_lines(inp, res)]),
+                *([["group", lab, n] for lab, n in zip(an.labels, an.counts)])]
+        for i, table in enumerate((read, one, an.checks.table(), an.describe.table())):
+            if i:
+                w.writerow([])
+            for row in table:
+                w.writerow([csv_safe(v) for v in row])
+    else:
+        _engine_text(inp, res, one)
+    return 0
+
+
+def _engine_text(inp: Any, res: Any, one: list[list[Any]]) -> None:
+    an = res.analysis
+    ck = an.checks
+    path = "decimal-exact" if an.oneway.exact else "floating-point"
+    out = [
+        *origin_lines(inp, res),
+        "",
+        f"One-way analysis of variance: {an.n_total} values in {an.k} groups, {path} arithmetic",
+        "",
+        *aligned(one),
+        "",
+        f"Checks (alpha = {ck.alpha:g}); read: {ck.read_name}",
+        *aligned(ck.table()),
+        "",
+        *("  - " + r for r in ck.reasons),
+        "",
+        "Groups",
+        *aligned(an.describe.table()),
+        "",
+        CAUTION,
+    ]
+    sys.stdout.write("\n".join(out) + "\n")
 
 
 def input_record(args: argparse.Namespace, loaded: LoadedGroups) -> dict[str, Any]:
