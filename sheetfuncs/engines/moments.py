@@ -1,4 +1,4 @@
-"""Exact per-group moments computed inside DuckDB: counts, sums and sums of squares of scaled,
+"""Exact per-group moments computed inside the engine (DuckDB or Spark): counts, sums and sums of squares of scaled,
 centred integers, as Python integers that add across partitions and files.
 
 Every value is ``(offset + m) / 10**scale`` for an integer ``m`` (the convention of
@@ -22,7 +22,9 @@ and a BIGINT square beyond 2**31: centred integers that reach 2**31 are summed i
 form ``m = a * K + b`` (``K = 2**h``, ``|a|, |b| < 2**32``), ``sum m^2 = K^2 sum a^2 + 2 K sum ab
 + sum b^2``, every product in 64 bits (128 for values beyond 2**62) and every sum in DuckDB's
 128-bit accumulator, which cannot overflow below 2**63 rows. DuckDB's integer arithmetic is
-checked: an overflow is an error, never a wrapped number.
+checked: an overflow is an error, never a wrapped number. Spark's (with ANSI mode, forced) is
+checked too; its sums are 64-bit, and an overflow runs the query again with DECIMAL(38, 0)
+totals (:mod:`.dialect`).
 
 DOUBLE columns usually take one pass: the scale and the offset are guessed from the first
 values, and the rows that do not fit (more decimals, or ``|m| >= 2**31``) are left over; when
@@ -32,7 +34,7 @@ more than 100,000 are, a scan finds the scale and the bounds and a second pass s
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from decimal import Decimal
 from fractions import Fraction
 from typing import Any
@@ -41,6 +43,7 @@ from ..errors import InputError
 from ..input import format_label
 from ..stats import ExactMoments
 from ..stats.moments import MAX_DIGITS, decimal_parts
+from .dialect import EngineOverflow
 from .source import Relation, opened, run
 
 __all__ = ["GroupSums", "NotExact", "group_sums", "sums_from_relation"]
@@ -122,8 +125,8 @@ def _p10(d: int) -> str:
     return f"CAST({10 ** d} AS DOUBLE)"
 
 
-def _fits(d: int) -> str:
-    r = f"round(x * {_p10(d)})"
+def _fits(rel: Relation, d: int) -> str:
+    r = rel.dialect.rint(f"x * {_p10(d)}")
     return f"(abs({r}) < {_p10(15)} AND {r} / {_p10(d)} = x)"
 
 
@@ -131,7 +134,7 @@ def _scan(rel: Relation) -> dict[str, Any]:
     """Counts of NULL labels, missing and infinite values, the scale, the extremes, the rows."""
     if rel.kind == "double":
         sql = rel.dialect
-        chain = " ".join(f"WHEN {_fits(d)} THEN {d}" for d in range(_MAX_SCALE + 1))
+        chain = " ".join(f"WHEN {_fits(rel, d)} THEN {d}" for d in range(_MAX_SCALE + 1))
         inner = f"SELECT g, x, CASE WHEN {sql.isfinite('x')} THEN CASE {chain} ELSE {_WIDE} END END AS d FROM ({_rows(rel, labelled=False)})"
         bad, inf = f"(x IS NULL OR {sql.isnan('x')})", sql.isinf("x")
         scale = f"max(d) FILTER (WHERE g IS NOT NULL AND d < {_WIDE})"
@@ -213,7 +216,7 @@ def _m_expr(rel: Relation, scale: int, offset: int, typ: str, narrow: bool = Fal
 
 
 def _inner(rel: Relation, scale: int, offset: int, typ: str, narrow: bool) -> str:
-    r = f", round(x * {_p10(scale)}) AS r" if rel.kind == "double" else ""
+    r = f", {rel.dialect.rint(f'x * {_p10(scale)}')} AS r" if rel.kind == "double" else ""
     rows = f"SELECT g, x{r} FROM ({_rows(rel, labelled=False)})"
     return f"SELECT g, x, {_m_expr(rel, scale, offset, typ, narrow)} AS m FROM ({rows})"
 
@@ -239,6 +242,18 @@ def _sums_sql(rel: Relation, inner: str, split: int, typ: str) -> str:
         f"count(*) FILTER (WHERE {inf}), count(*) FILTER (WHERE {left}), count(*) "
         f"FROM ({inner}) GROUP BY g"
     )
+
+
+def _run_sums(rel: Relation, inner: str, split: int, typ: str) -> list[tuple[Any, ...]]:
+    """The rows of :func:`_sums_sql`; after a checked overflow of the engine's 64-bit totals
+    (Spark), the same query again with wider totals."""
+    try:
+        return run(rel.con, _sums_sql(rel, inner, split, typ))
+    except EngineOverflow:
+        wider = rel.dialect.widened()
+        if wider is None:
+            raise
+        return run(rel.con, _sums_sql(replace(rel, dialect=wider), inner, split, typ))
 
 
 def _labels(raw: list[Any]) -> list[str]:
@@ -288,7 +303,7 @@ def _pass(
     typ = "BIGINT" if bound < 1 << 62 else rel.dialect.wide
     split = 0 if bound < _DIRECT else (bound.bit_length() + 1) // 2
     inner = _inner(rel, scale, offset, typ, narrow=bound == 0)
-    got = run(rel.con, _sums_sql(rel, inner, split, typ))
+    got = _run_sums(rel, inner, split, typ)
     nulls = sum(int(r[9]) for r in got if r[0] is None)
     got = [r for r in got if r[0] is not None]
     counts = {"infinite": sum(int(r[7]) for r in got), "missing": sum(int(r[6]) for r in got)}

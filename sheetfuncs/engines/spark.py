@@ -15,6 +15,7 @@ from contextlib import contextmanager
 from typing import Any
 
 from ..errors import InputError
+from .dialect import EngineOverflow
 
 __all__ = ["ANSI", "is_spark", "is_spark_source", "spark_scope", "spark_columns", "spark_rows"]
 
@@ -61,8 +62,10 @@ def spark_rows(spark: Any, sql: str) -> list[tuple[Any, ...]]:
     try:
         return [tuple(r) for r in spark.sql(sql).collect()]
     except errors as e:
-        raise InputError(
-            f"the database engine (Spark) rejected the query: {_first_sentence(e)}; check the "
+        first = _first_sentence(e)
+        kind = EngineOverflow if first.startswith("[ARITHMETIC_OVERFLOW]") else InputError
+        raise kind(
+            f"the database engine (Spark) rejected the query: {first}; check the "
             "table or query, the column names and the filter"
         ) from None
 

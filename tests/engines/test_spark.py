@@ -106,9 +106,23 @@ def _check_big(s: GroupSums, rows) -> None:
         assert s.q[i] == sum((v - s.offset) ** 2 for v in vals)
 
 
-def test_sum_of_squares_beyond_128_bits_uses_the_split_form(spark_session):
+def test_sum_of_squares_beyond_128_bits_uses_the_split_form(spark_session, monkeypatch):
+    # Spark's 64-bit sums overflow (an error in ANSI mode), and the query runs again with
+    # DECIMAL(38, 0) totals: exact all the same
+    queries = []
+    real = engine_source.spark_rows
+    monkeypatch.setattr(engine_source, "spark_rows", lambda spark, sql: queries.append(sql) or real(spark, sql))
     rows, df = _big(spark_session)
     _check_big(group_sums(df, group="g", value="x"), rows)
+    assert sum("sum(CAST(a * a AS DECIMAL(38, 0)))" in q for q in queries) == 1
+
+
+def test_usual_data_keep_the_fast_64_bit_sums(spark_session, monkeypatch, tmp_path):
+    queries = []
+    real = engine_source.spark_rows
+    monkeypatch.setattr(engine_source, "spark_rows", lambda spark, sql: queries.append(sql) or real(spark, sql))
+    group_sums(double_frame(spark_session, nist.load("SiRstv").groups, tmp_path), group="g", value="x")
+    assert queries and not any("DECIMAL(38, 0)" in q for q in queries)
 
 
 @pytest.mark.parametrize("setting", ("false", "true"))
