@@ -11,7 +11,11 @@ temporary Parquet file, then times, in the same run and on the same file:
 * ``oneway_sql``: :func:`sheetfuncs.oneway_sql` on the file (the user's path: the scale query,
   the exact sums, the rationals);
 * ``fetch``: the values fetched into numpy, sorted by group, and passed to
-  :func:`sheetfuncs.oneway`.
+  :func:`sheetfuncs.oneway`;
+* ``spark``: :func:`sheetfuncs.oneway_sql` on the same file read by Spark in local mode
+  (``local[2]``, ``spark.read.parquet``); the session is started before the clock (its start-up
+  is printed apart), and its peak memory adds the JVM's peak resident memory (``VmHWM``) to
+  the Python process's (an upper bound: the two peaks need not coincide).
 
 Each is run in a child process so that its peak resident memory (``ru_maxrss``; tracemalloc
 does not see DuckDB's own memory) is its own. Goal (issue 13): the push-down within 4x of
@@ -60,11 +64,35 @@ def fetch():
     cut = np.cumsum([n for _, n in sizes])[:-1]
     return sf.oneway(dict(zip([g for g, _ in sizes], np.split(x, cut))))
 
-fn = {{"var_samp": var_samp, "oneway_sql": pushdown, "fetch": fetch}}[what]
+def jvm_peak_mib(spark):
+    proc = getattr(spark.sparkContext._gateway, "proc", None)
+    if proc is None:
+        return 0.0
+    with open(f"/proc/{{proc.pid}}/status") as f:
+        kib = next(int(ln.split()[1]) for ln in f if ln.startswith("VmHWM:"))
+    return kib / 1024
+
+started, spark = 0.0, None
+if what == "spark":
+    t0 = time.perf_counter()
+    from pyspark.sql import SparkSession
+    spark = (SparkSession.builder.master("local[2]").config("spark.ui.enabled", "false")
+             .config("spark.sql.shuffle.partitions", "2").config("spark.ui.showConsoleProgress", "false")
+             .getOrCreate())
+    spark.sparkContext.setLogLevel("ERROR")
+    started = time.perf_counter() - t0
+
+def on_spark():
+    return oneway_sql(spark.read.parquet(path), group="g", value="x")
+
+fn = {{"var_samp": var_samp, "oneway_sql": pushdown, "fetch": fetch, "spark": on_spark}}[what]
 seconds = best_time(fn, repeat)
 out = fn()
 peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024  # KiB on Linux -> MiB
-print("RESULT " + json.dumps({{"seconds": seconds, "peak_mib": peak, "exact": getattr(out, "exact", None)}}))
+if spark is not None:
+    peak += jvm_peak_mib(spark)
+print("RESULT " + json.dumps({{"seconds": seconds, "peak_mib": peak, "exact": getattr(out, "exact", None),
+                              "start": started}}))
 """
 
 
@@ -96,6 +124,7 @@ def main() -> None:
     ap.add_argument("--size", type=int, default=1_000_000, help="rows per group (10000000 for the issue's figure)")
     ap.add_argument("--repeat", type=int, default=3)
     ap.add_argument("--no-fetch", action="store_true", help="skip the fetch-to-numpy path")
+    ap.add_argument("--no-spark", action="store_true", help="skip Spark in local mode")
     a = ap.parse_args()
     with tempfile.TemporaryDirectory() as tmp:
         path = os.path.join(tmp, "fill.parquet")
@@ -103,11 +132,13 @@ def main() -> None:
         print(f"{a.groups} groups x {a.size:,} rows from Parquet ({os.path.getsize(path) / 2**20:.0f} MiB), best of {a.repeat}")
         base = run(path, "var_samp", a.repeat)
         names = ["var_samp", "oneway_sql"] + ([] if a.no_fetch else ["fetch"])
+        names += [] if a.no_spark else ["spark"]
         for name in names:
             r = base if name == "var_samp" else run(path, name, a.repeat)
             print(
                 f"  {name:<11} {r['seconds']:8.3f} s  {r['seconds'] / base['seconds']:6.2f}x var_samp  "
                 f"peak {r['peak_mib']:7.0f} MiB  exact={r['exact']}"
+                + (f"  (session start {r['start']:.1f} s, not timed)" if name == "spark" else "")
             )
 
 

@@ -1,6 +1,7 @@
 from hypothesis import HealthCheck, settings
 
 from tests.support.calc import calc_office  # noqa: F401  (a fixture)
+from tests.support.spark import spark_session  # noqa: F401  (a fixture)
 from tests.support.xlwings_com import xlwings_com  # noqa: F401  (a fixture)
 from tests.support.xlwings_engine import xlwings_pipeline  # noqa: F401  (a fixture)
 

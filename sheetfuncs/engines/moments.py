@@ -1,4 +1,4 @@
-"""Exact per-group moments computed inside DuckDB: counts, sums and sums of squares of scaled,
+"""Exact per-group moments computed inside the engine (DuckDB or Spark): counts, sums and sums of squares of scaled,
 centred integers, as Python integers that add across partitions and files.
 
 Every value is ``(offset + m) / 10**scale`` for an integer ``m`` (the convention of
@@ -22,7 +22,9 @@ and a BIGINT square beyond 2**31: centred integers that reach 2**31 are summed i
 form ``m = a * K + b`` (``K = 2**h``, ``|a|, |b| < 2**32``), ``sum m^2 = K^2 sum a^2 + 2 K sum ab
 + sum b^2``, every product in 64 bits (128 for values beyond 2**62) and every sum in DuckDB's
 128-bit accumulator, which cannot overflow below 2**63 rows. DuckDB's integer arithmetic is
-checked: an overflow is an error, never a wrapped number.
+checked: an overflow is an error, never a wrapped number. Spark's (with ANSI mode, forced) is
+checked too; its sums are 64-bit, and an overflow runs the query again with DECIMAL(38, 0)
+totals (:mod:`.dialect`).
 
 DOUBLE columns usually take one pass: the scale and the offset are guessed from the first
 values, and the rows that do not fit (more decimals, or ``|m| >= 2**31``) are left over; when
@@ -32,7 +34,7 @@ more than 100,000 are, a scan finds the scale and the bounds and a second pass s
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from decimal import Decimal
 from fractions import Fraction
 from typing import Any
@@ -41,7 +43,8 @@ from ..errors import InputError
 from ..input import format_label
 from ..stats import ExactMoments
 from ..stats.moments import MAX_DIGITS, decimal_parts
-from .source import Relation, open_relation, run
+from .dialect import EngineOverflow
+from .source import Relation, opened, run
 
 __all__ = ["GroupSums", "NotExact", "group_sums", "sums_from_relation"]
 
@@ -122,22 +125,24 @@ def _p10(d: int) -> str:
     return f"CAST({10 ** d} AS DOUBLE)"
 
 
-def _fits(d: int) -> str:
-    r = f"round(x * {_p10(d)})"
+def _fits(rel: Relation, d: int) -> str:
+    r = rel.dialect.rint(f"x * {_p10(d)}")
     return f"(abs({r}) < {_p10(15)} AND {r} / {_p10(d)} = x)"
 
 
 def _scan(rel: Relation) -> dict[str, Any]:
     """Counts of NULL labels, missing and infinite values, the scale, the extremes, the rows."""
     if rel.kind == "double":
-        chain = " ".join(f"WHEN {_fits(d)} THEN {d}" for d in range(_MAX_SCALE + 1))
-        inner = f"SELECT g, x, CASE WHEN isfinite(x) THEN CASE {chain} ELSE {_WIDE} END END AS d FROM ({_rows(rel, labelled=False)})"
-        bad, inf, scale = "(x IS NULL OR isnan(x))", "isinf(x)", f"max(d) FILTER (WHERE g IS NOT NULL AND d < {_WIDE})"
+        sql = rel.dialect
+        chain = " ".join(f"WHEN {_fits(rel, d)} THEN {d}" for d in range(_MAX_SCALE + 1))
+        inner = f"SELECT g, x, CASE WHEN {sql.isfinite('x')} THEN CASE {chain} ELSE {_WIDE} END END AS d FROM ({_rows(rel, labelled=False)})"
+        bad, inf = f"(x IS NULL OR {sql.isnan('x')})", sql.isinf("x")
+        scale = f"max(d) FILTER (WHERE g IS NOT NULL AND d < {_WIDE})"
         wide, fin = f"d = {_WIDE}", "d < " + str(_WIDE)
     else:
         inner = f"SELECT g, x FROM ({_rows(rel, labelled=False)})"
         bad, inf, scale, wide, fin = "x IS NULL", "FALSE", str(rel.decimals), "FALSE", "x IS NOT NULL"
-    sql = (
+    text = (
         "SELECT count(*) FILTER (WHERE g IS NULL), "
         f"count(*) FILTER (WHERE g IS NOT NULL AND {bad}), count(*) FILTER (WHERE g IS NOT NULL AND {inf}), "
         f"{scale}, count(*) FILTER (WHERE g IS NOT NULL AND {wide}), "
@@ -145,7 +150,7 @@ def _scan(rel: Relation) -> dict[str, Any]:
         f"count(*) FILTER (WHERE g IS NOT NULL AND {fin}) FROM ({inner})"
     )
     keys = ("null_labels", "missing", "infinite", "scale", "wide", "low", "high", "rows")
-    return dict(zip(keys, run(rel.con, sql)[0]))
+    return dict(zip(keys, run(rel.con, text)[0]))
 
 
 def _first_label(rel: Relation, cond: str) -> str:
@@ -158,12 +163,12 @@ def _check_values(rel: Relation, scan: dict[str, Any], drop: bool) -> None:
         k = scan["infinite"]
         raise InputError(
             f'{k} infinite value{"s" if k != 1 else ""} in column "{rel.value_name}", the first '
-            f'in group "{_first_label(rel, "isinf(x)")}"; remove {"it" if k == 1 else "them"} or '
+            f'in group "{_first_label(rel, rel.dialect.isinf("x"))}"; remove {"it" if k == 1 else "them"} or '
             f'replace {"it" if k == 1 else "them"} with the measured value{"s" if k != 1 else ""}'
         )
     if scan["missing"] and not drop:
         k = scan["missing"]
-        cond = "x IS NULL OR isnan(x)" if rel.kind == "double" else "x IS NULL"
+        cond = f"x IS NULL OR {rel.dialect.isnan('x')}" if rel.kind == "double" else "x IS NULL"
         raise InputError(
             f'{k} missing value{"s" if k != 1 else ""} (NULL or NaN) in column "{rel.value_name}", '
             f'the first in group "{_first_label(rel, cond)}"; filter them out in the query or the '
@@ -199,41 +204,56 @@ def _m_expr(rel: Relation, scale: int, offset: int, typ: str, narrow: bool = Fal
         p = _p10(scale)
         near = f" AND abs(r - {offset}) < {_DIRECT}" if narrow else ""
         return (
-            f"CASE WHEN isfinite(x) AND abs(r) < {_p10(15)} AND r / {p} = x{near} "
+            f"CASE WHEN {rel.dialect.isfinite('x')} AND abs(r) < {_p10(15)} AND r / {p} = x{near} "
             f"THEN CAST(r AS BIGINT) - {offset} END"
         )
     if rel.kind == "decimal":
         s = rel.decimals
-        m = f"CAST(CAST(x AS DECIMAL(38, {s})) * CAST({10**s} AS DECIMAL(38, 0)) AS HUGEINT) - {offset}"
+        m = f"CAST(CAST(x AS DECIMAL(38, {s})) * CAST({10**s} AS DECIMAL(38, 0)) AS {rel.dialect.wide}) - {offset}"
     else:
-        m = f"CAST(x AS HUGEINT) - {offset}"
+        m = f"CAST(x AS {rel.dialect.wide}) - {offset}"
     return f"CAST({m} AS {typ})"
 
 
 def _inner(rel: Relation, scale: int, offset: int, typ: str, narrow: bool) -> str:
-    r = f", round(x * {_p10(scale)}) AS r" if rel.kind == "double" else ""
+    r = f", {rel.dialect.rint(f'x * {_p10(scale)}')} AS r" if rel.kind == "double" else ""
     rows = f"SELECT g, x{r} FROM ({_rows(rel, labelled=False)})"
     return f"SELECT g, x, {_m_expr(rel, scale, offset, typ, narrow)} AS m FROM ({rows})"
 
 
-def _sums_sql(inner: str, kind: str, split: int, typ: str) -> str:
+def _sums_sql(rel: Relation, inner: str, split: int, typ: str) -> str:
     """Per group (NULL labels as one more row): count, sum m, the square sums (one, or three in
     the split form ``m = a * K + b``), the missing, infinite and left-over values, all rows."""
+    sql = rel.dialect
     if split:
         k = f"CAST({1 << split} AS {typ})"
-        inner = f"SELECT g, x, m, m // {k} AS a, m - (m // {k}) * {k} AS b FROM ({inner})"
-        squares = "sum(a * a), sum(a * b), sum(b * b)"
+        div = sql.intdiv("m", k)
+        inner = f"SELECT g, x, m, {div} AS a, m - ({div}) * {k} AS b FROM ({inner})"
+        squares = ", ".join(f"sum({sql.total(t)})" for t in ("a * a", "a * b", "b * b"))
     else:
-        squares = "sum(m * m), 0, 0"
-    if kind == "double":
-        bad, inf, left = "x IS NULL OR isnan(x)", "isinf(x)", "m IS NULL AND isfinite(x)"
+        squares = f"sum({sql.total('m * m')}), 0, 0"
+    if rel.kind == "double":
+        bad, inf = f"x IS NULL OR {sql.isnan('x')}", sql.isinf("x")
+        left = f"m IS NULL AND {sql.isfinite('x')}"
     else:
         bad, inf, left = "x IS NULL", "FALSE", "FALSE"
     return (
-        f"SELECT g, count(m), sum(m), {squares}, count(*) FILTER (WHERE {bad}), "
+        f"SELECT g, count(m), sum({sql.total('m')}), {squares}, count(*) FILTER (WHERE {bad}), "
         f"count(*) FILTER (WHERE {inf}), count(*) FILTER (WHERE {left}), count(*) "
         f"FROM ({inner}) GROUP BY g"
     )
+
+
+def _run_sums(rel: Relation, inner: str, split: int, typ: str) -> list[tuple[Any, ...]]:
+    """The rows of :func:`_sums_sql`; after a checked overflow of the engine's 64-bit totals
+    (Spark), the same query again with wider totals."""
+    try:
+        return run(rel.con, _sums_sql(rel, inner, split, typ))
+    except EngineOverflow:
+        wider = rel.dialect.widened()
+        if wider is None:
+            raise
+        return run(rel.con, _sums_sql(replace(rel, dialect=wider), inner, split, typ))
 
 
 def _labels(raw: list[Any]) -> list[str]:
@@ -255,7 +275,7 @@ def _add_left(
     """``sums`` with the rows SQL could not scale read in Python through their shortest
     decimals (the scale grows to theirs), or :class:`NotExact` for a value of too many digits."""
     where = {repr(v): i for i, v in enumerate(raw)}
-    rows = run(rel.con, f"SELECT g, x FROM ({inner}) WHERE g IS NOT NULL AND m IS NULL AND isfinite(x)")
+    rows = run(rel.con, f"SELECT g, x FROM ({inner}) WHERE g IS NOT NULL AND m IS NULL AND {rel.dialect.isfinite('x')}")
     parts: list[tuple[int, int, int]] = []
     for g, x in rows:
         i = where[repr(g)]
@@ -280,10 +300,10 @@ def _pass(
     """One pass of exact sums at ``scale`` and ``offset`` (``|m| <= bound``); ``None`` when more
     than ``max_left`` rows are left for Python (``bound = 0``: none known, rows with
     ``|m| >= 2**31`` are left over)."""
-    typ = "BIGINT" if bound < 1 << 62 else "HUGEINT"
+    typ = "BIGINT" if bound < 1 << 62 else rel.dialect.wide
     split = 0 if bound < _DIRECT else (bound.bit_length() + 1) // 2
     inner = _inner(rel, scale, offset, typ, narrow=bound == 0)
-    got = run(rel.con, _sums_sql(inner, rel.kind, split, typ))
+    got = _run_sums(rel, inner, split, typ)
     nulls = sum(int(r[9]) for r in got if r[0] is None)
     got = [r for r in got if r[0] is not None]
     counts = {"infinite": sum(int(r[7]) for r in got), "missing": sum(int(r[6]) for r in got)}
@@ -306,7 +326,7 @@ def _pass(
 
 def _guess(rel: Relation) -> tuple[int, int]:
     """A scale and an offset from the first few thousand finite values (read in Python)."""
-    sample = run(rel.con, f"SELECT x FROM ({_rows(rel)}) WHERE isfinite(x) LIMIT {_SAMPLE}")
+    sample = run(rel.con, f"SELECT x FROM ({_rows(rel)}) WHERE {rel.dialect.isfinite('x')} LIMIT {_SAMPLE}")
     parts = [decimal_parts(v) for (v,) in sample]
     parts = [(m, e) for m, e, nd in parts if nd <= MAX_DIGITS and -e <= _MAX_SCALE]
     if not parts:
@@ -366,6 +386,7 @@ def group_sums(
     source: Any, *, group: str, value: str, where: str | None = None, missing: str = "stop"
 ) -> GroupSums | NotExact:
     """Exact per-group sums of ``value`` by ``group`` from ``source`` (see
-    :func:`sheetfuncs.oneway_sql` for the sources), computed inside DuckDB; labels sorted as
+    :func:`sheetfuncs.oneway_sql` for the sources), computed inside the engine; labels sorted as
     text. :class:`NotExact` when a value has more than 15 significant digits."""
-    return sums_from_relation(open_relation(source, group, value, where), missing=missing)
+    with opened(source, group, value, where) as rel:
+        return sums_from_relation(rel, missing=missing)

@@ -11,7 +11,7 @@ from ..errors import InputError
 from ..input import Groups, format_label
 from ..stats import OneWayResult, compute_moments, oneway_from_moments, oneway_from_sums
 from .moments import GroupSums, NotExact, sums_from_relation
-from .source import Relation, open_relation, run
+from .source import Relation, opened, run
 
 __all__ = ["oneway_sql"]
 
@@ -42,9 +42,9 @@ def _float_path(rel: Relation, sums: GroupSums, exact: bool | None) -> OneWayRes
     in-memory message when ``exact=True``)."""
     got = run(
         rel.con,
-        f"SELECT {rel.group}, list(CAST({rel.value} AS DOUBLE)) FROM {rel.src} WHERE "
-        f"{rel.group} IS NOT NULL AND {rel.where} AND {rel.value} IS NOT NULL "
-        f"AND isfinite(CAST({rel.value} AS DOUBLE)) GROUP BY {rel.group}",
+        f"SELECT {rel.group}, {rel.dialect.collect(f'CAST({rel.value} AS DOUBLE)')} FROM {rel.src} "
+        f"WHERE {rel.group} IS NOT NULL AND {rel.where} AND {rel.value} IS NOT NULL "
+        f"AND {rel.dialect.isfinite(f'CAST({rel.value} AS DOUBLE)')} GROUP BY {rel.group}",
     )
     arrays = {format_label(g): np.asarray(v, dtype=np.float64) for g, v in got}
     g = Groups(sums.labels, tuple(arrays[lab] for lab in sums.labels), dropped=sums.missing)
@@ -56,11 +56,13 @@ def oneway_sql(
     source: Any, *, group: str, value: str, where: str | None = None,
     exact: bool | None = None, missing: str = "stop",
 ) -> OneWayResult:
-    """One-way analysis of variance of ``value`` by ``group``, the sums computed inside DuckDB.
+    """One-way analysis of variance of ``value`` by ``group``, the sums computed inside the engine.
 
     ``source`` is a ``.parquet`` or ``.csv`` path (read by an in-process DuckDB), or a pair
     ``(connection, "table")`` / ``(connection, "SELECT ...")`` of a DuckDB connection and a
-    table name or query. ``where`` is an optional SQL filter. Groups are sorted by label (as
+    table name or query; or Spark: a DataFrame, or ``(spark, "table")`` / ``(spark, "SELECT
+    ...")`` (ANSI mode is forced for the call, the session's setting restored afterwards).
+    ``where`` is an optional SQL filter. Groups are sorted by label (as
     text). Rows with a NULL group label are left out and noted; NULL or NaN values stop the
     analysis (``missing="stop"``) or are left out and counted (``"drop"``); infinite values
     stop it.
@@ -73,22 +75,22 @@ def oneway_sql(
     """
     if exact is not None and not isinstance(exact, bool):
         raise InputError(f"exact must be None (automatic), True or False, not {exact!r}")
-    rel = open_relation(source, group, value, where)
-    sums = sums_from_relation(rel, missing=missing)
-    if isinstance(sums, NotExact):
-        base = _plain(rel, missing)
-        _check_groups(base)
-        return _float_path(rel, base, exact)
-    _check_groups(sums)
-    if exact is False:
-        return _float_path(rel, sums, exact)
+    with opened(source, group, value, where) as rel:
+        sums = sums_from_relation(rel, missing=missing)
+        if isinstance(sums, NotExact):
+            base = _plain(rel, missing)
+            _check_groups(base)
+            return _float_path(rel, base, exact)
+        _check_groups(sums)
+        if exact is False:
+            return _float_path(rel, sums, exact)
     return oneway_from_sums(sums.labels, sums.moments(), sums.missing, _notes(sums))
 
 
 def _plain(rel: Relation, missing: str) -> GroupSums:
     """Labels, counts and missing values only (for the floating-point path)."""
     miss = f"{rel.value} IS NULL" + (
-        f" OR isnan(CAST({rel.value} AS DOUBLE))" if rel.kind == "double" else ""
+        f" OR {rel.dialect.isnan(f'CAST({rel.value} AS DOUBLE)')}" if rel.kind == "double" else ""
     )
     got = run(
         rel.con,

@@ -1,20 +1,25 @@
-"""Where the rows come from: a DuckDB connection with a table or query, or a Parquet or CSV file.
+"""Where the rows come from: a DuckDB connection with a table or query, a Parquet or CSV file,
+or Spark (a DataFrame, or a SparkSession with a table or query: :mod:`.spark`).
 
-A :class:`Relation` holds the connection, the ``FROM`` text of the rows, and the two columns
-checked against the relation's schema. Engine errors become one :class:`InputError` line.
+A :class:`Relation` holds the connection, the ``FROM`` text of the rows, the engine's
+:class:`~.dialect.Dialect`, and the two columns checked against the relation's schema. Engine
+errors become one :class:`InputError` line.
 """
 
 from __future__ import annotations
 
 import os
 import re
-from collections.abc import Sequence
+from collections.abc import Iterator, Sequence
+from contextlib import contextmanager
 from dataclasses import dataclass
 from typing import Any
 
 from ..errors import InputError
+from .dialect import DUCKDB, SPARK, Dialect
+from .spark import is_spark, is_spark_source, spark_columns, spark_rows, spark_scope
 
-__all__ = ["Relation", "open_relation", "quote", "run", "engine"]
+__all__ = ["Relation", "open_relation", "opened", "quote", "run", "engine"]
 
 _QUERY_START = re.compile(r"^\s*\(?\s*(select|with|from|values|table|pivot|unpivot)\b", re.I)
 _INTEGER_TYPES = frozenset({
@@ -29,7 +34,8 @@ class Relation:
     """The rows to analyse: ``con`` runs SQL, ``src`` is the text after ``FROM``; ``group`` and
     ``value`` are the columns as SQL identifiers, ``kind`` the value column's kind
     (``"double"``, ``"decimal"``, ``"integer"``), ``decimals`` a DECIMAL column's scale,
-    ``where`` the filter (``TRUE`` when none) and ``name`` what the messages call the source."""
+    ``where`` the filter (``TRUE`` when none), ``name`` what the messages call the source and
+    ``dialect`` the engine's SQL spelling."""
 
     con: Any
     src: str
@@ -40,11 +46,12 @@ class Relation:
     where: str
     name: str
     value_name: str
+    dialect: Dialect = DUCKDB
 
 
 def quote(name: str) -> str:
-    """``name`` as a quoted SQL identifier."""
-    return '"' + name.replace('"', '""') + '"'
+    """``name`` as a quoted SQL identifier (DuckDB's spelling)."""
+    return DUCKDB.quote(name)
 
 
 def _literal(text: str) -> str:
@@ -64,7 +71,10 @@ def engine() -> Any:
 
 
 def run(con: Any, sql: str, params: Sequence[Any] = ()) -> list[tuple[Any, ...]]:
-    """The rows of ``sql``; an engine error becomes one line that starts with the engine's own."""
+    """The rows of ``sql``; an engine error becomes one line that starts with the engine's own.
+    ``con`` is a DuckDB connection or a SparkSession (then ``params`` must be empty)."""
+    if is_spark(con):
+        return spark_rows(con, sql)
     duckdb = engine()
     try:
         return con.execute(sql, list(params)).fetchall()
@@ -151,14 +161,37 @@ def _kind(type_name: str, value: str) -> tuple[str, int]:
 
 
 def open_relation(source: Any, group: Any, value: Any, where: str | None) -> Relation:
-    """The :class:`Relation` for ``source``, its two columns checked against its schema."""
+    """The :class:`Relation` for a DuckDB ``source`` or file, its two columns checked against
+    its schema (Spark sources go through :func:`opened`)."""
     con, src, name = _resolve(source)
+    return _relation(con, src, name, group, value, where, DUCKDB)
+
+
+@contextmanager
+def opened(source: Any, group: Any, value: Any, where: str | None) -> Iterator[Relation]:
+    """The :class:`Relation` for any ``source``; for Spark, with ANSI mode forced inside."""
+    if is_spark_source(source):
+        with spark_scope(source) as (spark, src, name):
+            yield _relation(spark, src, name, group, value, where, SPARK)
+    else:
+        yield open_relation(source, group, value, where)
+
+
+def _relation(
+    con: Any, src: str, name: str, group: Any, value: Any, where: str | None, dialect: Dialect
+) -> Relation:
     if where is not None and (not isinstance(where, str) or not where.strip()):
         raise InputError(f"where must be SQL text such as \"line = 'A'\", not {where!r}")
-    cols = {str(r[0]): str(r[1]) for r in run(con, f"DESCRIBE SELECT * FROM {src}")}
+    if dialect is SPARK:
+        cols = spark_columns(con, src)
+    else:
+        cols = {str(r[0]): str(r[1]) for r in run(con, f"DESCRIBE SELECT * FROM {src}")}
     g = _column(cols, group, "group", name)
     v = _column(cols, value, "value", name)
     if g == v:
         raise InputError(f'the group and the value are the same column "{g}"; give two columns')
     kind, decimals = _kind(cols[v], v)
-    return Relation(con, src, quote(g), quote(v), kind, decimals, f"({where})" if where else "TRUE", name, v)
+    return Relation(
+        con, src, dialect.quote(g), dialect.quote(v), kind, decimals,
+        f"({where})" if where else "TRUE", name, v, dialect,
+    )

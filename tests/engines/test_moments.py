@@ -18,7 +18,9 @@ from sheetfuncs.engines import GroupSums, NotExact, group_sums
 from sheetfuncs.engines import moments as engine_moments
 from sheetfuncs.stats import oneway_from_sums
 from tests.support import nist
-from tests.support.engines import decimal_table, double_table, fields, parquet_file, sorted_groups
+from tests.support.engines import (
+    assert_integer_sums, decimal_table, double_table, fields, parquet_file, sorted_groups,
+)
 
 
 def _within(sums: GroupSums) -> Fraction:
@@ -79,11 +81,7 @@ def test_sum_of_squares_beyond_128_bits_uses_the_split_form():
     rows = con.execute("SELECT g, x FROM b").fetchall()
     s = group_sums((con, "b"), group="g", value="x")
     assert max(q.bit_length() for q in s.q) > 128
-    for i, lab in enumerate(s.labels):
-        vals = [x for g, x in rows if str(g) == lab]
-        assert s.n[i] == len(vals)
-        assert s.s[i] == sum(v - s.offset for v in vals)
-        assert s.q[i] == sum((v - s.offset) ** 2 for v in vals)
+    assert_integer_sums(s, rows)
 
 
 def test_split_form_on_doubles_gives_the_same_sums(monkeypatch):

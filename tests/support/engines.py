@@ -63,3 +63,13 @@ def sorted_groups(groups: dict[str, Any]) -> dict[str, Any]:
     """The groups in the engines' order: labels sorted as text."""
     return {k: groups[k] for k in sorted(groups)}
 
+
+
+def assert_integer_sums(sums: Any, rows: list[tuple[Any, int]]) -> None:
+    """``sums`` (a GroupSums) are the Python integers' n, sum m and sum m**2 of ``rows``
+    (label, integer value) per group (common practice: exact integer arithmetic)."""
+    for i, lab in enumerate(sums.labels):
+        vals = [x for g, x in rows if str(g) == lab]
+        assert sums.n[i] == len(vals), lab
+        assert sums.s[i] == sum(v - sums.offset for v in vals), lab
+        assert sums.q[i] == sum((v - sums.offset) ** 2 for v in vals), lab
