@@ -48,7 +48,8 @@ from ..errors import InputError
 from ..distributions import f_tail
 from ..input import as_groups
 from .moments import rounded
-from .group_variances import centred_group_stats, prepare_with_variances
+from .group_moments import GroupMoments, group_moments, require_two
+from .group_variances import centred_stats, prepare_with_variances, require_variance_counts
 from .oneway import require_two_groups
 
 __all__ = [
@@ -56,7 +57,9 @@ __all__ = [
     "BrownForsytheResult",
     "KruskalResult",
     "welch",
+    "welch_of",
     "brown_forsythe",
+    "brown_forsythe_of",
     "kruskal",
 ]
 
@@ -124,10 +127,18 @@ def welch(
     """
     g = as_groups(groups, missing=missing, relabel=relabel)
     g, mom = prepare_with_variances(g, "Welch's test", exact)
-    dev, var = centred_group_stats(g, mom)
-    k = g.k
-    ns = g.counts
-    for i, label in enumerate(g.labels):
+    return welch_of(group_moments(g, mom))
+
+
+def welch_of(gm: GroupMoments) -> WelchResult:
+    """:func:`welch` from the groups' labels, counts and moments (no values needed)."""
+    require_two(gm)
+    require_variance_counts(gm.labels, gm.counts, "Welch's test")
+    mom = gm.moments
+    dev, var = centred_stats(mom)
+    k = gm.k
+    ns = gm.counts
+    for i, label in enumerate(gm.labels):
         if mom.ss_group(i) == 0:
             raise _zero_variance_error(label, "Welch's test")
         if var[i] < 1e-300 * max(var):  # (the largest is near 1) its weight would overflow
@@ -179,9 +190,17 @@ def brown_forsythe(
     """
     g = as_groups(groups, missing=missing, relabel=relabel)
     g, mom = prepare_with_variances(g, "the Brown-Forsythe F* test", exact)
-    n_tot = g.n_total
-    ns = g.counts
-    every, each = [list(range(g.k))], [[i] for i in range(g.k)]
+    return brown_forsythe_of(group_moments(g, mom))
+
+
+def brown_forsythe_of(gm: GroupMoments) -> BrownForsytheResult:
+    """:func:`brown_forsythe` from the groups' labels, counts and moments (no values needed)."""
+    require_two(gm)
+    require_variance_counts(gm.labels, gm.counts, "the Brown-Forsythe F* test")
+    mom = gm.moments
+    n_tot = gm.n_total
+    ns = gm.counts
+    every, each = [list(range(gm.k))], [[i] for i in range(gm.k)]
     if mom.exact:
         ssb = mom.ss_within_parts(every) - mom.ss_within_parts(each)
         parts = [Fraction(n_tot - n, n_tot) * (mom.ss_group(i) / (n - 1)) for i, n in enumerate(ns)]
@@ -193,7 +212,7 @@ def brown_forsythe(
         f, df2 = rounded(f_x), rounded(df2_x)  # F* beyond the largest double is infinite
     else:
         # centred means and variances in a common unit (F* and df2 do not depend on it)
-        dev, var = centred_group_stats(g, mom)
+        dev, var = centred_stats(mom)
         parts_f = [(n_tot - n) / n_tot * v for n, v in zip(ns, var)]
         denom_f = math.fsum(parts_f)
         if denom_f == 0:
@@ -202,8 +221,8 @@ def brown_forsythe(
         ssb_f = math.fsum(n * (d - grand) ** 2 for n, d in zip(ns, dev))
         f = ssb_f / denom_f
         df2 = denom_f * denom_f / math.fsum(c * c / (n - 1) for c, n in zip(parts_f, ns))
-    p = f_tail(f, g.k - 1, df2) if f > 0 else 1.0
-    return BrownForsytheResult(statistic=f, df1=g.k - 1, df2=df2, p=p, exact=mom.exact)
+    p = f_tail(f, gm.k - 1, df2) if f > 0 else 1.0
+    return BrownForsytheResult(statistic=f, df1=gm.k - 1, df2=df2, p=p, exact=mom.exact)
 
 
 def _all_zero_error() -> InputError:
