@@ -137,8 +137,8 @@ class ChecksResult:
             rows.append(self._row("Normal residuals", None, None, None))
         else:
             rows.append([f"{nm.method} (residuals)", nm.statistic, None, nm.p,
-                         (f"residuals look non-normal ({nm.n} residuals)" if nm.p < a
-                          else f"no sign of non-normal residuals ({nm.n} residuals)")])
+                         (f"residuals look non-normal ({nm.residuals_text})" if nm.p < a
+                          else f"no sign of non-normal residuals ({nm.residuals_text})")])
         rows.append(["Smallest group size", self.smallest_n, None, None,
                      f"fewer than {SMALL_GROUP_N}" if self.smallest_n < SMALL_GROUP_N
                      else f"{SMALL_GROUP_N} or more"])
@@ -352,7 +352,7 @@ def _normality_reasons(sec: _Secondary, a: float) -> tuple[list[str], bool]:
         )
     else:
         reasons.append(
-            f"The {norm.method} test on the {norm.n} residuals gives {_p_text(norm.p)}: "
+            f"The {norm.method} test on {'the ' if not norm.of_total else ''}{norm.residuals_text} gives {_p_text(norm.p)}: "
             + ("the residuals look non-normal." if nonnormal else "no sign of non-normal residuals.")
         )
     if bart is not None:
