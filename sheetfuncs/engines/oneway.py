@@ -13,7 +13,7 @@ from ..stats import OneWayResult, compute_moments, oneway_from_moments, oneway_f
 from .moments import GroupSums, NotExact, sums_from_relation
 from .source import Relation, open_relation, run
 
-__all__ = ["oneway_sql", "sums_notes", "plain_sums", "fetched_groups"]
+__all__ = ["oneway_sql", "sums_notes", "plain_sums", "fetched_groups", "check_sums_groups"]
 
 
 def sums_notes(sums: GroupSums) -> list[str]:
@@ -28,7 +28,7 @@ def sums_notes(sums: GroupSums) -> list[str]:
     return notes
 
 
-def _check_groups(sums: GroupSums) -> None:
+def check_sums_groups(sums: GroupSums) -> None:
     for lab, n, mi in zip(sums.labels, sums.n, sums.missing):
         if n == 0:
             raise InputError(
@@ -82,9 +82,9 @@ def oneway_sql(
     sums = sums_from_relation(rel, missing=missing)
     if isinstance(sums, NotExact):
         base = plain_sums(rel, missing)
-        _check_groups(base)
+        check_sums_groups(base)
         return _float_path(rel, base, exact)
-    _check_groups(sums)
+    check_sums_groups(sums)
     if exact is False:
         return _float_path(rel, sums, exact)
     return oneway_from_sums(sums.labels, sums.moments(), sums.missing, sums_notes(sums))
