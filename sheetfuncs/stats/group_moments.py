@@ -21,7 +21,7 @@ from ..errors import InputError
 from ..input import Groups
 from .moments import TOO_SMALL, ExactMoments, FloatMoments
 
-__all__ = ["GroupMoments", "group_moments", "moments_only", "require_two", "check_zero_spread"]
+__all__ = ["GroupMoments", "group_moments", "moments_only", "require_two", "require_two_labels", "check_zero_spread"]
 
 
 @dataclass(frozen=True)
@@ -101,10 +101,16 @@ def moments_only(
 
 def require_two(gm: GroupMoments) -> None:
     """InputError unless there are at least two groups."""
-    if gm.k < 2:
-        which = f' (only "{gm.labels[0]}")' if gm.k == 1 else ""
+    require_two_labels(gm.labels)
+
+
+def require_two_labels(labels: Sequence[str]) -> None:
+    """InputError unless there are at least two groups (the message for sums without values)."""
+    k = len(labels)
+    if k < 2:
+        which = f' (only "{labels[0]}")' if k == 1 else ""
         raise InputError(
-            f"at least two groups are needed to compare means, got {gm.k}{which}; "
+            f"at least two groups are needed to compare means, got {k}{which}; "
             "check the group column and the filter"
         )
 

@@ -23,7 +23,9 @@ import numpy as np
 from ..errors import InputError
 from ..input import Groups, as_groups, as_real, first_duplicate, format_label, one_line, shown
 from ..distributions import f_tail
-from .group_moments import GroupMoments, check_zero_spread, group_moments, moments_only, require_two
+from .group_moments import (
+    GroupMoments, check_zero_spread, group_moments, moments_only, require_two, require_two_labels,
+)
 from .moments import ExactMoments, FloatMoments, check_ss_range, compute_moments, decimal_parts, rounded
 
 __all__ = [
@@ -190,12 +192,7 @@ def oneway_from_sums(
     computed inside a database. The same exact rationals, rounded once, as :func:`oneway` on
     the same values, whatever scale and offset the sums use."""
     k = len(labels)
-    if k < 2:
-        which = f' (only "{labels[0]}")' if k == 1 else ""
-        raise InputError(
-            f"at least two groups are needed to compare means, got {k}{which}; "
-            "check the group column and the filter"
-        )
+    require_two_labels(labels)
     if len(mom.n) != k or (dropped and len(dropped) != k):
         raise InputError(f"{len(mom.n)} groups of sums for {k} labels; give one label per group")
     return replace(oneway_of(moments_only(labels, mom, dropped)), notes=tuple(notes))
