@@ -12,12 +12,11 @@ digits no exact sum can hold it: the values are then fetched and the in-memory a
 
 from __future__ import annotations
 
-from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Any, TypeVar
+from typing import Any
 
 from ..errors import InputError
-from ..stats import Analysis, Unavailable, analyse, analyse_of, moments_only
+from ..stats import Analysis, analyse, analyse_of, attempt, moments_only
 from .moments import GroupSums, NotExact, sums_from_relation
 from .oneway import check_sums_groups, fetched_groups, plain_sums, sums_notes
 from .passes import MAX_DISTINCT, group_centres, kruskal_sql, levene_sql, normality_sql
@@ -27,8 +26,6 @@ __all__ = ["RowsOrigin", "SqlAnalysis", "analyse_sql", "DEFAULT_SEED"]
 
 #: The seed of the residuals' random sample unless another is given.
 DEFAULT_SEED = 20261203
-
-T = TypeVar("T")
 
 
 @dataclass(frozen=True)
@@ -62,14 +59,6 @@ class SqlAnalysis:
     analysis: Analysis
     sums: GroupSums | None
     origin: RowsOrigin
-
-
-def _tried(what: str, call: Callable[[], T]) -> T | Unavailable:
-    """``call()``, or :class:`Unavailable` with the one-line reason when it cannot run here."""
-    try:
-        return call()
-    except InputError as err:
-        return Unavailable(what, err.reason)
 
 
 def _origin(rel: Relation, where: str | None, sums: GroupSums, fetched: bool) -> RowsOrigin:
@@ -115,9 +104,9 @@ def analyse_sql(
     centres = group_centres(rel, sums)
     an = analyse_of(
         gm, **opts, extremes=centres.extremes(),
-        levene=_tried("Levene's test", lambda: levene_sql(rel, sums, centres, "median")),
-        kruskal=_tried("Kruskal-Wallis", lambda: kruskal_sql(rel, sums, max_distinct)),
-        normality=_tried("the normality test", lambda: normality_sql(rel, sums, seed)),
+        levene=attempt("Levene's test", lambda: levene_sql(rel, sums, centres, "median"), numerical=True),
+        kruskal=attempt("Kruskal-Wallis", lambda: kruskal_sql(rel, sums, max_distinct), numerical=True),
+        normality=attempt("the normality test", lambda: normality_sql(rel, sums, seed), numerical=True),
         scale="from the database's sums",
     )
     return SqlAnalysis(an, sums, _origin(rel, where, sums, False))

@@ -16,7 +16,7 @@ from sheetfuncs.errors import InputError
 from sheetfuncs.input import Groups, as_groups
 from sheetfuncs.stats import Unavailable, analyse
 from tests.support import nist
-from tests.support.engines import double_table, parquet_file, sorted_groups
+from tests.support.engines import csv_file, double_table, parquet_file, sorted_groups
 
 #: The results derived from the sums (bit for bit on the exact path), and those of the second passes.
 FROM_SUMS = ("oneway", "welch", "effects", "pairwise", "letters", "unequal_pairs", "describe", "dunnett")
@@ -61,6 +61,14 @@ def test_nist_every_analysis_equals_in_memory(name, tmp_path):
         assert (nm.method, nm.n, nm.of_total) == ("Shapiro-Wilk", 5000, n)
         assert f"a random sample of 5000 of the {n} residuals (seed " in " ".join(got.analysis.checks.reasons)
     assert got.origin.rows_read == n and got.origin.source == "d.parquet"
+
+
+def test_csv_file_equals_in_memory(tmp_path):
+    # NIST StRD SiRstv read from CSV text; every figure the in-memory sheetfuncs call, bit for bit
+    data = nist.load("SiRstv")
+    got = analyse_sql(csv_file(tmp_path / "s.csv", data.text_values), group="g", value="x")
+    assert nist.lre(got.analysis.oneway.f, data.certified.f) >= 14
+    _check_equal(got, data.groups)
 
 
 def _random(seed: int) -> dict[str, list[float]]:

@@ -16,7 +16,7 @@ from sheetfuncs.input import as_groups
 from sheetfuncs.stats import (
     ExactMoments, GroupMoments, Unavailable, analyse, analyse_of, bartlett, bartlett_of, brown_forsythe,
     brown_forsythe_of, compute_moments, describe, describe_of, group_moments, kruskal, kruskal_from_counts,
-    levene_result, moments_only, welch, welch_of,
+    levene_result, moments_only, variance_components, variance_components_of, welch, welch_of,
 )
 
 LOTS = {"Lot A": [10.1, 10.3, 9.9, 10.0], "Lot B": [10.6, 10.4, 10.9, 10.5, 10.7], "Lot C": [9.8, 9.7, 10.2]}  # invented
@@ -33,6 +33,7 @@ def test_in_memory_functions_equal_their_moments_form():
     assert repr(welch_of(gm)) == repr(welch(LOTS))
     assert repr(bartlett_of(gm)) == repr(bartlett(LOTS))
     assert repr(brown_forsythe_of(gm)) == repr(brown_forsythe(LOTS))
+    assert repr(variance_components_of(gm)) == repr(variance_components(LOTS))
     assert gm.labels == ("Lot A", "Lot B", "Lot C") and gm.counts == (4, 5, 3) and gm.n_total == 12 and gm.exact
 
 
