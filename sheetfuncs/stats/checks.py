@@ -339,6 +339,11 @@ def _spread_reasons(sec: _Secondary, ratio: float, a: float) -> tuple[list[str],
     return reasons, lev_flag or ratio_flag
 
 
+def _tested(norm: NormalityResult) -> str:
+    """The residuals tested, as the reasons name them."""
+    return norm.residuals_text + "," if norm.of_total else f"the {norm.n} residuals"
+
+
 def _normality_reasons(sec: _Secondary, a: float) -> tuple[list[str], bool]:
     """The sentences on the residuals' normality (and on Bartlett's test, shown for reference
     only), and whether the residuals look non-normal."""
@@ -352,7 +357,7 @@ def _normality_reasons(sec: _Secondary, a: float) -> tuple[list[str], bool]:
         )
     else:
         reasons.append(
-            f"The {norm.method} test on {'the ' if not norm.of_total else ''}{norm.residuals_text} gives {_p_text(norm.p)}: "
+            f"The {norm.method} test on {_tested(norm)} gives {_p_text(norm.p)}: "
             + ("the residuals look non-normal." if nonnormal else "no sign of non-normal residuals.")
         )
     if bart is not None:

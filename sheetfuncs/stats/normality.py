@@ -62,10 +62,10 @@ class NormalityResult:
     def residuals_text(self) -> str:
         """What was tested, in words: ``"40 residuals"``, or for a random sample (``of_total``
         residuals in all, ``seed`` the sample's seed) ``"a random sample of 5000 of the
-        1000000 residuals (seed 7)"``."""
+        1000000 residuals, seed 7"``."""
         if not self.of_total:
             return f"{self.n} residuals"
-        return f"a random sample of {self.n} of the {self.of_total} residuals (seed {self.seed})"
+        return f"a random sample of {self.n} of the {self.of_total} residuals, seed {self.seed}"
 
     #: The table's header row.
     HEADER: ClassVar[tuple[str, ...]] = ("Test", "Statistic", "n", "p")

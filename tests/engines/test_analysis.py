@@ -59,7 +59,7 @@ def test_nist_every_analysis_equals_in_memory(name, tmp_path):
     else:  # a seeded sample of 5000 residuals, and the result says so
         nm = got.analysis.checks.normality
         assert (nm.method, nm.n, nm.of_total) == ("Shapiro-Wilk", 5000, n)
-        assert f"a random sample of 5000 of the {n} residuals (seed " in " ".join(got.analysis.checks.reasons)
+        assert f"test on a random sample of 5000 of the {n} residuals, seed 20261203, gives p" in " ".join(got.analysis.checks.reasons)
     assert got.origin.rows_read == n and got.origin.source == "d.parquet"
 
 
@@ -158,7 +158,7 @@ def test_sample_is_reproducible_and_seeded():
     assert same(na, b.analysis.checks.normality) and (na.seed, na.n, na.of_total) == (7, 5000, 8000)
     assert na.statistic != nc.statistic
     row = [r for r in a.analysis.checks.table() if r[0] == "Shapiro-Wilk (residuals)"][0]
-    assert row[-1].endswith("(a random sample of 5000 of the 8000 residuals (seed 7))")
+    assert row[-1].endswith("(a random sample of 5000 of the 8000 residuals, seed 7)")
 
 
 def test_bad_options_give_one_line():
