@@ -117,20 +117,27 @@ def _order(sums: GroupSums, got: list[tuple]) -> list[tuple]:
 
 
 def group_centres(rel: Relation, sums: GroupSums) -> Centres:
-    """The smallest, middle and largest values of every group (one query)."""
+    """The smallest, middle and largest values of every group (one query; a second one for the
+    middle values in the data's unit only when some value does not scale exactly)."""
     q = (
-        "SELECT g, min(x), max(x), quantile_disc(x, 0.5), -quantile_disc(-x, 0.5), "
-        "quantile_disc(m, 0.5), -quantile_disc(-m, 0.5), count(*) FILTER (WHERE m IS NULL) "
-        f"FROM ({_integers(rel, sums.scale)}) GROUP BY g"
+        "SELECT g, min(x), max(x), quantile_disc(m, 0.5), -quantile_disc(-m, 0.5), "
+        f"count(*) FILTER (WHERE m IS NULL) FROM ({_integers(rel, sums.scale)}) GROUP BY g"
     )
     rows = _order(sums, run(rel.con, q))
+    inexact = sum(int(r[5]) for r in rows)
+    p = 10**sums.scale
+    if inexact:
+        q = f"SELECT g, quantile_disc(x, 0.5), -quantile_disc(-x, 0.5) FROM ({kept_rows(rel)}) GROUP BY g"
+        middle = [(float(r[1]), float(r[2])) for r in _order(sums, run(rel.con, q))]
+    else:  # an exact m is the value times 10**scale, and m / 10**scale rounds back to it
+        middle = [(int(r[3]) / p, int(r[4]) / p) for r in rows]
     return Centres(
         low=tuple(float(r[1]) for r in rows),
-        median=tuple(middle_value(float(r[3]), float(r[4]), True) for r in rows),
+        median=tuple(middle_value(lo, hi, True) for lo, hi in middle),
         high=tuple(float(r[2]) for r in rows),
-        lo_m=tuple(None if r[7] else int(r[5]) for r in rows),
-        hi_m=tuple(None if r[7] else int(r[6]) for r in rows),
-        inexact=sum(int(r[7]) for r in rows),
+        lo_m=tuple(None if r[5] else int(r[3]) for r in rows),
+        hi_m=tuple(None if r[5] else int(r[4]) for r in rows),
+        inexact=inexact,
     )
 
 

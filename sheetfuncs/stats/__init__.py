@@ -1,7 +1,9 @@
 """The pure core: functions on cleaned groups that return frozen result objects.
 
-One module per topic: ``moments`` (exact and floating-point sums of squares) and
-``group_variances`` (the per-group variances some tests need), ``oneway``, ``linear`` (general
+One module per topic: ``moments`` (exact and floating-point sums of squares),
+``group_moments`` (the groups' labels, counts and moments without values, from which most
+analyses have an ``..._of`` form) and ``group_variances`` (the per-group variances some tests
+need), ``oneway``, ``linear`` (general
 linear test, contrasts), ``describe``, ``alternatives`` (Welch, Brown–Forsythe,
 Kruskal–Wallis), ``residuals``, ``variances`` (Levene, Bartlett), ``normality`` (of the
 residuals), ``checks`` (all checks and their reading rule), ``comparisons`` and ``lettering``,
