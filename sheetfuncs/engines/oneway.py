@@ -13,10 +13,10 @@ from ..stats import OneWayResult, compute_moments, oneway_from_moments, oneway_f
 from .moments import GroupSums, NotExact, sums_from_relation
 from .source import Relation, opened, run
 
-__all__ = ["oneway_sql"]
+__all__ = ["oneway_sql", "sums_notes", "plain_sums", "fetched_groups", "check_sums_groups"]
 
 
-def _notes(sums: GroupSums) -> list[str]:
+def sums_notes(sums: GroupSums) -> list[str]:
     notes = []
     if sums.null_labels:
         k = sums.null_labels
@@ -28,7 +28,7 @@ def _notes(sums: GroupSums) -> list[str]:
     return notes
 
 
-def _check_groups(sums: GroupSums) -> None:
+def check_sums_groups(sums: GroupSums) -> None:
     for lab, n, mi in zip(sums.labels, sums.n, sums.missing):
         if n == 0:
             raise InputError(
@@ -37,9 +37,8 @@ def _check_groups(sums: GroupSums) -> None:
             )
 
 
-def _float_path(rel: Relation, sums: GroupSums, exact: bool | None) -> OneWayResult:
-    """Every finite value fetched per group, then the in-memory moments (floats, or the
-    in-memory message when ``exact=True``)."""
+def fetched_groups(rel: Relation, sums: GroupSums) -> Groups:
+    """Every finite value fetched per group, as in-memory groups in the order of ``sums``."""
     got = run(
         rel.con,
         f"SELECT {rel.group}, {rel.dialect.collect(f'CAST({rel.value} AS DOUBLE)')} FROM {rel.src} "
@@ -47,9 +46,15 @@ def _float_path(rel: Relation, sums: GroupSums, exact: bool | None) -> OneWayRes
         f"AND {rel.dialect.isfinite(f'CAST({rel.value} AS DOUBLE)')} GROUP BY {rel.group}",
     )
     arrays = {format_label(g): np.asarray(v, dtype=np.float64) for g, v in got}
-    g = Groups(sums.labels, tuple(arrays[lab] for lab in sums.labels), dropped=sums.missing)
+    return Groups(sums.labels, tuple(arrays[lab] for lab in sums.labels), dropped=sums.missing)
+
+
+def _float_path(rel: Relation, sums: GroupSums, exact: bool | None) -> OneWayResult:
+    """Every finite value fetched per group, then the in-memory moments (floats, or the
+    in-memory message when ``exact=True``)."""
+    g = fetched_groups(rel, sums)
     res = oneway_from_moments(g, compute_moments(g, exact))
-    return replace(res, notes=tuple(_notes(sums)))
+    return replace(res, notes=tuple(sums_notes(sums)))
 
 
 def oneway_sql(
@@ -78,16 +83,16 @@ def oneway_sql(
     with opened(source, group, value, where) as rel:
         sums = sums_from_relation(rel, missing=missing)
         if isinstance(sums, NotExact):
-            base = _plain(rel, missing)
-            _check_groups(base)
+            base = plain_sums(rel, missing)
+            check_sums_groups(base)
             return _float_path(rel, base, exact)
-        _check_groups(sums)
+        check_sums_groups(sums)
         if exact is False:
             return _float_path(rel, sums, exact)
-    return oneway_from_sums(sums.labels, sums.moments(), sums.missing, _notes(sums))
+    return oneway_from_sums(sums.labels, sums.moments(), sums.missing, sums_notes(sums))
 
 
-def _plain(rel: Relation, missing: str) -> GroupSums:
+def plain_sums(rel: Relation, missing: str) -> GroupSums:
     """Labels, counts and missing values only (for the floating-point path)."""
     miss = f"{rel.value} IS NULL" + (
         f" OR {rel.dialect.isnan(f'CAST({rel.value} AS DOUBLE)')}" if rel.kind == "double" else ""

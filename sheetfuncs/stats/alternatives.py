@@ -48,7 +48,8 @@ from ..errors import InputError
 from ..distributions import f_tail
 from ..input import as_groups
 from .moments import rounded
-from .group_variances import centred_group_stats, prepare_with_variances
+from .group_moments import GroupMoments, group_moments, require_two
+from .group_variances import centred_stats, prepare_with_variances, require_variance_counts
 from .oneway import require_two_groups
 
 __all__ = [
@@ -56,8 +57,11 @@ __all__ = [
     "BrownForsytheResult",
     "KruskalResult",
     "welch",
+    "welch_of",
     "brown_forsythe",
+    "brown_forsythe_of",
     "kruskal",
+    "kruskal_from_counts",
 ]
 
 
@@ -124,10 +128,18 @@ def welch(
     """
     g = as_groups(groups, missing=missing, relabel=relabel)
     g, mom = prepare_with_variances(g, "Welch's test", exact)
-    dev, var = centred_group_stats(g, mom)
-    k = g.k
-    ns = g.counts
-    for i, label in enumerate(g.labels):
+    return welch_of(group_moments(g, mom))
+
+
+def welch_of(gm: GroupMoments) -> WelchResult:
+    """:func:`welch` from the groups' labels, counts and moments (no values needed)."""
+    require_two(gm)
+    require_variance_counts(gm.labels, gm.counts, "Welch's test")
+    mom = gm.moments
+    dev, var = centred_stats(mom)
+    k = gm.k
+    ns = gm.counts
+    for i, label in enumerate(gm.labels):
         if mom.ss_group(i) == 0:
             raise _zero_variance_error(label, "Welch's test")
         if var[i] < 1e-300 * max(var):  # (the largest is near 1) its weight would overflow
@@ -179,9 +191,17 @@ def brown_forsythe(
     """
     g = as_groups(groups, missing=missing, relabel=relabel)
     g, mom = prepare_with_variances(g, "the Brown-Forsythe F* test", exact)
-    n_tot = g.n_total
-    ns = g.counts
-    every, each = [list(range(g.k))], [[i] for i in range(g.k)]
+    return brown_forsythe_of(group_moments(g, mom))
+
+
+def brown_forsythe_of(gm: GroupMoments) -> BrownForsytheResult:
+    """:func:`brown_forsythe` from the groups' labels, counts and moments (no values needed)."""
+    require_two(gm)
+    require_variance_counts(gm.labels, gm.counts, "the Brown-Forsythe F* test")
+    mom = gm.moments
+    n_tot = gm.n_total
+    ns = gm.counts
+    every, each = [list(range(gm.k))], [[i] for i in range(gm.k)]
     if mom.exact:
         ssb = mom.ss_within_parts(every) - mom.ss_within_parts(each)
         parts = [Fraction(n_tot - n, n_tot) * (mom.ss_group(i) / (n - 1)) for i, n in enumerate(ns)]
@@ -193,7 +213,7 @@ def brown_forsythe(
         f, df2 = rounded(f_x), rounded(df2_x)  # F* beyond the largest double is infinite
     else:
         # centred means and variances in a common unit (F* and df2 do not depend on it)
-        dev, var = centred_group_stats(g, mom)
+        dev, var = centred_stats(mom)
         parts_f = [(n_tot - n) / n_tot * v for n, v in zip(ns, var)]
         denom_f = math.fsum(parts_f)
         if denom_f == 0:
@@ -202,8 +222,8 @@ def brown_forsythe(
         ssb_f = math.fsum(n * (d - grand) ** 2 for n, d in zip(ns, dev))
         f = ssb_f / denom_f
         df2 = denom_f * denom_f / math.fsum(c * c / (n - 1) for c, n in zip(parts_f, ns))
-    p = f_tail(f, g.k - 1, df2) if f > 0 else 1.0
-    return BrownForsytheResult(statistic=f, df1=g.k - 1, df2=df2, p=p, exact=mom.exact)
+    p = f_tail(f, gm.k - 1, df2) if f > 0 else 1.0
+    return BrownForsytheResult(statistic=f, df1=gm.k - 1, df2=df2, p=p, exact=mom.exact)
 
 
 def _all_zero_error() -> InputError:
@@ -282,31 +302,68 @@ def kruskal(
     g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     allv = np.concatenate(g.arrays)
-    n_tot = int(allv.size)
     twice, tie_sum = _twice_ranks(allv)
+    sums: list[int] = []
+    start = 0
+    for a in g.arrays:
+        sums.append(int(twice[start : start + a.size].sum(dtype=np.int64)))
+        start += a.size
+    return _kruskal_finish(g.counts, sums, tie_sum)
+
+
+def kruskal_from_counts(
+    k: int, values: np.ndarray, group: np.ndarray, count: np.ndarray
+) -> KruskalResult:
+    """:func:`kruskal` from how many times each value occurs in each group (e.g. counted by a
+    database): one row per (group, distinct value) with the value, the group's index (0 to
+    ``k - 1``) and the count. The mid-ranks and the tie correction are formed from this table
+    as :func:`kruskal` forms them from the values, so the result is the same to the last bit.
+    """
+    if k < 2:
+        raise InputError(f"at least two groups are needed to compare means, got {k}")
+    v = np.asarray(values, dtype=np.float64)
+    gi = np.asarray(group, dtype=np.int64)
+    c = np.asarray(count, dtype=np.int64)
+    order = np.lexsort((gi, v))
+    v, gi, c = v[order], gi[order], c[order]
+    new_block = np.empty(v.size, dtype=bool)
+    new_block[:1] = True
+    np.not_equal(v[1:], v[:-1], out=new_block[1:])
+    block = np.cumsum(new_block) - 1
+    starts = np.flatnonzero(new_block)
+    sizes = np.add.reduceat(c, starts) if v.size else np.zeros(0, dtype=np.int64)
+    first = np.cumsum(sizes) - sizes  # 0-based position of each block's first value
+    twice_block = 2 * first + sizes + 1  # twice the block's average rank
+    weighted = c * twice_block[block]
+    sums = [int(weighted[gi == i].sum(dtype=np.int64)) for i in range(k)]
+    counts = [int(c[gi == i].sum(dtype=np.int64)) for i in range(k)]
+    tie_sum = sum(t * t * t - t for t in (int(x) for x in sizes[sizes > 1].tolist()))
+    if min(counts) < 1:
+        raise InputError(f"group {counts.index(min(counts)) + 1} has no values in the table of counts")
+    return _kruskal_finish(tuple(counts), sums, tie_sum)
+
+
+def _kruskal_finish(counts: tuple[int, ...], sums: list[int], tie_sum: int) -> KruskalResult:
+    """H, its p-value and effect size from each group's size and twice its rank sum."""
+    n_tot = sum(counts)
     n3 = n_tot**3 - n_tot
     if tie_sum == n3:
         raise InputError(
             "every value is the same, so the Kruskal-Wallis test has no ranks to "
             "compare; check that the range holds the measurements"
         )
-    sums: list[int] = []
-    start = 0
-    for a in g.arrays:
-        sums.append(int(twice[start : start + a.size].sum(dtype=np.int64)))
-        start += a.size
     # sum R_i^2 / n_i with R_i = sums_i / 2
-    sr2 = sum((Fraction(s * s, 4 * n) for s, n in zip(sums, g.counts)), Fraction(0))
+    sr2 = sum((Fraction(s * s, 4 * n) for s, n in zip(sums, counts)), Fraction(0))
     h0 = Fraction(12, n_tot * (n_tot + 1)) * sr2 - 3 * (n_tot + 1)
     corr = 1 - Fraction(tie_sum, n3)
     h_x = h0 / corr
     if h_x < 0:  # cannot happen in exact arithmetic; a guard against misuse
         h_x = Fraction(0)
     h = float(h_x)
-    df = g.k - 1
+    df = len(counts) - 1
     p = float(stats.chi2.sf(h, df)) if h > 0 else 1.0
     eps = float(h_x * (n_tot + 1) / (n_tot * n_tot - 1))
-    mean_ranks = tuple(s / (2.0 * n) for s, n in zip(sums, g.counts))
+    mean_ranks = tuple(s / (2.0 * n) for s, n in zip(sums, counts))
     return KruskalResult(
         statistic=h, df=df, p=p, rank_epsilon_squared=eps, tie_correction=float(corr),
         mean_ranks=mean_ranks,

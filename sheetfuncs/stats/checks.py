@@ -15,16 +15,17 @@ from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from typing import Any, ClassVar
 
-from .alternatives import KruskalResult, WelchResult, kruskal, welch
+from .alternatives import KruskalResult, WelchResult, kruskal, welch, welch_of
 from ..input import Groups, as_groups, check_alpha
+from .group_moments import GroupMoments, require_two
 from .moments import ExactMoments, FloatMoments, compute_moments
 from .normality import NormalityResult, shapiro_residuals
-from .oneway import OneWayResult, oneway_from_moments, require_two_groups
+from .oneway import OneWayResult, oneway_from_moments, oneway_of, require_two_groups
 from .outcome import Unavailable, attempt
-from .variances import BartlettResult, LeveneResult, bartlett, levene
+from .variances import BartlettResult, LeveneResult, bartlett, bartlett_of, levene
 from .wording import df_text, sentence
 
-__all__ = ["ChecksResult", "checks", "SD_RATIO_LIMIT", "SMALL_GROUP_N", "CAUTION"]
+__all__ = ["ChecksResult", "checks", "checks_of", "SD_RATIO_LIMIT", "SMALL_GROUP_N", "CAUTION"]
 
 #: Rule of thumb (common practice): variances look unequal when the largest SD is more than this
 #: many times the smallest.
@@ -136,8 +137,8 @@ class ChecksResult:
             rows.append(self._row("Normal residuals", None, None, None))
         else:
             rows.append([f"{nm.method} (residuals)", nm.statistic, None, nm.p,
-                         (f"residuals look non-normal ({nm.n} residuals)" if nm.p < a
-                          else f"no sign of non-normal residuals ({nm.n} residuals)")])
+                         (f"residuals look non-normal ({nm.residuals_text})" if nm.p < a
+                          else f"no sign of non-normal residuals ({nm.residuals_text})")])
         rows.append(["Smallest group size", self.smallest_n, None, None,
                      f"fewer than {SMALL_GROUP_N}" if self.smallest_n < SMALL_GROUP_N
                      else f"{SMALL_GROUP_N} or more"])
@@ -156,8 +157,8 @@ def _p_text(p: float) -> str:
     return "p < 1e-300" if p < 1e-300 else f"p = {p:.3g}"
 
 
-def _sd_ratio(g: Groups, mom: ExactMoments | FloatMoments) -> float:
-    sds = [math.sqrt(float(mom.ss_group(i) / (n - 1))) for i, n in enumerate(g.counts) if n >= 2]
+def _sd_ratio(mom: ExactMoments | FloatMoments) -> float:
+    sds = [math.sqrt(float(mom.ss_group(i) / (n - 1))) for i, n in enumerate(mom.n) if n >= 2]
     if len(sds) < 2:
         return math.nan
     hi, lo = max(sds), min(sds)
@@ -204,9 +205,51 @@ def checks(
     require_two_groups(g)
     mom = moments if moments is not None else compute_moments(g, exact)
     ow = oneway if oneway is not None else oneway_from_moments(g, mom)
-    sec = _secondary_tests(g, exact)
-    ratio = _sd_ratio(g, mom)
-    smallest = min(g.counts)
+    return _assemble(_secondary_tests(g, exact), mom, a, ow)
+
+
+def checks_of(
+    gm: GroupMoments,
+    alpha: float = 0.05,
+    *,
+    levene: LeveneResult | Unavailable,
+    normality: NormalityResult | Unavailable,
+    kruskal: KruskalResult | Unavailable,
+    oneway: OneWayResult | None = None,
+) -> ChecksResult:
+    """The checks and their reading (the rule of :func:`checks`) from the groups' labels,
+    counts and moments, with the tests that need the values computed elsewhere (e.g. by a
+    database): the median-centred Levene test, the residuals' normality test and
+    Kruskal–Wallis, each a result or :class:`Unavailable` with the reason it could not run.
+    Welch's and Bartlett's tests are computed here from the moments."""
+    a = check_alpha(alpha)
+    require_two(gm)
+    ow = oneway if oneway is not None else oneway_of(gm)
+    missing: list[tuple[str, str]] = []
+
+    def given(name: str, got: Any) -> Any:
+        if isinstance(got, Unavailable):
+            missing.append((name, got.reason))
+            return None
+        return got
+
+    def secondary(name: str, call: Callable[[], Any]) -> Any:
+        return given(name, attempt(name, call, numerical=True))
+
+    lev = given("Levene (median)", levene)
+    bart = secondary("Bartlett", lambda: bartlett_of(gm))
+    norm = given("Normal residuals", normality)
+    wel = secondary("Welch", lambda: welch_of(gm))
+    kw = given("Kruskal-Wallis", kruskal)
+    return _assemble(_Secondary(lev, bart, norm, wel, kw, tuple(missing)), gm.moments, a, ow)
+
+
+def _assemble(
+    sec: _Secondary, mom: ExactMoments | FloatMoments, a: float, ow: OneWayResult
+) -> ChecksResult:
+    """The checks' result and reading from the secondary tests and the groups' moments."""
+    ratio = _sd_ratio(mom)
+    smallest = min(mom.n)
     spread, unequal = _spread_reasons(sec, ratio, a)
     normal, nonnormal = _normality_reasons(sec, a)
     read, why = _reading(sec, unequal, nonnormal, smallest, ow)
@@ -296,6 +339,11 @@ def _spread_reasons(sec: _Secondary, ratio: float, a: float) -> tuple[list[str],
     return reasons, lev_flag or ratio_flag
 
 
+def _tested(norm: NormalityResult) -> str:
+    """The residuals tested, as the reasons name them."""
+    return norm.residuals_text + "," if norm.of_total else f"the {norm.n} residuals"
+
+
 def _normality_reasons(sec: _Secondary, a: float) -> tuple[list[str], bool]:
     """The sentences on the residuals' normality (and on Bartlett's test, shown for reference
     only), and whether the residuals look non-normal."""
@@ -309,7 +357,7 @@ def _normality_reasons(sec: _Secondary, a: float) -> tuple[list[str], bool]:
         )
     else:
         reasons.append(
-            f"The {norm.method} test on the {norm.n} residuals gives {_p_text(norm.p)}: "
+            f"The {norm.method} test on {_tested(norm)} gives {_p_text(norm.p)}: "
             + ("the residuals look non-normal." if nonnormal else "no sign of non-normal residuals.")
         )
     if bart is not None:

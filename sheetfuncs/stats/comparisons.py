@@ -55,10 +55,14 @@ from ..distributions import (
 )
 from ..input import Groups, as_groups, check_alpha, check_range, format_label, shown
 from .moments import TOO_LARGE, TOO_SMALL, ExactMoments, FloatMoments, compute_moments, rounded
-from .oneway import oneway_from_moments, require_two_groups
+from .group_moments import GroupMoments, group_moments, require_two
+from .oneway import oneway_of, require_two_groups
 from .interval import Interval
 
-__all__ = ["METHODS", "METHOD_NAMES", "PairRow", "PairwiseResult", "pairwise", "dunnett", "parse_method"]
+__all__ = [
+    "METHODS", "METHOD_NAMES", "PairRow", "PairwiseResult", "pairwise", "pairwise_of", "dunnett",
+    "dunnett_of", "parse_method",
+]
 
 #: The pairwise methods, in the order the documentation lists them.
 METHODS = ("tukey", "games-howell", "bonferroni", "holm", "sidak", "scheffe")
@@ -225,9 +229,9 @@ def _difference(mom: ExactMoments | FloatMoments, a: int, b: int) -> float:
     return d[a] - d[b]
 
 
-def _pooled(g: Groups, mom: ExactMoments | FloatMoments) -> tuple[float, int, Fraction | None]:
+def _pooled(gm: GroupMoments) -> tuple[float, int, Fraction | None]:
     """``(MSE, df, exact MSE or None)`` of the one-way model (its checks included)."""
-    ow = oneway_from_moments(g, mom)
+    ow = oneway_of(gm)
     if ow.exact and ow.ss_within_exact is not None:
         msw_x = ow.ss_within_exact / ow.df_within
         return float(msw_x), ow.df_within, msw_x
@@ -280,11 +284,12 @@ def _holm(raw: list[float]) -> list[float]:
     return out
 
 
-def _check_variances(g: Groups, mom: ExactMoments | FloatMoments, method: str) -> list[float]:
+def _check_variances(gm: GroupMoments, method: str) -> list[float]:
     """Each group's variance (n - 1), with the messages for groups that have none."""
+    mom = gm.moments
     out = []
-    counts = g.counts
-    for i, lab in enumerate(g.labels):
+    counts = gm.counts
+    for i, lab in enumerate(gm.labels):
         n = counts[i]
         if n < 2:
             raise InputError(
@@ -325,8 +330,8 @@ def _prepare(g: Groups, alpha: Any) -> tuple[Groups, float, ExactMoments | Float
     return g, a, compute_moments(g, None)
 
 
-def _means(g: Groups, mom: ExactMoments | FloatMoments) -> tuple[float, ...]:
-    return tuple(float(mom.mean(i)) for i in range(g.k))
+def _means(gm: GroupMoments) -> tuple[float, ...]:
+    return tuple(float(gm.moments.mean(i)) for i in range(gm.k))
 
 
 # --------------------------------------------------------------------------------------------
@@ -348,12 +353,21 @@ def pairwise(
     """
     meth = parse_method(method)
     g, a, mom = _prepare(as_groups(groups, missing=missing, relabel=relabel), alpha)
-    k = g.k
+    return pairwise_of(group_moments(g, mom), meth, a)
+
+
+def pairwise_of(gm: GroupMoments, method: str = "tukey", alpha: float = 0.05) -> PairwiseResult:
+    """:func:`pairwise` from the groups' labels, counts and moments (no values needed)."""
+    meth = parse_method(method)
+    require_two(gm)
+    a = check_comparison_alpha(alpha)
+    mom = gm.moments
+    k = gm.k
     pairs = [(i, j) for i in range(k) for j in range(i + 1, k)]
     diffs = [_difference(mom, i, j) for i, j in pairs]
     if meth == "games-howell":
-        return _games_howell(g, mom, a, pairs, diffs)
-    return _pooled_pairs(g, mom, meth, a, pairs, diffs)
+        return _games_howell(gm, a, pairs, diffs)
+    return _pooled_pairs(gm, meth, a, pairs, diffs)
 
 
 def _welch_df(vi: float, ni: int, vj: float, nj: int) -> float:
@@ -369,12 +383,12 @@ def _welch_df(vi: float, ni: int, vj: float, nj: int) -> float:
     return 1.0 / (ra * ra / (ni - 1) + rb * rb / (nj - 1))
 
 
-def _games_howell(g: Groups, mom: ExactMoments | FloatMoments, a: float,
+def _games_howell(gm: GroupMoments, a: float,
                   pairs: list[tuple[int, int]], diffs: list[float]) -> PairwiseResult:
     """Every pair by Games & Howell's method: each pair's own variances and Welch df."""
-    k = g.k
-    counts = g.counts
-    var = _check_variances(g, mom, "Games–Howell")
+    k = gm.k
+    counts = gm.counts
+    var = _check_variances(gm, "Games–Howell")
     ses, row_df, stat = [], [], []
     for (i, j), d in zip(pairs, diffs):
         ses.append(math.hypot(math.sqrt(var[i] / counts[i]), math.sqrt(var[j] / counts[j])))
@@ -386,20 +400,20 @@ def _games_howell(g: Groups, mom: ExactMoments | FloatMoments, a: float,
     crit = dict(zip(distinct, (range_criticals(a, k, distinct) / _SQRT2).tolist()))
     mults = [crit[v] for v in row_df]
     rows = [
-        _row(g, i, j, d, se, mult, q, p, a)
+        _row(gm, i, j, d, se, mult, q, p, a)
         for (i, j), d, se, mult, q, p in zip(pairs, diffs, ses, mults, stat, ps)
     ]
-    return _result(g, mom, "games-howell", a, rows, None, None, row_df, mults, [])
+    return _result(gm, "games-howell", a, rows, None, None, row_df, mults, [])
 
 
-def _pooled_pairs(g: Groups, mom: ExactMoments | FloatMoments, meth: str, a: float,
+def _pooled_pairs(gm: GroupMoments, meth: str, a: float,
                   pairs: list[tuple[int, int]], diffs: list[float]) -> PairwiseResult:
     """Every pair by a method that pools the groups' variances (all but Games–Howell)."""
-    k = g.k
-    counts = g.counts
+    k = gm.k
+    counts = gm.counts
     m = len(pairs)
     notes: list[str] = []
-    msw, df, msw_x = _pooled(g, mom)
+    msw, df, msw_x = _pooled(gm)
     if msw == 0.0:
         notes.append(_NO_VARIATION)
     se_of = _se_table(msw, msw_x)
@@ -423,10 +437,10 @@ def _pooled_pairs(g: Groups, mom: ExactMoments | FloatMoments, meth: str, a: flo
         stat = ts
         ps, mult = _adjusted_t(meth, ts, df, a, m)
     rows = [
-        _row(g, i, j, d, se, mult, s, p, a)
+        _row(gm, i, j, d, se, mult, s, p, a)
         for (i, j), d, se, s, p in zip(pairs, diffs, ses, stat, ps)
     ]
-    return _result(g, mom, meth, a, rows, msw, float(df), [float(df)] * m, [mult] * m, notes)
+    return _result(gm, meth, a, rows, msw, float(df), [float(df)] * m, [mult] * m, notes)
 
 
 def _adjusted_t(meth: str, ts: list[float], df: int, a: float, m: int) -> tuple[list[float], float]:
@@ -446,27 +460,27 @@ def _adjusted_t(meth: str, ts: list[float], df: int, a: float, m: int) -> tuple[
     return ps, float(stats.t.isf(per / 2.0, df))
 
 
-def _row(g: Groups, i: int, j: int, d: float, se: float, mult: float, stat: float, p: float,
+def _row(gm: GroupMoments, i: int, j: int, d: float, se: float, mult: float, stat: float, p: float,
          alpha: float) -> PairRow:
     half = mult * se
     p = min(1.0, max(0.0, float(p)))
     return PairRow(
-        group_a=g.labels[i], group_b=g.labels[j], difference=d, se=se,
+        group_a=gm.labels[i], group_b=gm.labels[j], difference=d, se=se,
         ci=Interval(d - half, d + half), statistic=float(stat), p=p, differs=bool(p < alpha),
     )
 
 
-def _result(g: Groups, mom: ExactMoments | FloatMoments, meth: str, a: float, rows: list[PairRow],
+def _result(gm: GroupMoments, meth: str, a: float, rows: list[PairRow],
             ms_within: float | None, df_within: float | None, row_df: list[float],
             mults: list[float], notes: list[str], control: str | None = None) -> PairwiseResult:
     """The result of a family of comparisons, with the groups' labels, sizes and means."""
     return PairwiseResult(
         method=meth, alpha=a, rows=tuple(rows), interval=_interval_label(meth, a),
-        statistic_name=_STATISTIC[meth], method_name=METHOD_NAMES[meth], labels=g.labels,
-        counts=g.counts, means=_means(g, mom), ms_within=ms_within, df_within=df_within,
+        statistic_name=_STATISTIC[meth], method_name=METHOD_NAMES[meth], labels=gm.labels,
+        counts=gm.counts, means=_means(gm), ms_within=ms_within, df_within=df_within,
         row_df=tuple(row_df),
-        multipliers=tuple(mults), exact=mom.exact, control=control, notes=tuple(notes),
-        dropped=g.dropped,
+        multipliers=tuple(mults), exact=gm.exact, control=control, notes=tuple(notes),
+        dropped=gm.dropped,
     )
 
 
@@ -492,27 +506,40 @@ def dunnett(
     """
     g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
+    _control_index(g.labels, control)  # the control's messages before alpha's, as always
+    a = check_comparison_alpha(alpha)
+    return dunnett_of(group_moments(g, compute_moments(g, None)), control, a)
+
+
+def _control_index(labels: tuple[str, ...], control: Any) -> tuple[int, str]:
+    """The control's position and label, or the message that names the groups."""
     lab = format_label(control) if control is not None else ""
     if lab == "":
         raise InputError(
             "no control group given; give the label of the group the others are "
             "compared with"
         )
-    if lab not in g.labels:
-        shown = ", ".join(f'"{x}"' for x in g.labels[:12]) + (", ..." if g.k > 12 else "")
+    if lab not in labels:
+        shown = ", ".join(f'"{x}"' for x in labels[:12]) + (", ..." if len(labels) > 12 else "")
         raise InputError(
             f'the control "{lab}" is not one of the groups ({shown}); give the '
             "control's label exactly as it appears"
         )
+    return labels.index(lab), lab
+
+
+def dunnett_of(gm: GroupMoments, control: Any, alpha: float = 0.05) -> PairwiseResult:
+    """:func:`dunnett` from the groups' labels, counts and moments (no values needed)."""
+    require_two(gm)
+    c, lab = _control_index(gm.labels, control)
     a = check_comparison_alpha(alpha)
-    mom = compute_moments(g, None)
-    c = g.labels.index(lab)
-    msw, df, msw_x = _pooled(g, mom)
+    mom = gm.moments
+    msw, df, msw_x = _pooled(gm)
     notes: list[str] = []
     if msw == 0.0:
         notes.append(_NO_VARIATION)
-    treat = [i for i in range(g.k) if i != c]
-    counts = g.counts
+    treat = [i for i in range(gm.k) if i != c]
+    counts = gm.counts
     n0 = counts[c]
     lam = [math.sqrt(counts[i] / (counts[i] + n0)) for i in treat]
     crit = many_to_one_critical(a, lam, df)
@@ -521,7 +548,7 @@ def dunnett(
     ses = [se_of(counts[i], n0) for i in treat]
     ts = [_ratio(d, se) for d, se in zip(ds, ses)]
     ps = many_to_one_tails([abs(t) for t in ts], lam, df).tolist()  # inf gives 0
-    rows = [_row(g, i, c, d, se, crit, t, p, a) for i, d, se, t, p in zip(treat, ds, ses, ts, ps)]
+    rows = [_row(gm, i, c, d, se, crit, t, p, a) for i, d, se, t, p in zip(treat, ds, ses, ts, ps)]
     m = len(treat)
-    return _result(g, mom, "dunnett", a, rows, msw, float(df), [float(df)] * m, [crit] * m,
+    return _result(gm, "dunnett", a, rows, msw, float(df), [float(df)] * m, [crit] * m,
                    notes, control=lab)

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import decimal
 import math
-from collections.abc import Iterator, Mapping
+from collections.abc import Iterator, Mapping, Sequence
 from fractions import Fraction
 from dataclasses import dataclass
 from typing import Any, ClassVar
@@ -18,11 +18,13 @@ from typing import Any, ClassVar
 import numpy as np
 from scipy import stats
 
+from ..errors import InputError
 from ..input import as_groups, check_conf
-from .moments import check_float_zero_spread, check_ss_range, compute_moments
+from .group_moments import GroupMoments, group_moments
+from .moments import TOO_SMALL, check_ss_range, compute_moments
 from .interval import Interval
 
-__all__ = ["GroupSummary", "DescribeResult", "describe"]
+__all__ = ["GroupSummary", "DescribeResult", "describe", "describe_of", "middle_value"]
 
 @dataclass(frozen=True)
 class GroupSummary:
@@ -75,13 +77,18 @@ class DescribeResult:
 
 
 def _median(a: np.ndarray, exact: bool) -> float:
-    """The median; for an even count the midpoint of the two middle values, taken exactly for
-    their decimal values on the exact path (so 61.1 and 61.2 give 61.15, not 61.150000000000006)."""
+    """The median; for an even count the midpoint of the two middle values (see
+    :func:`middle_value`)."""
     n = a.size
     if n % 2:
         return float(np.partition(a, n // 2)[n // 2])
     part = np.partition(a, (n // 2 - 1, n // 2))
-    lo, hi = float(part[n // 2 - 1]), float(part[n // 2])
+    return middle_value(float(part[n // 2 - 1]), float(part[n // 2]), exact)
+
+
+def middle_value(lo: float, hi: float, exact: bool) -> float:
+    """The midpoint of the two middle values of a group, taken exactly for their decimal values
+    on the exact path (so 61.1 and 61.2 give 61.15, not 61.150000000000006)."""
     if exact:
         return float((Fraction(decimal.Decimal(repr(lo))) + Fraction(decimal.Decimal(repr(hi)))) / 2)
     return lo + (hi - lo) / 2
@@ -98,15 +105,28 @@ def describe(
     g = as_groups(groups, missing=missing, relabel=relabel)
     c = check_conf(conf)
     mom = compute_moments(g, exact)
+    extremes = [(float(a.min()), _median(a, mom.exact), float(a.max())) for a in g.arrays]
+    return describe_of(group_moments(g, mom), c, extremes)
+
+
+def describe_of(
+    gm: GroupMoments, conf: float = 0.95,
+    extremes: Sequence[tuple[float, float, float]] | None = None,
+) -> DescribeResult:
+    """:func:`describe` from the groups' labels, counts and moments. The smallest value, the
+    median and the largest need the values: give them per group as ``extremes`` (computed
+    elsewhere, e.g. by a database), or they are ``nan`` (not available from sums alone)."""
+    c = check_conf(conf)
+    mom = gm.moments
     out = []
-    for i, (label, a) in enumerate(g):
-        n = int(a.size)
+    for i, label in enumerate(gm.labels):
+        n = gm.counts[i]
         mean = float(mom.mean(i))
         if n > 1:
             ss = mom.ss_group(i)
             check_ss_range(ss)
-            if ss == 0 and float(a.min()) != float(a.max()):
-                check_float_zero_spread(g, 0.0, within=True)  # underflow, not a constant group
+            if i in gm.underflow_groups:
+                raise InputError(TOO_SMALL)  # underflow, not a constant group
             var = ss / (n - 1)
             sd = math.sqrt(float(var))
             se = sd / math.sqrt(n)
@@ -114,7 +134,6 @@ def describe(
             lo, hi = mean - q * se, mean + q * se
         else:
             sd = se = lo = hi = math.nan
-        out.append(
-            GroupSummary(label, n, mean, sd, se, Interval(lo, hi), float(a.min()), _median(a, mom.exact), float(a.max()))
-        )
-    return DescribeResult(tuple(out), c, mom.exact, dropped=g.dropped)
+        low, mid, high = extremes[i] if extremes is not None else (math.nan,) * 3
+        out.append(GroupSummary(label, n, mean, sd, se, Interval(lo, hi), low, mid, high))
+    return DescribeResult(tuple(out), c, mom.exact, dropped=gm.dropped)

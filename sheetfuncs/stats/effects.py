@@ -41,10 +41,11 @@ from ..errors import InputError
 from ..distributions import check_df, ncf_cdf
 from ..input import as_groups, check_conf, shown
 from .moments import compute_moments
-from .oneway import oneway_from_moments, require_two_groups
+from .group_moments import GroupMoments, group_moments, require_two
+from .oneway import oneway_of, require_two_groups
 from .interval import Interval
 
-__all__ = ["EffectSizes", "effect_sizes", "noncentrality_interval"]
+__all__ = ["EffectSizes", "effect_sizes", "effect_sizes_of", "noncentrality_interval"]
 
 _BIG = 1.7976931348623157e308
 
@@ -208,7 +209,14 @@ def effect_sizes(
     g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     cf = check_conf(conf)
-    res = oneway_from_moments(g, compute_moments(g, exact))
+    return effect_sizes_of(group_moments(g, compute_moments(g, exact)), cf)
+
+
+def effect_sizes_of(gm: GroupMoments, conf: Any = 0.95) -> EffectSizes:
+    """:func:`effect_sizes` from the groups' labels, counts and moments (no values needed)."""
+    require_two(gm)
+    cf = check_conf(conf)
+    res = oneway_of(gm)
     dfb, dfw, n = res.df_between, res.df_within, res.n_total
     if res.exact:
         ssb, ssw, sst = res.ss_between_exact, res.ss_within_exact, res.ss_total_exact

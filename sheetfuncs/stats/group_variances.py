@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import math
 from fractions import Fraction
+from collections.abc import Sequence
 from typing import Any
 
 import numpy as np
@@ -22,7 +23,10 @@ from ..input import Groups, as_groups
 from .moments import ExactMoments, FloatMoments, compute_moments
 from .oneway import require_two_groups
 
-__all__ = ["prepare_with_variances", "require_variances", "unit_free_moments", "centred_group_stats"]
+__all__ = [
+    "prepare_with_variances", "require_variances", "require_variance_counts", "unit_free_moments",
+    "centred_group_stats", "centred_stats",
+]
 
 
 def prepare_with_variances(
@@ -38,7 +42,12 @@ def prepare_with_variances(
 
 def require_variances(g: Groups, method: str) -> None:
     """InputError unless every group has two or more values (``method`` needs each variance)."""
-    for label, n in zip(g.labels, g.counts):
+    require_variance_counts(g.labels, g.counts, method)
+
+
+def require_variance_counts(labels: Sequence[str], counts: Sequence[int], method: str) -> None:
+    """:func:`require_variances` from the labels and the counts alone."""
+    for label, n in zip(labels, counts):
         if n < 2:
             raise InputError(
                 f'group "{label}" has only one value, but {method} needs the '
@@ -79,6 +88,11 @@ def _pow2_exponent(x: Fraction | float) -> int:
 def centred_group_stats(
     g: Groups, mom: ExactMoments | FloatMoments
 ) -> tuple[tuple[float, ...], tuple[float, ...]]:
+    """:func:`centred_stats` of the groups' moments."""
+    return centred_stats(mom)
+
+
+def centred_stats(mom: ExactMoments | FloatMoments) -> tuple[tuple[float, ...], tuple[float, ...]]:
     """``(deviations, variances)`` per group, in a common unit ``2**h``.
 
     ``deviations[i] = (mean_i - mean_1) / 2**h`` and ``variances[i] = SS_i / (n_i - 1) / 4**h``
@@ -88,7 +102,7 @@ def centred_group_stats(
     the variances are exact rationals rounded once, so they keep their full precision however
     many leading digits the data share.
     """
-    k = g.k
+    k = len(mom.n)
     raw_var: list[Fraction | float | None] = []
     for i in range(k):
         n = mom.n[i]

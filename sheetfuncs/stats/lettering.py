@@ -25,9 +25,10 @@ from dataclasses import dataclass
 from typing import Any, ClassVar
 
 from ..errors import InputError
-from .comparisons import PairwiseResult, pairwise, parse_method
+from .comparisons import PairwiseResult, pairwise, pairwise_of, parse_method
+from .group_moments import GroupMoments
 
-__all__ = ["LettersResult", "letters", "letter_sets"]
+__all__ = ["LettersResult", "letters", "letters_of", "letter_sets"]
 
 _SYMBOLS = string.ascii_lowercase + string.ascii_uppercase
 
@@ -158,13 +159,26 @@ def letters(
 
     ``missing`` (``"stop"`` or ``"drop"``) and ``relabel`` are as in :func:`sheetfuncs.as_groups`.
     """
+    meth = _letters_method(method)
+    return _drawn(pairwise(groups, meth, alpha, missing=missing, relabel=relabel))
+
+
+def letters_of(gm: GroupMoments, method: str = "tukey", alpha: float = 0.05) -> LettersResult:
+    """:func:`letters` from the groups' labels, counts and moments (no values needed)."""
+    return _drawn(pairwise_of(gm, _letters_method(method), alpha))
+
+
+def _letters_method(method: Any) -> str:
     if isinstance(method, str) and method.strip().lower() == "dunnett":
         raise InputError(
             "letters need every pair compared, and Dunnett compares each group with "
             "the control only; choose a pairwise method such as \"tukey\""
         )
-    meth = parse_method(method)
-    res = pairwise(groups, meth, alpha, missing=missing, relabel=relabel)
+    return parse_method(method)
+
+
+def _drawn(res: PairwiseResult) -> LettersResult:
+    """The letters drawn from the comparisons ``res``."""
     index = {lab: i for i, lab in enumerate(res.labels)}
     sep = [(index[r.group_a], index[r.group_b]) for r in res.rows if r.differs]
     cols = letter_sets(len(res.labels), sep)

@@ -43,7 +43,9 @@ class NormalityResult:
     Fields: ``statistic`` (Shapiro–Wilk W, or the D'Agostino–Pearson K^2), ``p``, ``n`` (number
     of residuals tested), ``method`` (``"Shapiro-Wilk"`` for up to 5,000 residuals, else
     ``"D'Agostino-Pearson"``), ``left_out`` (labels of groups of one value, whose residual is
-    zero by construction and is not tested).
+    zero by construction and is not tested); ``of_total`` and ``seed`` are set when the test ran
+    on a seeded random sample of ``n`` of ``of_total`` residuals (``0`` and ``None`` when it ran
+    on them all).
 
     Sources: Shapiro & Wilk (1965); Royston (1992, 1995); D'Agostino & Pearson (1973).
     """
@@ -53,6 +55,17 @@ class NormalityResult:
     n: int
     method: str
     left_out: tuple[str, ...] = ()
+    of_total: int = 0
+    seed: int | None = None
+
+    @property
+    def residuals_text(self) -> str:
+        """What was tested, in words: ``"40 residuals"``, or for a random sample (``of_total``
+        residuals in all, ``seed`` the sample's seed) ``"a random sample of 5000 of the
+        1000000 residuals, seed 7"``."""
+        if not self.of_total:
+            return f"{self.n} residuals"
+        return f"a random sample of {self.n} of the {self.of_total} residuals, seed {self.seed}"
 
     #: The table's header row.
     HEADER: ClassVar[tuple[str, ...]] = ("Test", "Statistic", "n", "p")

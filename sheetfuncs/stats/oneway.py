@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from fractions import Fraction
 from typing import Any, ClassVar
 
@@ -23,13 +23,13 @@ import numpy as np
 from ..errors import InputError
 from ..input import Groups, as_groups, as_real, first_duplicate, format_label, one_line, shown
 from ..distributions import f_tail
-from .moments import (
-    ExactMoments, FloatMoments, check_float_zero_spread, check_ss_range, compute_moments,
-    decimal_parts, rounded,
+from .group_moments import (
+    GroupMoments, check_zero_spread, group_moments, moments_only, require_two, require_two_labels,
 )
+from .moments import ExactMoments, FloatMoments, check_ss_range, compute_moments, decimal_parts, rounded
 
 __all__ = [
-    "OneWayResult", "oneway", "oneway_from_moments", "oneway_from_sums", "oneway_from_summary",
+    "OneWayResult", "oneway", "oneway_from_moments", "oneway_of", "oneway_from_sums", "oneway_from_summary",
     "require_two_groups",
 ]
 
@@ -152,10 +152,12 @@ def _finish(
     )
 
 
-def oneway_from_moments(g: Groups, mom: ExactMoments | FloatMoments) -> OneWayResult:
-    """The one-way result from already computed moments (shared with other analyses)."""
-    require_two_groups(g)
-    k = g.k
+def oneway_of(gm: GroupMoments) -> OneWayResult:
+    """The one-way result from the groups' labels, counts and moments (no values needed);
+    shared by the in-memory analyses and by sums computed elsewhere."""
+    require_two(gm)
+    mom = gm.moments
+    k = gm.k
     every = [list(range(k))]
     each = [[i] for i in range(k)]
     ssw = mom.ss_within_parts(each)
@@ -169,9 +171,15 @@ def oneway_from_moments(g: Groups, mom: ExactMoments | FloatMoments) -> OneWayRe
         ssb = mom.ss_between()  # from the means minus a common shift, without cancellation
         sst = ssb + ssw
         check_ss_range(sst)
-        check_float_zero_spread(g, sst, within=False)
-        check_float_zero_spread(g, ssw, within=True)
-    return _finish(g.labels, g.counts, means, ssb, ssw, sst, mom.exact, dropped=g.dropped)
+        check_zero_spread(gm, sst, within=False)
+        check_zero_spread(gm, ssw, within=True)
+    return _finish(gm.labels, gm.counts, means, ssb, ssw, sst, mom.exact, dropped=gm.dropped)
+
+
+def oneway_from_moments(g: Groups, mom: ExactMoments | FloatMoments) -> OneWayResult:
+    """The one-way result from already computed moments (shared with other analyses)."""
+    require_two_groups(g)
+    return oneway_of(group_moments(g, mom))
 
 
 def oneway_from_sums(
@@ -184,21 +192,10 @@ def oneway_from_sums(
     computed inside a database. The same exact rationals, rounded once, as :func:`oneway` on
     the same values, whatever scale and offset the sums use."""
     k = len(labels)
-    if k < 2:
-        which = f' (only "{labels[0]}")' if k == 1 else ""
-        raise InputError(
-            f"at least two groups are needed to compare means, got {k}{which}; "
-            "check the group column and the filter"
-        )
+    require_two_labels(labels)
     if len(mom.n) != k or (dropped and len(dropped) != k):
         raise InputError(f"{len(mom.n)} groups of sums for {k} labels; give one label per group")
-    ssw = mom.ss_within_parts([[i] for i in range(k)])
-    sst = mom.ss_within_parts([list(range(k))])
-    means = tuple(float(m) for m in mom.means())
-    return _finish(
-        tuple(labels), tuple(mom.n), means, sst - ssw, ssw, sst, True,
-        dropped=dropped, notes=notes,
-    )
+    return replace(oneway_of(moments_only(labels, mom, dropped)), notes=tuple(notes))
 
 
 def oneway(

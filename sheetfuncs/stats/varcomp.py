@@ -45,10 +45,11 @@ from scipy import stats
 from ..distributions import f_critical
 from ..input import as_groups, check_conf
 from .moments import compute_moments, scaled
-from .oneway import oneway_from_moments, require_two_groups
+from .group_moments import GroupMoments, group_moments, require_two
+from .oneway import oneway_of, require_two_groups
 from .interval import Interval
 
-__all__ = ["VarianceComponents", "variance_components"]
+__all__ = ["VarianceComponents", "variance_components", "variance_components_of"]
 
 #: The rows of ``VarianceComponents.table()`` after the header, in order.
 ROWS = ("Between groups", "Within groups", "Total", "Intraclass correlation", "Effective group size n0")
@@ -243,7 +244,15 @@ def variance_components(
     g = as_groups(groups, missing=missing, relabel=relabel)
     require_two_groups(g)
     cf = check_conf(conf)
-    res = oneway_from_moments(g, compute_moments(g, exact))
+    return variance_components_of(group_moments(g, compute_moments(g, exact)), cf)
+
+
+def variance_components_of(gm: GroupMoments, conf: Any = 0.95) -> VarianceComponents:
+    """:func:`variance_components` from the groups' labels, counts and moments (no values
+    needed)."""
+    require_two(gm)
+    cf = check_conf(conf)
+    res = oneway_of(gm)
     k, n = res.k, res.n_total
     n1, n2 = res.df_between, res.df_within
     counts = res.counts

@@ -20,7 +20,7 @@ from ``r_i`` itself, with ``ln r_i`` formed from the exact ratio scaled by a pow
 from __future__ import annotations
 
 import math
-from collections.abc import Mapping
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Any, ClassVar
@@ -29,12 +29,15 @@ import numpy as np
 from scipy import stats
 
 from ..errors import InputError
+from ..distributions import f_tail
 from ..input import as_groups, shown
-from .group_variances import prepare_with_variances
+from .moments import rounded
+from .group_moments import GroupMoments, group_moments, require_two
+from .group_variances import prepare_with_variances, require_variance_counts
 from .oneway import oneway
 from .residuals import Deviations
 
-__all__ = ["LeveneResult", "BartlettResult", "levene", "bartlett"]
+__all__ = ["LeveneResult", "BartlettResult", "levene", "bartlett", "bartlett_of", "levene_result"]
 
 
 @dataclass(frozen=True)
@@ -202,11 +205,19 @@ def bartlett(
     """
     g = as_groups(groups, missing=missing, relabel=relabel)
     g, mom = prepare_with_variances(g, "Bartlett's test", exact)
-    k = g.k
-    ns = g.counts
-    dfw = g.n_total - k
+    return bartlett_of(group_moments(g, mom))
+
+
+def bartlett_of(gm: GroupMoments) -> BartlettResult:
+    """:func:`bartlett` from the groups' labels, counts and moments (no values needed)."""
+    require_two(gm)
+    require_variance_counts(gm.labels, gm.counts, "Bartlett's test")
+    mom = gm.moments
+    k = gm.k
+    ns = gm.counts
+    dfw = gm.n_total - k
     ss = [mom.ss_group(i) for i in range(k)]
-    for label, s in zip(g.labels, ss):
+    for label, s in zip(gm.labels, ss):
         if s == 0:
             raise InputError(
                 f'group "{label}" has zero variance (all its values are equal), and '
@@ -224,3 +235,30 @@ def bartlett(
     t = max(num / corr, 0.0)
     p = float(stats.chi2.sf(t, k - 1)) if t > 0 else 1.0
     return BartlettResult(statistic=t, df=k - 1, p=p, exact=mom.exact)
+
+
+def levene_result(
+    center: str, n: Sequence[int], sum_z: Sequence[Fraction], sum_z2: Sequence[Fraction],
+    spread: tuple[Fraction, Fraction],
+) -> LeveneResult:
+    """Levene's test from per-group sums of the absolute deviations ``z`` computed elsewhere
+    (e.g. inside a database): ``n``, ``sum z`` and ``sum z**2`` per group as exact rationals in
+    any one unit, and ``spread`` the smallest and largest ``z`` over all values. The one-way F
+    on ``z`` is formed from them exactly and rounded once, as :func:`levene` does on the exact
+    path (bit-identical to it when its deviations are exact)."""
+    c = _parse_center(center)
+    if spread[0] == spread[1]:
+        what = "zero" if spread[1] == 0 else "the same"
+        raise InputError(
+            f"every value's distance from its group {c} is {what}, so Levene's test "
+            "has no differences in spread to compare; check that the range holds the "
+            "measurements"
+        )
+    k, total = len(n), sum(n)
+    ssw = sum((q - s * s / m for m, s, q in zip(n, sum_z, sum_z2)), Fraction(0))
+    sz = sum(sum_z, Fraction(0))
+    sst = sum(sum_z2, Fraction(0)) - sz * sz / total
+    dfb, dfw = k - 1, total - k
+    f = math.inf if ssw == 0 else rounded((sst - ssw) / dfb / (ssw / dfw))
+    p = 0.0 if math.isinf(f) else f_tail(f, dfb, dfw)
+    return LeveneResult(statistic=f, df_between=dfb, df_within=dfw, p=p, center=c)
