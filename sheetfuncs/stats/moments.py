@@ -37,14 +37,14 @@ import numpy as np
 
 from ..errors import InputError
 from ..input import Groups
-from .scaled_sums import MAX_VECTOR_SCALE, scaled_sums
+from .scaled_sums import DOT_ROW, MAX_VECTOR_SCALE, dot_rows, scaled_sums
 
 __all__ = [
     "ExactMoments", "FloatMoments", "compute_moments", "decimal_parts", "check_ss_range",
     "check_float_zero_spread", "scaled", "unit_fsum",
 ]
 
-_CHUNK = 32768
+_CHUNK = 65536  # a multiple of DOT_ROW: the runs, and so the results, do not depend on it
 _SAMPLE_PER_GROUP = 64
 MAX_DIGITS = 15
 
@@ -263,17 +263,19 @@ def check_float_zero_spread(g: Groups, ss: float, within: bool) -> None:
 
 
 def _shifted_sums(a: np.ndarray, c: float, buf: np.ndarray) -> tuple[float, float]:
-    """``sum(x - c)`` and ``sum((x - c)**2)``, chunk by chunk in cache, pairwise within chunks."""
+    """``sum(x - c)`` and ``sum((x - c)**2)``: the differences chunk by chunk in cache, their
+    sums and sums of squares as dot products over short runs (:func:`dot_rows`), the runs'
+    results added with ``math.fsum``."""
     s1: list[float] = []
     s2: list[float] = []
+    ones = np.ones(DOT_ROW)
     with np.errstate(over="ignore", invalid="ignore"):
         for i in range(0, a.size, _CHUNK):
             x = a[i : i + _CHUNK]
             d = buf[: x.size]
             np.subtract(x, c, out=d)
-            s1.append(float(d.sum()))
-            np.multiply(d, d, out=d)
-            s2.append(float(d.sum()))
+            s1 += dot_rows(d, ones)
+            s2 += dot_rows(d)
     if not (all(map(math.isfinite, s2)) and all(map(math.isfinite, s1))):
         # squares beyond the double range: the analyses see inf and say so (check_ss_range)
         return (math.nan if not all(map(math.isfinite, s1)) else math.fsum(s1)), math.inf
