@@ -12,7 +12,8 @@ from fractions import Fraction
 import numpy as np
 import pytest
 
-from sheetfuncs.stats.scaled_sums import EXACT_CHUNK, MAX_VECTOR_SCALE, scaled_sums
+from sheetfuncs.stats import scaled_sums as scaled_sums_module
+from sheetfuncs.stats.scaled_sums import DOT_ROW, EXACT_CHUNK, MAX_VECTOR_SCALE, dot_rows, scaled_sums
 
 
 def reference(values, scale: int, offset: int) -> tuple[int, int, int, list[float]]:
@@ -117,3 +118,17 @@ def test_squares_just_past_two_to_the_53_are_still_exact(scale):
     for g, values in enumerate([a, a[:5]]):
         check_group(values.tolist(), scale, 0, tuple(x[g] for x in got))
     assert got[2][0] == sum(int(v) ** 2 for v in r) and got[3][0] == []
+
+
+def test_numpy_without_vecdot_gives_the_same_sums(monkeypatch):
+    # the in-memory sheetfuncs call with numpy 2's vecdot as the reference: numpy 1.x has none,
+    # and each run of DOT_ROW values then takes its own dot product
+    rng = np.random.default_rng(11)
+    arrays = [np.round(rng.normal(250, 4, n), 3) for n in (5, DOT_ROW, 3 * DOT_ROW + 7)]
+    arrays.append(np.round(rng.normal(9e5, 4, EXACT_CHUNK + 9), 3))  # centred sums
+    with_vecdot = scaled_sums(arrays, 3, 250_000)
+    monkeypatch.setattr(scaled_sums_module, "_VECDOT", None)
+    assert scaled_sums(arrays, 3, 250_000) == with_vecdot
+    assert dot_rows(arrays[2]) == pytest.approx(
+        [float(np.dot(arrays[2][i : i + DOT_ROW], arrays[2][i : i + DOT_ROW]))
+         for i in range(0, arrays[2].size, DOT_ROW)], rel=1e-15)
