@@ -37,16 +37,14 @@ import numpy as np
 
 from ..errors import InputError
 from ..input import Groups
+from .scaled_sums import DOT_ROW, MAX_VECTOR_SCALE, dot_rows, scaled_sums
 
 __all__ = [
     "ExactMoments", "FloatMoments", "compute_moments", "decimal_parts", "check_ss_range",
     "check_float_zero_spread", "scaled", "unit_fsum",
 ]
 
-_CHUNK = 32768
-_TWO53 = 9007199254740992.0
-_TWO53_INT = 1 << 53
-_INT64_MAX = (1 << 63) - 1
+_CHUNK = 65536  # a multiple of DOT_ROW: the runs, and so the results, do not depend on it
 _SAMPLE_PER_GROUP = 64
 MAX_DIGITS = 15
 
@@ -265,17 +263,19 @@ def check_float_zero_spread(g: Groups, ss: float, within: bool) -> None:
 
 
 def _shifted_sums(a: np.ndarray, c: float, buf: np.ndarray) -> tuple[float, float]:
-    """``sum(x - c)`` and ``sum((x - c)**2)``, chunk by chunk in cache, pairwise within chunks."""
+    """``sum(x - c)`` and ``sum((x - c)**2)``: the differences chunk by chunk in cache, their
+    sums and sums of squares as dot products over short runs (:func:`dot_rows`), the runs'
+    results added with ``math.fsum``."""
     s1: list[float] = []
     s2: list[float] = []
+    ones = np.ones(DOT_ROW)
     with np.errstate(over="ignore", invalid="ignore"):
         for i in range(0, a.size, _CHUNK):
             x = a[i : i + _CHUNK]
             d = buf[: x.size]
             np.subtract(x, c, out=d)
-            s1.append(float(d.sum()))
-            np.multiply(d, d, out=d)
-            s2.append(float(d.sum()))
+            s1 += dot_rows(d, ones)
+            s2 += dot_rows(d)
     if not (all(map(math.isfinite, s2)) and all(map(math.isfinite, s1))):
         # squares beyond the double range: the analyses see inf and say so (check_ss_range)
         return (math.nan if not all(map(math.isfinite, s1)) else math.fsum(s1)), math.inf
@@ -378,53 +378,6 @@ def _sample(arrays: Sequence[np.ndarray]) -> list[tuple[int, float]]:
     return out
 
 
-def _blocked_sum(v: np.ndarray, block: int) -> int:
-    """Exact sum of an int64 array whose every run of ``block`` values sums without overflow."""
-    n = v.size
-    if n <= block:
-        return int(v.sum())
-    full = n - n % block
-    parts = v[:full].reshape(-1, block).sum(axis=1)  # each partial sum fits in int64
-    return sum(parts.tolist()) + int(v[full:].sum())
-
-
-def _exact_sums(r: np.ndarray, offset: int, hi: float, lo: float) -> tuple[int, int]:
-    """Exact ``sum(r - offset)`` and ``sum((r - offset)**2)`` of integer-valued floats.
-
-    ``r`` holds integers below 2**53 in size, ``hi``/``lo`` its extremes, and ``r`` may be
-    overwritten. While every partial sum stays below 2**53 the sums run in float64 (then
-    float addition is exact). Otherwise each centred integer is split as ``m = a * 2**h + b``
-    with ``0 <= b < 2**h`` and ``|a|`` of about the same size, so that ``a*a``, ``a*b`` and
-    ``b*b`` fit comfortably in int64; they are summed in int64 blocks short enough never to
-    overflow and combined in Python integers: ``sum m^2 = 4**h sum a^2 + 2**(h+1) sum ab +
-    sum b^2``.
-    """
-    big = int(max(hi - offset, offset - lo, 0.0)) + 2  # a safe bound on |r - offset|
-    n = r.size
-    if n * big * big < _TWO53_INT:
-        # exact in float64: every value, square and partial sum is an integer below 2**53.
-        # (Elementwise square and sum rather than a BLAS dot, which may spin up threads.)
-        np.subtract(r, offset, out=r)
-        s = int(r.sum())
-        np.multiply(r, r, out=r)
-        return s, int(r.sum())
-    m = r.astype(np.int64)
-    m -= offset
-    h = max(1, (big.bit_length() + 1) // 2)
-    a = m >> h                      # floor division by 2**h
-    b = m - (a << h)                # 0 <= b < 2**h
-    top = max(int(abs(a).max()) if a.size else 0, 1 << h)
-    block = max(1, _INT64_MAX // (top * top))
-    s = (_blocked_sum(a, block) << h) + _blocked_sum(b, block)
-    ab = a * b
-    np.multiply(a, a, out=a)
-    np.multiply(b, b, out=b)
-    q = (_blocked_sum(a, block) << (2 * h)) + (_blocked_sum(ab, block) << (h + 1)) + _blocked_sum(b, block)
-    return s, q
-
-
-#: The largest scale ``D`` for which ``10.0**D`` is exact (and the vectorised check applies).
-_MAX_VECTOR_SCALE = 22
 
 
 def _sample_scale(values: np.ndarray) -> tuple[int, np.ndarray] | None:
@@ -438,7 +391,7 @@ def _sample_scale(values: np.ndarray) -> tuple[int, np.ndarray] | None:
     ``r < 10**15``. ``None`` when no ``D`` works (a wide or long value, or more than 22
     decimals): the caller then reads the sample one value at a time.
     """
-    for d in range(_MAX_VECTOR_SCALE + 1):
+    for d in range(MAX_VECTOR_SCALE + 1):
         p = 10.0**d
         r = np.rint(values * p)
         if not (np.abs(r) < 1e15).all():
@@ -456,7 +409,7 @@ def _exact_moments(arrays: Sequence[np.ndarray]) -> ExactMoments:
     read one by one at the end (the scale grows if they need more decimals).
     """
     scale, offset = _scale_and_offset(_sample(arrays))
-    ns, ss, qs, fallbacks = _vector_sums(arrays, scale, offset)
+    ns, ss, qs, fallbacks = scaled_sums(arrays, scale, offset)
     if any(fallbacks):  # values the vectorised check could not settle: read them one by one
         scale, offset, ss, qs = _add_fallbacks(fallbacks, scale, offset, ss, qs)
     return ExactMoments(scale, offset, tuple(ns), tuple(ss), tuple(qs))
@@ -477,12 +430,12 @@ def _scale_and_offset(sample: list[tuple[int, float]]) -> tuple[int, int]:
             raise _NotExact(v, g, nd)
         parts.append((mant, exp))
     scale = max(0, max(-e for _, e in parts))
-    if scale > _MAX_VECTOR_SCALE:
+    if scale > MAX_VECTOR_SCALE:
         # values with more than 22 decimals cannot be scaled in floats; scale the others
         # (if any) to theirs, and the main loop reads these few one by one as leftovers
-        scale = max((-e for _, e in parts if -e <= _MAX_VECTOR_SCALE), default=scale)
+        scale = max((-e for _, e in parts if -e <= MAX_VECTOR_SCALE), default=scale)
     offset = 0
-    if scale <= _MAX_VECTOR_SCALE:
+    if scale <= MAX_VECTOR_SCALE:
         ints = sorted(m * 10 ** (e + scale) for m, e in parts if -e <= scale)
         offset = ints[len(ints) // 2]
         if abs(offset) >= 2**53:
@@ -490,58 +443,12 @@ def _scale_and_offset(sample: list[tuple[int, float]]) -> tuple[int, int]:
     return scale, offset
 
 
-def _vector_sums(
-    arrays: Sequence[np.ndarray], scale: int, offset: int
-) -> tuple[list[int], list[int], list[int], list[list[float]]]:
-    """Counts, exact centred sums and sums of squares per group, and the values left for
-    :func:`_add_fallbacks` (all of them when the scale is too large to vectorise)."""
-    vector = scale <= _MAX_VECTOR_SCALE
-    ns: list[int] = []
-    ss: list[int] = []
-    qs: list[int] = []
-    fallbacks: list[list[float]] = []
-    p10 = 10.0**scale if vector else 1.0
-    # huge values overflow when scaled: they fail the round-trip test and take the fallback
-    with np.errstate(over="ignore", invalid="ignore"):
-        for a in arrays:
-            s_tot = 0
-            q_tot = 0
-            fb: list[float] = []
-            if not vector:
-                fb = a.tolist()
-            else:
-                for i in range(0, a.size, _CHUNK):
-                    x = a[i : i + _CHUNK]
-                    r = x * p10
-                    np.rint(r, out=r)
-                    ok = r / p10 == x
-                    hi, lo = float(r.max()), float(r.min())
-                    if max(hi, -lo) >= 1e15:
-                        # 16-digit scaled values are exact only with trailing zeros
-                        ar = np.abs(r)
-                        ok &= (ar < 1e15) | ((ar < _TWO53) & (np.fmod(r, 10.0) == 0.0))
-                    if not ok.all():
-                        fb.extend(x[~ok].tolist())
-                        r = r[ok]
-                        if r.size == 0:
-                            continue
-                        hi, lo = float(r.max()), float(r.min())
-                    s, q = _exact_sums(r, offset, hi, lo)
-                    s_tot += s
-                    q_tot += q
-            ns.append(int(a.size))
-            ss.append(s_tot)
-            qs.append(q_tot)
-            fallbacks.append(fb)
-    return ns, ss, qs, fallbacks
-
-
 def _add_fallbacks(
     fallbacks: list[list[float]], scale: int, offset: int, ss: list[int], qs: list[int]
 ) -> tuple[int, int, list[int], list[int]]:
     """The scale, offset, sums and sums of squares once the values in ``fallbacks`` are read
     one by one through their shortest round-trip decimals (the scale grows to theirs)."""
-    vector = scale <= _MAX_VECTOR_SCALE
+    vector = scale <= MAX_VECTOR_SCALE
     decoded: list[list[tuple[int, int]]] = []
     new_scale = scale if vector else 0
     for g, fb in enumerate(fallbacks):

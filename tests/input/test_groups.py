@@ -216,3 +216,24 @@ def test_contiguous_float64_arrays_are_read_only_views_not_copies():
     assert g2.arrays[1].dtype == np.float64
     with pytest.raises(InputError, match="an infinite value at position 2"):
         as_groups([np.array([1.0, np.inf]), b])
+
+
+@pytest.mark.parametrize("where", [0, 8191, 8192, 3 * 8192 + 4, 3 * 8192 + 9])
+@pytest.mark.parametrize("bad, what", [
+    (np.nan, "NaN \\(not a number\\)"), (-np.inf, "an infinite value"), (np.inf, "an infinite value"),
+])
+def test_a_bad_value_is_found_in_long_arrays_wherever_it_is(where, bad, what):
+    # common practice: NaN and infinity propagate through a sum of squares; positions cover the
+    # first and last value of a run of 8192 and the shorter last run
+    a = np.linspace(-5.0, 5.0, 3 * 8192 + 10)
+    a[where] = bad
+    with pytest.raises(InputError, match=f'{what} at position {where + 1} of group "Group 2"'):
+        as_groups([np.ones(3), a])
+
+
+def test_huge_finite_values_whose_squares_overflow_are_accepted():
+    # common practice: 1e300 squared overflows a double, yet 1e300 is a finite number
+    a = np.full(3 * 8192 + 1, 1e300)
+    a[::2] = -1.7e308
+    g = as_groups([a, [1.0, 2.0]])
+    assert g.arrays[0] is not a and np.shares_memory(g.arrays[0], a)
