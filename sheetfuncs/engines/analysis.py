@@ -16,6 +16,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from ..errors import InputError
+from ..input import RowsOrigin
 from ..stats import Analysis, analyse, analyse_of, attempt, moments_only
 from .moments import GroupSums, NotExact, sums_from_relation
 from .oneway import check_sums_groups, fetched_groups, plain_sums, sums_notes
@@ -26,28 +27,6 @@ __all__ = ["RowsOrigin", "SqlAnalysis", "analyse_sql", "DEFAULT_SEED"]
 
 #: The seed of the residuals' random sample unless another is given.
 DEFAULT_SEED = 20261203
-
-
-@dataclass(frozen=True)
-class RowsOrigin:
-    """Where the rows came from: ``engine`` and ``engine_version`` (e.g. ``"DuckDB"``,
-    ``"2.0.1"``), ``source`` (the file name, table name or ``"the query"``), ``from_sql`` (the
-    SQL text after ``FROM``: the file reader, the table or the query), ``where`` (the filter, or
-    ``None``), ``rows_read`` (rows inside the filter, those left out included),
-    ``null_labels`` (rows left out for a NULL group label), ``missing`` (NULL or NaN values left
-    out, per group, with ``missing="drop"``), ``notes`` (the same in words) and ``fetched``
-    (whether the values had to be fetched for the in-memory analysis)."""
-
-    engine: str
-    engine_version: str
-    source: str
-    from_sql: str
-    where: str | None
-    rows_read: int
-    null_labels: int
-    missing: tuple[int, ...]
-    notes: tuple[str, ...]
-    fetched: bool = False
 
 
 @dataclass(frozen=True)

@@ -25,7 +25,7 @@ from .options import (
     one_line, shown,
 )
 from .ranges import groups_from_long, groups_from_range, parse_errors
-from .source import InputSource
+from .source import InputSource, RowsOrigin
 
 __all__ = [
     "COM_ERROR_CODES", "ERROR_TEXTS", "MAX_COLS", "MAX_ROWS", "RangeRef", "a1_range",
@@ -36,5 +36,5 @@ __all__ = [
     "CellNote", "Groups", "as_groups", "first_duplicate", "format_label", "groups_from_long", "groups_from_range",
     "as_real", "check_alpha", "check_conf", "check_number", "check_probability", "check_range",
     "check_whole", "one_line", "shown",
-    "InputSource", "LeftOut", "Reading", "cell_content", "group_sizes", "sheet_ref", "parse_rename", "relabel", "parse_errors",
+    "InputSource", "RowsOrigin", "LeftOut", "Reading", "cell_content", "group_sizes", "sheet_ref", "parse_rename", "relabel", "parse_errors",
 ]

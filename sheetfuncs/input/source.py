@@ -1,4 +1,5 @@
-"""Where a range came from, so that fronts can give sheet-and-address positions."""
+"""Where the data came from: a range (:class:`InputSource`, so that fronts can give
+sheet-and-address positions) or rows read by a database engine (:class:`RowsOrigin`)."""
 
 from __future__ import annotations
 
@@ -6,7 +7,7 @@ from dataclasses import dataclass
 
 from .cells import column_letters
 
-__all__ = ["InputSource"]
+__all__ = ["InputSource", "RowsOrigin"]
 
 
 @dataclass(frozen=True)
@@ -29,3 +30,25 @@ class InputSource:
             return a
         name = self.sheet.replace("'", "''")
         return f"'{name}'!{a}"
+
+
+@dataclass(frozen=True)
+class RowsOrigin:
+    """Where the rows came from: ``engine`` and ``engine_version`` (e.g. ``"DuckDB"``,
+    ``"2.0.1"``), ``source`` (the file name, table name or ``"the query"``), ``from_sql`` (the
+    SQL text after ``FROM``: the file reader, the table or the query), ``where`` (the filter, or
+    ``None``), ``rows_read`` (rows inside the filter, those left out included),
+    ``null_labels`` (rows left out for a NULL group label), ``missing`` (NULL or NaN values left
+    out, per group, with ``missing="drop"``), ``notes`` (the same in words) and ``fetched``
+    (whether the values had to be fetched for the in-memory analysis)."""
+
+    engine: str
+    engine_version: str
+    source: str
+    from_sql: str
+    where: str | None
+    rows_read: int
+    null_labels: int
+    missing: tuple[int, ...]
+    notes: tuple[str, ...]
+    fetched: bool = False
