@@ -17,6 +17,7 @@ from typing import Any
 from ..errors import InputError
 from ..input import DEFAULT_MAX_CELLS, DEFAULT_MAX_FIELDS, DEFAULT_SIZE_LIMIT
 from .parser import UsageError
+from .progress import Progress
 
 __all__ = ["by_column", "EngineInput", "engine_inputs", "open_engine_input"]
 
@@ -119,15 +120,18 @@ def open_engine_input(inp: EngineInput) -> tuple[Any, Any]:
     return (con, inp.query), con.close
 
 
-def engine_analysis(args: argparse.Namespace, inp: EngineInput, **options: Any) -> Any:
-    """Every analysis of one input read by column (:func:`sheetfuncs.engines.analyse_sql`)."""
+def engine_analysis(args: argparse.Namespace, inp: EngineInput, prog: Progress,
+                    **options: Any) -> Any:
+    """Every analysis of one input read by column (:func:`sheetfuncs.engines.analyse_sql`);
+    on a terminal, queries that run longer than a second show their progress."""
     from ..engines import analyse_sql
 
     source, close = open_engine_input(inp)
+    prog.long_work()
     try:
         return analyse_sql(
             source, group=args.group, value=args.value, where=args.where, missing=args.missing,
-            alpha=args.alpha, **options,
+            alpha=args.alpha, progress=prog if prog.active else None, **options,
         )
     finally:
         close()

@@ -1,8 +1,8 @@
 """Progress on stderr for the commands that read and write files.
 
 Shown when forced (``--progress``), never when refused (``--no-progress``), and otherwise only on
-a terminal, for batches of several files and for inputs above about a million cells
-(:data:`BIG_INPUT_CELLS`). On a terminal one line is redrawn in place; elsewhere each step is a
+a terminal, for batches of several files, for inputs above about a million cells
+(:data:`BIG_INPUT_CELLS`) and for database queries that run longer than a second. On a terminal one line is redrawn in place; elsewhere each step is a
 plain line that starts ``sheetfuncs:``.
 """
 
@@ -42,6 +42,11 @@ class Progress:
         self._stage = ""
         if self.active:
             self._emit(f"{self.label}: starting", force=True)
+
+    def long_work(self) -> None:
+        """Work of unknown length follows (a database query): shown on a terminal (auto)."""
+        if self.mode is None and self.tty:
+            self.active = True
 
     def consider_size(self, cells: int) -> None:
         if self.mode is None and self.tty and cells >= BIG_INPUT_CELLS:

@@ -154,10 +154,10 @@ def report_by_column(args: argparse.Namespace, inp: EngineInput, out: Path,
     from ..report import write_sums_report
 
     _check_out(args, out, inputs)
-    res = engine_analysis(args, inp, method=args.method, control=args.control)
+    res = engine_analysis(args, inp, prog, method=args.method, control=args.control)
     an = res.analysis
     write_sums_report(
-        an, out, origin=res.origin, query=inp.query,
+        an, out, origin=res.origin,
         factor=args.factor, response=args.response, unit=args.unit, title=args.title,
         force=args.force, progress=prog,
         **({} if args.max_groups is None else {"max_groups": args.max_groups}),

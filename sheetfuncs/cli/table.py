@@ -67,7 +67,12 @@ def run_table(args: argparse.Namespace) -> int:
 def run_engine_table(args: argparse.Namespace) -> int:
     """``table`` for an input read by column: the sums computed inside the engine."""
     (inp,) = engine_inputs(args)
-    res = engine_analysis(args, inp, comparisons=False, conf=0.95)
+    prog = Progress(args.progress, sys.stderr)
+    prog.start(1, inp.name)
+    try:
+        res = engine_analysis(args, inp, prog, comparisons=False, conf=0.95)
+    finally:
+        prog.finish()
     an = res.analysis
     one = an.oneway.table(args.factor)
     print(f"{inp.name}: {an.n_total} values in {an.k} groups ({group_sizes(an.labels, an.counts)})",

@@ -12,6 +12,7 @@ digits no exact sum can hold it: the values are then fetched and the in-memory a
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
@@ -61,6 +62,7 @@ def analyse_sql(
     source: Any, *, group: str, value: str, where: str | None = None, missing: str = "stop",
     alpha: Any = 0.05, method: Any = "tukey", control: Any = None, conf: Any = None,
     comparisons: bool = True, seed: int = DEFAULT_SEED, max_distinct: int = MAX_DISTINCT,
+    progress: Callable[[str, int, int], None] | None = None,
 ) -> SqlAnalysis:
     """Every analysis of ``value`` by ``group`` (see :func:`sheetfuncs.analyse` for ``alpha``,
     ``method``, ``control``, ``conf`` and ``comparisons``) with the sums computed inside
@@ -71,13 +73,15 @@ def analyse_sql(
     the residuals' normality test on every value up to 5,000 values and above that on a seeded
     random sample of 5,000 rows (``seed``; the result says so). Kruskal–Wallis fetches one row
     per (group, distinct value), at most ``max_distinct``, else it is not available. The
-    analysis's ``groups`` is ``None``: the values stay in the database."""
+    analysis's ``groups`` is ``None``: the values stay in the database. ``progress(stage,
+    done, total)``, when given, hears how far each DuckDB query running longer than a second
+    is (``"query"``, percent, 100)."""
     if not isinstance(seed, int) or isinstance(seed, bool) or not 0 <= seed < 2**31:
         raise InputError(f"seed must be a whole number from 0 to 2147483647, not {seed!r}")
     if not isinstance(max_distinct, int) or max_distinct < 1:
         raise InputError(f"max_distinct must be a whole number of at least 1, not {max_distinct!r}")
     opts = dict(alpha=alpha, method=method, control=control, conf=conf, comparisons=comparisons)
-    with opened(source, group, value, where) as rel:
+    with opened(source, group, value, where, progress) as rel:
         sums = sums_from_relation(rel, missing=missing)
         if isinstance(sums, NotExact):
             base = plain_sums(rel, missing)

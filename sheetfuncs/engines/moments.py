@@ -172,7 +172,8 @@ def _check_values(rel: Relation, scan: dict[str, Any], drop: bool) -> None:
         raise InputError(
             f'{k} missing value{"s" if k != 1 else ""} (NULL or NaN) in column "{rel.value_name}", '
             f'the first in group "{_first_label(rel, cond)}"; filter them out in the query or the '
-            'where filter, or pass missing="drop" to leave them out and count them'
+            'where filter, or leave them out and count them with missing="drop" (on the '
+            "command line: --missing drop)"
         )
 
 

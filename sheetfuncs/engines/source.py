@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import os
 import re
-from collections.abc import Iterator, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from contextlib import contextmanager
 from dataclasses import dataclass
 from typing import Any
@@ -18,6 +18,7 @@ from typing import Any
 from ..errors import InputError
 from .dialect import DUCKDB, SPARK, Dialect
 from .spark import is_spark, is_spark_source, spark_columns, spark_rows, spark_scope
+from .watch import Watched
 
 __all__ = ["Relation", "open_relation", "opened", "quote", "run", "engine"]
 
@@ -168,13 +169,18 @@ def open_relation(source: Any, group: Any, value: Any, where: str | None) -> Rel
 
 
 @contextmanager
-def opened(source: Any, group: Any, value: Any, where: str | None) -> Iterator[Relation]:
-    """The :class:`Relation` for any ``source``; for Spark, with ANSI mode forced inside."""
+def opened(source: Any, group: Any, value: Any, where: str | None,
+           progress: Callable[[str, int, int], None] | None = None) -> Iterator[Relation]:
+    """The :class:`Relation` for any ``source``; for Spark, with ANSI mode forced inside. With
+    ``progress``, DuckDB queries report how far they are (:class:`~.watch.Watched`)."""
     if is_spark_source(source):
         with spark_scope(source) as (spark, src, name):
             yield _relation(spark, src, name, group, value, where, SPARK)
     else:
-        yield open_relation(source, group, value, where)
+        con, src, name = _resolve(source)
+        if progress is not None:
+            con = Watched(con, progress)
+        yield _relation(con, src, name, group, value, where, DUCKDB)
 
 
 def _relation(

@@ -423,14 +423,16 @@ def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...
     only point to them."""
     g = an.groups
     notes: list[str] = []
-    typos = tuple("Possible typo: " + n for n in g.case_notes)
+    # without values (rows that stayed in a database) what was left out is in the data-read lines
+    typos = tuple("Possible typo: " + n for n in g.case_notes) if g is not None else ()
     if typos:
         notes.append(
             f"Labels that differ only in case are kept as separate groups ({len(typos)} possible "
             f"typo{'' if len(typos) == 1 else 's'}, listed under the answer above)."
         )
-    notes += [n[:1].upper() + n[1:] + "." for n in g.notes if n not in g.case_notes]  # renames, drops
-    ignored = [c for c in g.cells if c.action == "ignored"]
+    if g is not None:
+        notes += [n[:1].upper() + n[1:] + "." for n in g.notes if n not in g.case_notes]  # renames, drops
+    ignored = [c for c in g.cells if c.action == "ignored"] if g is not None else []
     if ignored:
         kinds: dict[str, int] = {}
         for c in ignored:
@@ -463,7 +465,12 @@ def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...
                     f"{_READ_NAMES[read]} (the result read here), so they describe the one-way "
                     "analysis only: " + " ".join(sentence(n) for n in eff_notes)
                 )
-    if an.exact:
+    if an.exact and g is None:
+        notes.append(
+            "Sums of squares were computed exactly from whole-number sums taken inside the "
+            "database for the decimal value of every row, and rounded once (decimal-exact path)."
+        )
+    elif an.exact:
         notes.append(
             "Sums of squares were computed exactly for the decimal value of every cell and "
             "rounded once (decimal-exact path)."

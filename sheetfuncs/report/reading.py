@@ -12,16 +12,25 @@ from pathlib import Path
 from ..input import group_sizes
 from .context import ReportContext
 
-__all__ = ["LEFT_OUT_SHOWN", "data_read_lines", "left_out_lines"]
+__all__ = ["LEFT_OUT_SHOWN", "data_read_lines", "left_out_lines", "origin_line"]
 
 #: How many left-out entries the Findings name before pointing to the Data sheet's log.
 LEFT_OUT_SHOWN = 6
 
 
 def _groups_phrase(an: ReportContext) -> str:
-    g = an.groups
-    each = group_sizes(g.labels, g.counts)
-    return f"{g.n_total} values in {g.k} group{'s' if g.k != 1 else ''} ({each})"
+    each = group_sizes(an.labels, an.counts)
+    return f"{an.n_total} values in {an.k} group{'s' if an.k != 1 else ''} ({each})"
+
+
+def origin_line(an: ReportContext) -> str:
+    """Rows read by a database engine, in words: how many, from where, by which engine."""
+    o = an.origin
+    if o is None:
+        return ""
+    rows = f"{o.rows_read:,} row{'s' if o.rows_read != 1 else ''}"
+    where = f" (filter: {o.where})" if o.where else ""
+    return f"Read {rows} of {o.source}{where} with {o.engine} {o.engine_version}"
 
 
 def left_out_lines(an: ReportContext) -> tuple[str, ...]:
@@ -40,6 +49,9 @@ def data_read_lines(an: ReportContext) -> tuple[str, ...]:
     """The paragraph that opens the Findings: the block read and the groups, what was left
     out (with a request to check it when detection chose the block), missing values, notes."""
     r = an.reading
+    if an.origin is not None:
+        return (f"{origin_line(an)}: {_groups_phrase(an)}.",
+                *(n[:1].upper() + n[1:] + "." for n in an.origin.notes))
     if r is None:
         return (f"Data passed from Python: {_groups_phrase(an)}.",)
     name = Path(r.path).name if r.path else "the input"
@@ -56,5 +68,5 @@ def data_read_lines(an: ReportContext) -> tuple[str, ...]:
     if r.missing:
         lines.append(f"{r.missing} error cell{'s were' if r.missing != 1 else ' was'} read as "
                      "missing values (--errors missing); each is in the log on the Data sheet.")
-    lines.extend(n for n in r.notes if n not in an.groups.notes)  # case notes: by the answer
+    lines.extend(n for n in r.notes if an.groups is None or n not in an.groups.notes)  # case notes: by the answer
     return tuple(lines)

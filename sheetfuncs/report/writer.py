@@ -17,17 +17,17 @@ from openpyxl import Workbook
 from openpyxl.workbook.defined_name import DefinedName
 
 from ..errors import InputError
-from ..input import InputSource, LoadedGroups, Reading, as_groups, same_file
-from .context import ReportContext, prepare
+from ..input import InputSource, LoadedGroups, Reading, RowsOrigin, as_groups, same_file
+from .context import ReportContext, prepare, prepare_sums
 from .findings import findings
 from .grid import safe_text
 from .sheets import (
     NAMES, DataLayout, Progress, build_about, build_audit, build_chart, build_comparisons,
-    build_findings, build_groups, build_tables, input_log, write_data,
+    build_findings, build_groups, build_sums, build_tables, input_log, write_data,
 )
 
 __all__ = [
-    "write_report", "build_workbook", "timestamp", "ROW_LIMIT", "SHEET_ORDER", "DEFAULT_MAX_GROUPS",
+    "write_report", "write_sums_report", "build_workbook", "timestamp", "ROW_LIMIT", "SHEET_ORDER", "DEFAULT_MAX_GROUPS",
 ]
 
 #: Rows in one sheet of the host (the header counts).
@@ -95,31 +95,41 @@ def build_workbook(an: ReportContext, *, source: InputSource | None = None, prog
     """The report workbook for an analysis (not yet saved)."""
     source = _check_source(source)
     written = timestamp()
-    log = input_log(an, source)
-    layout = DataLayout.plan(an.groups.counts, len(log), row_limit)
     find = build_findings(an, findings(an), written)
     tables, pos = build_tables(an)
     comps = build_comparisons(an)
     groups = build_groups(an)
+    before = [find, tables, comps, groups]
+    if an.from_sums:  # the values stayed in a database: the Sums sheet instead of the Data sheets
+        sums, cols = build_sums(an)
+        log: list[Any] = []
+        layout = None
+        before.append(sums)
+        audit, audit_refs = build_audit(an, cols, pos)
+        data_names: tuple[str, ...] = ()
+    else:
+        log = input_log(an, source)
+        layout = DataLayout.plan(an.counts, len(log), row_limit)
+        audit, audit_refs = build_audit(an, layout, pos)
+        data_names = layout.sheets
     chart = build_chart(an, layout)
-    audit, audit_refs = build_audit(an, layout, pos)
-    about = build_about(an, source=source, written=written, version=_version(), data_sheets=layout.sheets)
+    about = build_about(an, source=source, written=written, version=_version(), data_sheets=data_names)
 
     wb = Workbook(write_only=True)
     wb.properties.creator = "sheetfuncs"
     wb.properties.title = safe_text(an.title)[:250]
     wb.calculation.fullCalcOnLoad = True
-    before = [find, tables, comps, groups]
     after = [chart, audit, about]
     targets = {}
     for grid in before:
         targets[grid.name] = wb.create_sheet(grid.name)
-    data_sheets = [wb.create_sheet(name) for name in layout.sheets]
+    data_sheets = [wb.create_sheet(name) for name in data_names]
     for grid in after:
         targets[grid.name] = wb.create_sheet(grid.name)
     for grid in before + after:
         grid.emit(targets[grid.name])
-    write_data(data_sheets, an, layout, log, progress)
+    if layout is not None:
+        write_data(data_sheets, an, layout, log, progress)
     for name in NAMES:
         wb.defined_names[name] = DefinedName(name, attr_text=pos.cells[name])
         wb.defined_names["audit_" + name] = DefinedName("audit_" + name, attr_text=audit_refs[name])
@@ -178,6 +188,34 @@ def write_report(
     if progress is not None:
         progress("analysis", 1, 1)
     _write_workbook(an, target, source=source, progress=progress, row_limit=_row_limit, force=force)
+    return target
+
+
+def write_sums_report(
+    analysis: Any,
+    path: Any,
+    *,
+    origin: RowsOrigin,
+    factor: str = "Factor",
+    response: str = "Response",
+    unit: str | None = None,
+    title: str | None = None,
+    force: bool = False,
+    progress: Progress | None = None,
+    max_groups: int = DEFAULT_MAX_GROUPS,
+) -> Path:
+    """Write the report of an analysis of rows read by a database engine: ``analysis`` and
+    ``origin`` are the ``analysis`` and ``origin`` of what
+    :func:`sheetfuncs.engines.analyse_sql` returns (the options of the analysis were given
+    there). When the values stayed in the database (``analysis.groups`` is ``None``), a Sums
+    sheet with the exact per-group sums takes the place of the Data sheets and the Audit sheet
+    recomputes from it; the About sheet names the engine, the rows' source and the row count.
+    Otherwise as :func:`write_report`."""
+    an = prepare_sums(analysis, origin=origin, factor=factor, response=response, unit=unit,
+                      title=title)
+    target = _check_target(path, force, None)
+    _check_group_count(an, max_groups)
+    _write_workbook(an, target, source=None, progress=progress, row_limit=ROW_LIMIT, force=force)
     return target
 
 

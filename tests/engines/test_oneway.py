@@ -163,8 +163,8 @@ def test_infinite_values_stop_with_their_count(messy):
 def test_missing_values_stop_or_are_dropped_and_counted(messy):
     assert _message((messy, "n"), where="g <> 'C'") == (
         'sheetfuncs: 3 missing values (NULL or NaN) in column "x", the first in group "A"; '
-        'filter them out in the query or the where filter, or pass missing="drop" to leave '
-        "them out and count them"
+        'filter them out in the query or the where filter, or leave them out and count them '
+        'with missing="drop" (on the command line: --missing drop)'
     )
     assert _message((messy, "n"), where="g <> 'C'", missing="drop") == (
         'sheetfuncs: group "D" has no numbers left after dropping its 1 missing value (NULL or '

@@ -23,13 +23,18 @@ from tests.support import libreoffice as lo
 from tests.support import nist
 from sheetfuncs import as_groups, oneway
 from sheetfuncs.input.demo import DEMO_FACTOR, DEMO_RESPONSE, DEMO_TITLE, DEMO_UNIT, demo_groups
-from sheetfuncs.report import write_report
+from sheetfuncs.engines import analyse_sql
+from sheetfuncs.report import write_report, write_sums_report
+from tests.support.engines import parquet_file
 from tests.support.scenarios import CLEAR, EQUAL_MEANS, INFINITE, NAMES, NONE, OVENS, UNEQUAL, name_cell
 
 # invented: formula-like labels and two labels that differ only in case
 SPLIT = {"=SUM(A1)": [10.2, 10.4, 10.1, 10.3], "+1": [10.8, 10.9, 10.7, 11.0],
          "-x": [10.0, 10.2, 10.1, 9.9], "@y": [10.5, 10.3, 10.6, 10.4],
          "lot a": [10.1, 10.0, 10.3], "lot A": [10.6, 10.4, 10.5]}
+
+#: Reports of the same data analysed inside DuckDB from a Parquet file (the sums, not the rows).
+SUMS_CASES = ("sums-smls09", "sums-unequal", "sums-equal")
 
 
 def _value(wb, name):
@@ -82,13 +87,19 @@ def batch(tmp_path_factory):
         "equal": (as_groups(EQUAL_MEANS), dict(factor="Filling head", response="fill weight")),
     }
     srcs = {name: write_report(g, tmp / f"{name}.xlsx", **kw) for name, (g, kw) in cases.items()}
+    for name in SUMS_CASES:  # the same data analysed inside DuckDB: the Sums sheet, no Data sheet
+        g = cases[name[len("sums-"):]][0]
+        res = analyse_sql(parquet_file(tmp / f"{name}.parquet", dict(zip(g.labels, map(list, g.arrays)))),
+                          group="g", value="x")
+        srcs[name] = write_sums_report(res.analysis, tmp / f"{name}.xlsx", origin=res.origin)
+        cases[name] = (g, {})
     outs = lo.convert_many(list(srcs.values()), "xlsx", tmp / "recalculated")
     books = {name: openpyxl.load_workbook(out, data_only=True) for name, out in zip(srcs, outs)}
     return {name: (cases[name][0], srcs[name], books[name]) for name in cases}, ds, tmp
 
 
 @pytest.mark.parametrize("name", ["demo", "smls09", "split", "clear", "none", "unequal", "ovens",
-                                  "infinite", "equal"])
+                                  "infinite", "equal", *SUMS_CASES])
 def test_audit_recalculated_by_libreoffice_equals_python(batch, name):
     reports, _, _ = batch
     g, _, wb = reports[name]
@@ -109,9 +120,10 @@ def test_equal_means_recalculate_to_rounding_noise_and_still_agree(batch):
     assert abs(_value(wb, "audit_ss_between")) <= 1e-9 * oneway(g).ss_total
 
 
-def test_smls09_audit_equals_the_certified_values(batch):
+@pytest.mark.parametrize("name", ["smls09", "sums-smls09"])
+def test_smls09_audit_equals_the_certified_values(batch, name):
     reports, ds, _ = batch
-    _, _, wb = reports["smls09"]
+    _, _, wb = reports[name]
     cert = ds.certified  # NIST StRD SmLs09 certified values
     assert _value(wb, "audit_ss_between") == pytest.approx(cert.ss_between, rel=1e-9)
     assert _value(wb, "audit_ss_within") == pytest.approx(cert.ss_within, rel=1e-9)
@@ -131,6 +143,20 @@ def test_split_data_sheets_and_text_labels_in_libreoffice(batch):
     assert data_labels == set(g.labels)
     findings = " ".join(str(c.value) for row in wb["Findings"].iter_rows() for c in row if c.value)
     assert "Possible typo" in findings
+
+
+def test_sums_report_has_the_sums_sheet_and_no_data_sheet(batch):
+    reports, _, _ = batch
+    g, _, wb = reports["sums-unequal"]
+    assert wb.sheetnames == ["Findings", "Tables", "Comparisons", "Groups", "Sums", "Chart",
+                             "Audit", "About"]
+    # the same figures as the report of the values themselves (the in-memory sheetfuncs call)
+    plain = reports["unequal"][2]
+    for key in NAMES:
+        assert _value(wb, key) == _value(plain, key), key
+    about = {r[0]: r[1] for r in wb["About"].iter_rows(values_only=True) if r[0]}
+    assert about["Engine"].startswith("DuckDB ") and about["Rows read"] == g.n_total
+    assert about["SQL source (after FROM)"].startswith("read_parquet(")
 
 
 def test_infinite_f_stays_a_word_after_recalculation(batch):

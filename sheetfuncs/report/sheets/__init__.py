@@ -1,8 +1,8 @@
 """The report's sheets, one module per sheet, laid out from the results of
 :func:`sheetfuncs.stats.analyse` (none computes a statistic).
 
-``findings``, ``tables``, ``comparisons``, ``groups``, ``chart``, ``audit`` and ``about`` lay
-their sheet out on a :class:`~sheetfuncs.report.grid.Grid`; ``data`` streams the Data sheets.
+``findings``, ``tables``, ``comparisons``, ``groups``, ``sums`` (for rows that stayed in a
+database), ``chart``, ``audit`` and ``about`` lay their sheet out on a :class:`~sheetfuncs.report.grid.Grid`; ``data`` streams the Data sheets.
 Shared pieces: ``styles`` (the look and the conditional-format marks), ``tabular`` (result
 tables styled by column), ``data_layout`` (where every value sits on the Data sheets) and
 ``references`` (the published source of every method). The Audit sheet holds formulas only:
@@ -18,10 +18,11 @@ from .data_layout import DataLayout, Segment
 from .findings import build_findings
 from .groups import build_groups
 from .styles import p_rule
+from .sums import SumsColumns, build_sums
 from .tables import NAMES, Positions, build_tables
 
 __all__ = [
     "DataLayout", "Segment", "NAMES", "Positions", "Progress", "build_findings",
     "build_tables", "build_comparisons", "build_groups", "build_chart", "build_audit", "build_about",
-    "write_data", "input_log", "p_rule",
+    "write_data", "input_log", "p_rule", "SumsColumns", "build_sums",
 ]

@@ -80,9 +80,36 @@ def build_about(an: ReportContext, *, source: InputSource | None, written: str, 
     return g
 
 
+def _origin_items(out: _Lines, an: ReportContext) -> None:
+    """Rows read by a database engine: the engine, what was read, the filter, the rows."""
+    o = an.origin
+    left_int = INT_STYLE.but(halign="left")
+    out.item("Engine", f"{o.engine} {o.engine_version}")
+    out.item("Rows read from", o.source)
+    out.item("SQL source (after FROM)", o.from_sql)
+    out.item("Filter (WHERE)", o.where or "none")
+    out.item("Rows read", o.rows_read, left_int)
+    out.item("Rows with no group label (left out)", o.null_labels, left_int)
+    out.item("Missing values (NULL or NaN) left out", sum(o.missing), left_int)
+    out.item("Groups", an.k, left_int)
+    out.item("Values used", an.n_total, left_int)
+    for note in o.notes:
+        out.bullet(note)
+    if an.from_sums:
+        out.item("Exact sums", "on the Sums sheet (the values stayed in the database)")
+    else:
+        out.item("Values", "fetched from the database: some have more than 15 significant "
+                 "digits, which no exact sum holds (floating-point path)")
+
+
 def _input_items(out: _Lines, an: ReportContext, source: InputSource | None, data_sheets: tuple[str, ...]) -> None:
     gr = an.groups
     r = an.reading
+    if an.origin is not None:
+        _origin_items(out, an)
+        if gr is not None:  # values fetched from the database (more than 15 significant digits)
+            out.item("Data sheets", ", ".join(data_sheets))
+        return
     if r is not None:
         out.item("File", str(r.path))
         out.item("Block read", r.where)

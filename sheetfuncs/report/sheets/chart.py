@@ -38,16 +38,25 @@ _PALETTE = ("4472C4", "ED7D31", "70AD47", "7F6000", "5B9BD5", "C00000", "7030A0"
 _ONE_VALUE = "one value: no interval, drawn without an error bar"
 
 
-def build_chart(an: ReportContext, layout: DataLayout) -> Grid:
-    """The Chart sheet of ``an``, whose data are laid out as ``layout``."""
+def build_chart(an: ReportContext, layout: DataLayout | None) -> Grid:
+    """The Chart sheet of ``an``, whose data are laid out as ``layout`` (``None``: the values
+    stayed in a database, and only the means chart is drawn)."""
     g = Grid("Chart")
-    k = an.groups.k
+    k = an.k
     unit = f" ({an.unit})" if an.unit else ""
     put_title(g, f"Chart · {an.response}{unit} by {an.factor}",
-              f"Group means with {an.conf:.0%} t intervals, and the individual values")
+              f"Group means with {an.conf:.0%} t intervals"
+              + (", and the individual values" if layout is not None else ""))
     top = _MEANS_TOP
     last = _put_means_table(g, an, top)
     g.charts.append((_means_chart(g.name, an, top, last), "A4"))
+    g.widths = {1: 10.0, 2: 18.0, 3: 14.0, 4: 12.0, 5: 12.0, 6: 10.0, 7: 10.0}
+    g.freeze = None
+    if layout is None:
+        g.put(22, 1, "The individual values stayed in the database, so no chart of them is "
+              "drawn; the Sums sheet holds what the analysis was computed from.", NOTE)
+        g.merge(22, 1, 22, 7)
+        return g
     scatter = _values_chart(an)
     sample = layout.n_values > _DIRECT_LIMIT
     merged = k > MAX_GROUP_SERIES  # one series per group would pass the host's series limit
@@ -61,8 +70,6 @@ def build_chart(an: ReportContext, layout: DataLayout) -> Grid:
     _axes_visible(scatter)
     scatter.width, scatter.height = 17.0, 8.5
     g.charts.append((scatter, "A22"))
-    g.widths = {1: 10.0, 2: 18.0, 3: 14.0, 4: 12.0, 5: 12.0, 6: 10.0, 7: 10.0}
-    g.freeze = None
     return g
 
 
@@ -86,7 +93,7 @@ def _put_means_table(g: Grid, an: ReportContext, top: int) -> int:
             g.put(r, 5, math.nan)
             g.put(r, 6, 0.0, comment=_ONE_VALUE)
             g.put(r, 7, 0.0, comment=_ONE_VALUE)
-    return top + an.groups.k
+    return top + an.k
 
 
 def _means_chart(sheet: str, an: ReportContext, top: int, last: int) -> LineChart:
@@ -113,7 +120,7 @@ def _means_chart(sheet: str, an: ReportContext, top: int, last: int) -> LineChar
 
 def _values_chart(an: ReportContext) -> ScatterChart:
     """The values chart's frame: titles, and an x axis of group positions 1..k."""
-    k = an.groups.k
+    k = an.k
     unit = f" ({an.unit})" if an.unit else ""
     scatter = ScatterChart()
     scatter.title = "Individual values, with the group means"
