@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from ..input import Groups
 from ..stats import KruskalResult, PairRow, PairwiseResult, Unavailable, WelchResult, df_text, sentence
 from .context import ReportContext
 from .formats import format_measure, format_number, format_p, format_sig
@@ -418,21 +419,18 @@ _READ_NAMES = {"oneway": "the one-way F test", "welch": "Welch's test",
                "kruskal": "the Kruskal–Wallis rank test"}
 
 
-def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...], tuple[str, ...]]:
-    """(notes, possible-typo notes). The typo notes are shown once, under the answer; the notes
-    only point to them."""
-    g = an.groups
+def _input_notes(g: Groups) -> tuple[list[str], tuple[str, ...]]:
+    """Notes on the groups as read (case typos, renames and drops, input cells not used);
+    rows that stayed in a database have none: what was left out is in the data-read lines."""
     notes: list[str] = []
-    # without values (rows that stayed in a database) what was left out is in the data-read lines
-    typos = tuple("Possible typo: " + n for n in g.case_notes) if g is not None else ()
+    typos = tuple("Possible typo: " + n for n in g.case_notes)
     if typos:
         notes.append(
             f"Labels that differ only in case are kept as separate groups ({len(typos)} possible "
             f"typo{'' if len(typos) == 1 else 's'}, listed under the answer above)."
         )
-    if g is not None:
-        notes += [n[:1].upper() + n[1:] + "." for n in g.notes if n not in g.case_notes]  # renames, drops
-    ignored = [c for c in g.cells if c.action == "ignored"] if g is not None else []
+    notes += [n[:1].upper() + n[1:] + "." for n in g.notes if n not in g.case_notes]  # renames, drops
+    ignored = [c for c in g.cells if c.action == "ignored"]
     if ignored:
         kinds: dict[str, int] = {}
         for c in ignored:
@@ -443,6 +441,14 @@ def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...
             "as the spreadsheet's own statistics functions skip them; each is listed with its "
             "address on the Data sheet."
         )
+    return notes, typos
+
+
+def _data_notes(an: ReportContext, read: str = "oneway") -> tuple[tuple[str, ...], tuple[str, ...]]:
+    """(notes, possible-typo notes). The typo notes are shown once, under the answer; the notes
+    only point to them."""
+    g = an.groups
+    notes, typos = _input_notes(g) if g is not None else ([], ())
     ones = [s.label for s in an.describe if s.n == 1]
     if ones:
         notes.append(
