@@ -11,9 +11,7 @@ from __future__ import annotations
 
 from collections import Counter
 
-import duckdb
 import numpy as np
-import pandas as pd
 import pytest
 
 from sheetfuncs.engines import analyse_sql
@@ -22,9 +20,10 @@ from sheetfuncs.engines.moments import sums_from_relation
 from sheetfuncs.engines.passes import group_centres, kept_rows
 from sheetfuncs.engines.source import opened, run
 from sheetfuncs.stats import analyse
-from tests.engines.test_analysis import _check_equal, _random, same
 from tests.support import nist
-from tests.support.engines import frame, parquet_file, sorted_groups
+from tests.support.engines import (
+    check_analysis_equal, datasets_parquet, parquet_file, random_decimal_groups, same, sorted_groups,
+)
 from tests.support.spark import decimal_frame
 
 
@@ -36,7 +35,7 @@ def test_nist_on_spark_equals_in_memory_and_duckdb(spark_session, name, tmp_path
     path = parquet_file(tmp_path / "d.parquet", data.groups)
     got = analyse_sql(spark_session.read.parquet(str(path)), group="g", value="x")
     assert nist.lre(got.analysis.oneway.f, data.certified.f) >= 14
-    _check_equal(got, data.groups)
+    check_analysis_equal(got, data.groups)
     assert same(got.analysis.checks.normality, analyse(sorted_groups(data.groups)).checks.normality)
     duck = analyse_sql(path, group="g", value="x")
     assert same(got.analysis, duck.analysis) and got.sums == duck.sums
@@ -48,27 +47,19 @@ def test_decimal_column_on_spark_equals_in_memory(spark_session, tmp_path):
     # NIST StRD SiRstv as DECIMAL(38, 4) in Spark; the in-memory sheetfuncs call, bit for bit
     data = nist.load("SiRstv")
     got = analyse_sql(decimal_frame(spark_session, data.text_values, tmp_path), group="g", value="x")
-    _check_equal(got, data.groups)
+    check_analysis_equal(got, data.groups)
     assert same(got.analysis.checks.normality, analyse(sorted_groups(data.groups)).checks.normality)
 
 
 def test_random_data_with_ties_on_spark_equal_in_memory(spark_session, tmp_path):
     # seeded random decimal data with ties and unequal groups (invented), one DataFrame, one
     # dataset per filter: the in-memory sheetfuncs call, bit for bit, normality included
-    sets = [_random(seed) for seed in (0, 4, 5, 12)]
-    parts = []
-    for i, groups in enumerate(sets):
-        f = frame(groups)
-        f["ds"] = i
-        parts.append(f)
-    every = pd.concat(parts)  # noqa: F841 (read by DuckDB)
-    path = tmp_path / "random.parquet"
-    duckdb.connect().execute(f"COPY (SELECT ds, g, CAST(x AS DOUBLE) AS x FROM every) TO '{path}' (FORMAT parquet)")
-    df = spark_session.read.parquet(str(path))
+    sets = [random_decimal_groups(seed) for seed in (0, 4, 5, 12)]
+    df = spark_session.read.parquet(str(datasets_parquet(tmp_path / "random.parquet", sets)))
     for i, groups in enumerate(sets):
         method = "holm" if i % 2 else "tukey"
         got = analyse_sql(df, group="g", value="x", where=f"ds = {i}", method=method)
-        _check_equal(got, groups, method=method)
+        check_analysis_equal(got, groups, method=method)
         assert same(got.analysis.checks.normality, analyse(sorted_groups(groups)).checks.normality), i
 
 
