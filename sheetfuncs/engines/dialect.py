@@ -18,7 +18,7 @@ spell differently come from a :class:`Dialect`:
 * the middle values of a group (:mod:`.passes`): DuckDB's ``quantile_disc(m, 0.5)`` is the
   lower middle value, exactly in the column's type; Spark's ``percentile_disc`` returns a DOUBLE
   (inexact beyond 2**53), so Spark has no such aggregate (:meth:`Dialect.lower_middle` gives
-  ``None``) and the middle ranks are picked with ``row_number()`` instead;
+  ``None``) and the middle ranks are found from running sums of the counts per distinct value;
 * the seeded sample of rows (:meth:`Dialect.sample`): DuckDB's
   ``USING SAMPLE reservoir(N ROWS) REPEATABLE (seed)``; Spark has no repeatable reservoir, so
   the rows are ordered by ``xxhash64(seed, g, x, k)``, where ``k`` numbers the copies of equal

@@ -6,8 +6,8 @@ queries over the same rows (a NULL group label, or a missing value, leaves a row
 
 * :func:`group_centres` — per group the smallest and largest value and the two middle values
   (``quantile_disc(x, 0.5)`` is the lower middle value, ``-quantile_disc(-x, 0.5)`` the upper;
-  equal for an odd count; on Spark the values of ranks ``(n + 1) div 2`` and ``n div 2 + 1``
-  by ``row_number()``), in the data's unit and as integers ``m = value * 10**scale``.
+  equal for an odd count; on Spark the values of ranks ``(n + 1) div 2`` and ``n div 2 + 1``,
+  from running sums of the counts per distinct value), in the data's unit and as integers ``m = value * 10**scale``.
 * :func:`levene_sql` — Levene's test from exact integer sums of the absolute deviations: from
   the median, ``w = |2 m - (lo + hi)|`` (twice the deviation, a whole number); from the mean,
   ``w = |n_i m - sum_i m|`` (``n_i`` times it). Their per-group sums are exact (DuckDB's
@@ -122,18 +122,21 @@ def _order(sums: GroupSums, got: list[tuple]) -> list[tuple]:
 
 def _middles(rel: Relation, rows: str, c: str) -> str:
     """A query of ``g``, ``lo``, ``hi``: per group of the query ``rows`` the two middle values
-    of its column ``c`` (NULL left out), by the dialect's aggregate or by their ranks."""
+    of its column ``c`` (NULL left out), by the dialect's aggregate or else by ranks: the
+    counts per distinct value, summed in order, reach ``(n + 1) div 2`` at the lower middle
+    value and ``n div 2 + 1`` at the upper (sorting the distinct values only, not every row)."""
     low = rel.dialect.lower_middle(c)
     if low is not None:
         return f"SELECT g, {low} AS lo, -{rel.dialect.lower_middle('-' + c)} AS hi FROM ({rows}) GROUP BY g"
     div = rel.dialect.intdiv
+    counts = f"SELECT g, {c} AS v, count(*) AS k FROM ({rows}) WHERE {c} IS NOT NULL GROUP BY g, {c}"
     ranked = (
-        f"SELECT g, {c} AS c, row_number() OVER (PARTITION BY g ORDER BY {c}) AS r, "
-        f"count(*) OVER (PARTITION BY g) AS n FROM ({rows}) WHERE {c} IS NOT NULL"
+        "SELECT g, v, sum(k) OVER (PARTITION BY g ORDER BY v ROWS BETWEEN UNBOUNDED PRECEDING "
+        f"AND CURRENT ROW) AS r, sum(k) OVER (PARTITION BY g) AS n FROM ({counts})"
     )
     return (
-        f"SELECT g, min(c) AS lo, max(c) AS hi FROM ({ranked}) "
-        f"WHERE r = ({div('(n + 1)', '2')}) OR r = ({div('n', '2')}) + 1 GROUP BY g"
+        f"SELECT g, min(v) FILTER (WHERE r >= ({div('(n + 1)', '2')})) AS lo, "
+        f"min(v) FILTER (WHERE r >= ({div('n', '2')}) + 1) AS hi FROM ({ranked}) GROUP BY g"
     )
 
 
