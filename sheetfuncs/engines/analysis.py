@@ -66,7 +66,7 @@ def analyse_sql(
 ) -> SqlAnalysis:
     """Every analysis of ``value`` by ``group`` (see :func:`sheetfuncs.analyse` for ``alpha``,
     ``method``, ``control``, ``conf`` and ``comparisons``) with the sums computed inside
-    DuckDB. ``source``, ``where`` and ``missing`` are as in :func:`sheetfuncs.oneway_sql`.
+    the engine (DuckDB or Spark). ``source``, ``where`` and ``missing`` are as in :func:`sheetfuncs.oneway_sql`.
 
     The exact path gives the results of :func:`sheetfuncs.analyse` on the same values: to the
     last bit for everything from the sums, the median-centred Levene test and Kruskal–Wallis;

@@ -14,7 +14,18 @@ spell differently come from a :class:`Dialect`:
 * rounding a double to an integer: ``round`` (DuckDB); ``rint`` in Spark, whose ``round`` on
   doubles goes through Java's BigDecimal (slow). The tie rule does not matter: every rounded
   value is checked by ``r / 10**D = x``;
-* integer division ``//`` (DuckDB) and ``div`` (Spark); ``list`` and ``collect_list``.
+* integer division ``//`` (DuckDB) and ``div`` (Spark); ``list`` and ``collect_list``;
+* the middle values of a group (:mod:`.passes`): DuckDB's ``quantile_disc(m, 0.5)`` is the
+  lower middle value, exactly in the column's type; Spark's ``percentile_disc`` returns a DOUBLE
+  (inexact beyond 2**53), so Spark has no such aggregate (:meth:`Dialect.lower_middle` gives
+  ``None``) and the middle ranks are found from running sums of the counts per distinct value;
+* the seeded sample of rows (:meth:`Dialect.sample`): DuckDB's
+  ``USING SAMPLE reservoir(N ROWS) REPEATABLE (seed)``; Spark has no repeatable reservoir, so
+  the rows are ordered by ``xxhash64(seed, g, x, k)``, where ``k`` numbers the copies of equal
+  rows (``row_number()`` over ``g, x``), and the first N are taken. Equal rows are
+  interchangeable, so the sample's values depend only on the seed and the multiset of rows:
+  not on the partitioning, the files' order or the number of cores. xxhash64 is Spark's
+  documented 64-bit hash (seed 42), stable across versions.
 
 Literals are the same in both: every power of ten is cast explicitly (``1000.0`` is a DECIMAL
 in both engines).
@@ -76,6 +87,15 @@ class Dialect:
         """The aggregate that gathers ``x`` into one list per group."""
         return f"list({x})"
 
+    def lower_middle(self, x: str) -> str | None:
+        """The aggregate giving the lower middle value of ``x`` per group, exactly in its type
+        (``None``: the engine has none; the middle ranks are picked with window functions)."""
+        return f"quantile_disc({x}, 0.5)"
+
+    def sample(self, rows: str, n: int, seed: int) -> str:
+        """``g, x`` of a seeded random sample of ``n`` of the rows of the query ``rows``."""
+        return f"SELECT g, x FROM ({rows}) USING SAMPLE reservoir({n} ROWS) REPEATABLE ({int(seed)})"
+
 
 @dataclass(frozen=True)
 class SparkDialect(Dialect):
@@ -108,6 +128,16 @@ class SparkDialect(Dialect):
 
     def collect(self, x: str) -> str:
         return f"collect_list({x})"
+
+    def lower_middle(self, x: str) -> str | None:
+        return None
+
+    def sample(self, rows: str, n: int, seed: int) -> str:
+        keyed = f"SELECT g, x, row_number() OVER (PARTITION BY g, x ORDER BY x) AS k FROM ({rows})"
+        return (
+            f"SELECT g, x FROM ({keyed}) ORDER BY xxhash64(CAST({int(seed)} AS INT), g, x, k), "
+            f"g, x, k LIMIT {int(n)}"
+        )
 
 
 DUCKDB = Dialect()

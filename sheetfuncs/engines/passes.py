@@ -1,15 +1,17 @@
-"""Second passes inside DuckDB for the analyses that need more than per-group sums.
+"""Second passes inside the engine (DuckDB or Spark) for the analyses that need more than
+per-group sums.
 
 After the first pass (:mod:`sheetfuncs.engines.moments`) each of these runs one or two more
 queries over the same rows (a NULL group label, or a missing value, leaves a row out):
 
 * :func:`group_centres` — per group the smallest and largest value and the two middle values
   (``quantile_disc(x, 0.5)`` is the lower middle value, ``-quantile_disc(-x, 0.5)`` the upper;
-  equal for an odd count), in the data's unit and as integers ``m = value * 10**scale``.
+  equal for an odd count; on Spark the values of ranks ``(n + 1) div 2`` and ``n div 2 + 1``,
+  from running sums of the counts per distinct value), in the data's unit and as integers ``m = value * 10**scale``.
 * :func:`levene_sql` — Levene's test from exact integer sums of the absolute deviations: from
   the median, ``w = |2 m - (lo + hi)|`` (twice the deviation, a whole number); from the mean,
   ``w = |n_i m - sum_i m|`` (``n_i`` times it). Their per-group sums are exact (DuckDB's
-  checked 128-bit integers), and the one-way F on the deviations is formed from them as an exact
+  checked 128-bit integers; Spark's checked DECIMAL(38, 0) under ANSI mode), and the one-way F on the deviations is formed from them as an exact
   rational, rounded once (:func:`sheetfuncs.stats.levene_result`). Median-centred, this is the
   in-memory :func:`sheetfuncs.levene` to the last bit whenever that one works in decimal
   integers (every value of at most 15 significant digits); mean-centred it is exact, where the
@@ -23,6 +25,8 @@ queries over the same rows (a NULL group label, or a missing value, leaves a row
   in-memory test is run (the same result). Above that, Shapiro–Wilk runs on a random sample of
   that many rows, drawn by DuckDB's ``USING SAMPLE reservoir(N ROWS) REPEATABLE (seed)`` from
   the filtered rows: the same seed on the same rows and DuckDB version gives the same sample.
+  On Spark the sample is the rows first in the order of a seeded hash (:meth:`.Dialect.sample`):
+  the same seed on the same multiset of rows gives the same sample, whatever the partitioning.
   Each sampled value's residual is its value minus its group's exact mean (from the first
   pass), rounded once; a group of one value has no residual that informs and is left out.
 """
@@ -70,18 +74,18 @@ def _integers(rel: Relation, scale: int) -> str:
     rows = kept_rows(rel)
     if rel.kind == "double":
         p = f"CAST({10 ** scale} AS DOUBLE)"
-        r = f"round(x * {p})"
+        r = rel.dialect.rint(f"x * {p}")
         return (
             f"SELECT g, x, CASE WHEN abs({r}) < CAST(1e15 AS DOUBLE) AND {r} / {p} = x "
-            f"THEN CAST({r} AS HUGEINT) END AS m FROM ({rows})"
+            f"THEN CAST({r} AS {rel.dialect.wide}) END AS m FROM ({rows})"
         )
     if rel.kind == "decimal":
         s = rel.decimals
-        m = f"CAST(CAST(x AS DECIMAL(38, {s})) * CAST({10 ** s} AS DECIMAL(38, 0)) AS HUGEINT)"
+        m = f"CAST(CAST(x AS DECIMAL(38, {s})) * CAST({10 ** s} AS DECIMAL(38, 0)) AS {rel.dialect.wide})"
         if s != scale:
             raise InputError(f"internal: DECIMAL scale {s} differs from the sums' scale {scale}")
     else:
-        m = "CAST(x AS HUGEINT)"
+        m = f"CAST(x AS {rel.dialect.wide})"
     return f"SELECT g, x, {m} AS m FROM ({rows})"
 
 
@@ -116,18 +120,50 @@ def _order(sums: GroupSums, got: list[tuple]) -> list[tuple]:
     return [by[lab] for lab in sums.labels]
 
 
+def _middles(rel: Relation, rows: str, c: str) -> str:
+    """A query of ``g``, ``lo``, ``hi``: per group of the query ``rows`` the two middle values
+    of its column ``c`` (NULL left out), by the dialect's aggregate or else by ranks: the
+    counts per distinct value, summed in order, reach ``(n + 1) div 2`` at the lower middle
+    value and ``n div 2 + 1`` at the upper (sorting the distinct values only, not every row)."""
+    low = rel.dialect.lower_middle(c)
+    if low is not None:
+        return f"SELECT g, {low} AS lo, -{rel.dialect.lower_middle('-' + c)} AS hi FROM ({rows}) GROUP BY g"
+    div = rel.dialect.intdiv
+    counts = f"SELECT g, {c} AS v, count(*) AS k FROM ({rows}) WHERE {c} IS NOT NULL GROUP BY g, {c}"
+    ranked = (
+        "SELECT g, v, sum(k) OVER (PARTITION BY g ORDER BY v ROWS BETWEEN UNBOUNDED PRECEDING "
+        f"AND CURRENT ROW) AS r, sum(k) OVER (PARTITION BY g) AS n FROM ({counts})"
+    )
+    return (
+        f"SELECT g, min(v) FILTER (WHERE r >= ({div('(n + 1)', '2')})) AS lo, "
+        f"min(v) FILTER (WHERE r >= ({div('n', '2')}) + 1) AS hi FROM ({ranked}) GROUP BY g"
+    )
+
+
+def _centres_sql(rel: Relation, ints: str) -> str:
+    """Per group: the smallest and largest value, the two middle integers and the count of
+    values that do not scale exactly (one query where the engine has a middle-value aggregate)."""
+    low = rel.dialect.lower_middle("m")
+    if low is not None:
+        return (
+            f"SELECT g, min(x), max(x), {low}, -{rel.dialect.lower_middle('-m')}, "
+            f"count(*) FILTER (WHERE m IS NULL) FROM ({ints}) GROUP BY g"
+        )
+    ends = f"SELECT g, min(x) AS a, max(x) AS b, count(*) FILTER (WHERE m IS NULL) AS k FROM ({ints}) GROUP BY g"
+    return (
+        f"SELECT e.g, e.a, e.b, c.lo, c.hi, e.k FROM ({ends}) e "
+        f"LEFT JOIN ({_middles(rel, ints, 'm')}) c ON e.g = c.g"
+    )
+
+
 def group_centres(rel: Relation, sums: GroupSums) -> Centres:
     """The smallest, middle and largest values of every group (one query; a second one for the
     middle values in the data's unit only when some value does not scale exactly)."""
-    q = (
-        "SELECT g, min(x), max(x), quantile_disc(m, 0.5), -quantile_disc(-m, 0.5), "
-        f"count(*) FILTER (WHERE m IS NULL) FROM ({_integers(rel, sums.scale)}) GROUP BY g"
-    )
-    rows = _order(sums, run(rel.con, q))
+    rows = _order(sums, run(rel.con, _centres_sql(rel, _integers(rel, sums.scale))))
     inexact = sum(int(r[5]) for r in rows)
     p = 10**sums.scale
     if inexact:
-        q = f"SELECT g, quantile_disc(x, 0.5), -quantile_disc(-x, 0.5) FROM ({kept_rows(rel)}) GROUP BY g"
+        q = _middles(rel, kept_rows(rel), "x")
         middle = [(float(r[1]), float(r[2])) for r in _order(sums, run(rel.con, q))]
     else:  # an exact m is the value times 10**scale, and m / 10**scale rounds back to it
         middle = [(int(r[3]) / p, int(r[4]) / p) for r in rows]
@@ -151,12 +187,16 @@ def levene_sql(rel: Relation, sums: GroupSums, centres: Centres, center: str = "
             "deviations cannot be summed exactly in the database"
         )
     base = _integers(rel, sums.scale)
+    low = rel.dialect.lower_middle("m")
     if center == "median":  # lo + hi = quantile_disc(m, 0.5) - quantile_disc(-m, 0.5)
         w = "abs(2 * r.m - c.t)"
-        cte = f"c AS (SELECT g, quantile_disc(m, 0.5) - quantile_disc(-m, 0.5) AS t FROM ({base}) GROUP BY g)"
+        if low is not None:
+            cte = f"c AS (SELECT g, {low} - {rel.dialect.lower_middle('-m')} AS t FROM ({base}) GROUP BY g)"
+        else:
+            cte = f"c AS (SELECT g, lo + hi AS t FROM ({_middles(rel, base, 'm')}))"
     else:
         w = "abs(c.n * r.m - c.t)"
-        cte = f"c AS (SELECT g, CAST(count(*) AS HUGEINT) AS n, sum(m) AS t FROM ({base}) GROUP BY g)"
+        cte = f"c AS (SELECT g, CAST(count(*) AS {rel.dialect.wide}) AS n, sum(m) AS t FROM ({base}) GROUP BY g)"
     q = (
         f"WITH {cte}, d AS (SELECT r.g AS g, {w} AS w FROM ({base}) r JOIN c ON r.g = c.g) "
         "SELECT g, count(*), sum(w), sum(w * w), min(w), max(w) FROM d GROUP BY g"
@@ -196,13 +236,10 @@ def normality_sql(rel: Relation, sums: GroupSums, seed: int) -> NormalityResult:
     seeded random sample of that many rows (see the module docstring)."""
     total = sum(sums.n)
     if total <= SHAPIRO_WILK_MAX_N:
-        got = run(rel.con, f"SELECT g, list(x) FROM ({kept_rows(rel)}) GROUP BY g")
+        got = run(rel.con, f"SELECT g, {rel.dialect.collect('x')} FROM ({kept_rows(rel)}) GROUP BY g")
         arrays = {format_label(g): np.asarray(v, dtype=np.float64) for g, v in got}
         return shapiro_residuals(Groups(sums.labels, tuple(arrays[lab] for lab in sums.labels)))
-    q = (
-        f"SELECT g, x FROM ({kept_rows(rel)}) "
-        f"USING SAMPLE reservoir({SHAPIRO_WILK_MAX_N} ROWS) REPEATABLE ({int(seed)})"
-    )
+    q = rel.dialect.sample(kept_rows(rel), SHAPIRO_WILK_MAX_N, seed)
     mom = sums.moments()
     index = {lab: i for i, lab in enumerate(sums.labels)}
     res: list[float] = []

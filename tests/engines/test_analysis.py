@@ -11,39 +11,15 @@ import duckdb
 import numpy as np
 import pytest
 
-from sheetfuncs.engines import SqlAnalysis, analyse_sql
+from sheetfuncs.engines import analyse_sql
 from sheetfuncs.errors import InputError
-from sheetfuncs.input import Groups, as_groups
+from sheetfuncs.input import as_groups
 from sheetfuncs.stats import Unavailable, analyse
 from tests.support import nist
-from tests.support.engines import csv_file, double_table, parquet_file, sorted_groups
-
-#: The results derived from the sums (bit for bit on the exact path), and those of the second passes.
-FROM_SUMS = ("oneway", "welch", "effects", "pairwise", "letters", "unequal_pairs", "describe", "dunnett")
-
-
-def same(a: object, b: object) -> bool:
-    """Equal to the last bit: ``repr`` writes every float in full (and NaN as nan)."""
-    return repr(a) == repr(b)
-
-
-def _check_equal(got: SqlAnalysis, groups: dict, *, all_residuals: bool = True, **opts) -> None:
-    """Every figure as the in-memory call gives it; with a sample of residuals (``all_residuals``
-    false) the reading may differ, and only the sentences on the spreads are compared."""
-    mem = analyse(groups if isinstance(groups, Groups) else sorted_groups(groups), **opts)
-    an = got.analysis
-    assert an.groups is None and an.labels == mem.labels and an.counts == mem.counts
-    for f in FROM_SUMS:
-        assert same(getattr(an, f), getattr(mem, f)), f
-    chk, mchk = an.checks, mem.checks
-    for f in ("levene", "bartlett", "welch", "kruskal", "sd_ratio", "variances_unequal"):
-        assert same(getattr(chk, f), getattr(mchk, f)), f
-    if all_residuals:
-        assert (chk.read, chk.reasons) == (mchk.read, mchk.reasons)
-    else:
-        assert chk.reasons[:2] == mchk.reasons[:2]
-    assert same(an.kruskal, mem.kruskal)
-
+from tests.support.engines import (
+    check_analysis_equal, csv_file, double_table, parquet_file, random_decimal_groups, same,
+    sorted_groups,
+)
 
 @pytest.mark.parametrize("name", nist.NAMES)
 def test_nist_every_analysis_equals_in_memory(name, tmp_path):
@@ -52,7 +28,7 @@ def test_nist_every_analysis_equals_in_memory(name, tmp_path):
     got = analyse_sql(parquet_file(tmp_path / "d.parquet", data.groups), group="g", value="x")
     assert nist.lre(got.analysis.oneway.f, data.certified.f) >= 14
     n = sum(len(v) for v in data.groups.values())
-    _check_equal(got, data.groups, all_residuals=n <= 5000)
+    check_analysis_equal(got, data.groups, all_residuals=n <= 5000)
     mem = analyse(sorted_groups(data.groups))
     if n <= 5000:  # every residual tested: the in-memory result
         assert same(got.analysis.checks.normality, mem.checks.normality)
@@ -68,31 +44,18 @@ def test_csv_file_equals_in_memory(tmp_path):
     data = nist.load("SiRstv")
     got = analyse_sql(csv_file(tmp_path / "s.csv", data.text_values), group="g", value="x")
     assert nist.lre(got.analysis.oneway.f, data.certified.f) >= 14
-    _check_equal(got, data.groups)
-
-
-def _random(seed: int) -> dict[str, list[float]]:
-    """Seeded random decimal data with ties and unequal groups (invented; ``+ 0.0`` turns a
-    rounded -0.0 into 0.0: a database does not keep the sign of a zero median)."""
-    rng = np.random.default_rng(seed)
-    k = int(rng.integers(2, 7))
-    dec = int(rng.integers(0, 3))
-    centre = float(rng.choice([0.0, 12.5, -300.0, 1e5]))
-    return {
-        f"G{i}": [float(v) + 0.0 for v in np.round(rng.normal(centre + i * 0.2, 1 + i * 0.4, int(rng.integers(2, 60))), dec)]
-        for i in range(k)
-    }
+    check_analysis_equal(got, data.groups)
 
 
 @pytest.mark.parametrize("seed", range(30))
 def test_random_data_with_ties_equal_in_memory(seed):
     # the in-memory sheetfuncs call on the same values, bit for bit (normality too: under 5000 values)
-    groups = _random(seed)
+    groups = random_decimal_groups(seed)
     con = duckdb.connect()
     double_table(con, "t", groups)
     control = sorted(groups)[0] if seed % 3 == 0 else None
     got = analyse_sql((con, "t"), group="g", value="x", control=control, method="holm" if seed % 2 else "tukey")
-    _check_equal(got, groups, control=control, method="holm" if seed % 2 else "tukey")
+    check_analysis_equal(got, groups, control=control, method="holm" if seed % 2 else "tukey")
     mem = analyse(sorted_groups(groups), control=control)
     assert same(got.analysis.checks.normality, mem.checks.normality)
 
@@ -107,7 +70,7 @@ def test_decimal_table_and_filter_and_dropped():
     con.execute("INSERT INTO t VALUES ('L0', 0, NULL), ('L0', NULL, 3.5)")
     got = analyse_sql((con, "t"), group="head", value="w", where="line = 'L0'", missing="drop")
     groups = {str(h): [w for ln, hh, w in rows if hh == h] + ([None] if h == 0 else []) for h in (0, 2)}
-    _check_equal(got, as_groups(groups, missing="drop"))
+    check_analysis_equal(got, as_groups(groups, missing="drop"))
     o = got.origin
     assert (o.rows_read, o.null_labels, o.missing, o.where) == (52, 1, (1, 0), "line = 'L0'")
     assert o.notes == ("1 row with no group label (NULL) left out", '1 missing value (NULL or NaN) dropped: "0" 1')
@@ -120,7 +83,7 @@ def test_mean_centred_levene_within_tolerance():
     from sheetfuncs.engines.source import open_relation
     from sheetfuncs.stats import levene
     for seed in range(10):
-        groups = _random(100 + seed)
+        groups = random_decimal_groups(100 + seed)
         con = duckdb.connect()
         double_table(con, "t", groups)
         rel = open_relation((con, "t"), "g", "x", None)
@@ -134,7 +97,7 @@ def test_mean_centred_levene_within_tolerance():
 def test_kruskal_too_many_distinct_values_is_unavailable():
     # common practice: the table of (group, value) counts is capped; here the cap is lowered to 10
     con = duckdb.connect()
-    double_table(con, "t", _random(7))
+    double_table(con, "t", random_decimal_groups(7))
     got = analyse_sql((con, "t"), group="g", value="x", max_distinct=10)
     kw = got.analysis.kruskal
     assert isinstance(kw, Unavailable)
@@ -163,7 +126,7 @@ def test_sample_is_reproducible_and_seeded():
 
 def test_bad_options_give_one_line():
     con = duckdb.connect()
-    double_table(con, "t", _random(1))
+    double_table(con, "t", random_decimal_groups(1))
     with pytest.raises(InputError, match="^sheetfuncs: seed must be a whole number from 0 to 2147483647, not -1$"):
         analyse_sql((con, "t"), group="g", value="x", seed=-1)
     with pytest.raises(InputError, match="^sheetfuncs: max_distinct must be a whole number of at least 1, not 0$"):

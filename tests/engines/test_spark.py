@@ -10,8 +10,6 @@ from __future__ import annotations
 
 import sys
 
-import duckdb
-import pandas as pd
 import pytest
 
 import sheetfuncs as sf
@@ -21,7 +19,7 @@ from sheetfuncs.engines import source as engine_source
 from sheetfuncs.stats import oneway_from_sums
 from tests.engines.test_oneway import FIELDS, _random_datasets
 from tests.support import nist
-from tests.support.engines import assert_integer_sums, fields, frame, sorted_groups
+from tests.support.engines import assert_integer_sums, datasets_parquet, fields, sorted_groups
 from tests.support.spark import decimal_frame, double_frame
 
 ANSI = "spark.sql.ansi.enabled"
@@ -60,15 +58,7 @@ def test_200_random_decimal_datasets_equal_in_memory_to_the_last_bit(spark_sessi
     # all 200 datasets in one DataFrame, summed in one query grouped by dataset and label;
     # each dataset's analysis equals sheetfuncs.oneway's to the last bit (the Python call)
     sets = [g for g in _random_datasets(200, 20260313) if len(g) >= 2]
-    parts = []
-    for i, groups in enumerate(sets):
-        f = frame(groups)
-        f["ds"] = i
-        parts.append(f)
-    every = pd.concat(parts)  # noqa: F841 (read by DuckDB)
-    path = tmp_path / "random.parquet"
-    duckdb.connect().execute(f"COPY (SELECT ds, g, CAST(x AS DOUBLE) AS x FROM every) TO '{path}' (FORMAT parquet)")
-    df = spark_session.read.parquet(str(path))
+    df = spark_session.read.parquet(str(datasets_parquet(tmp_path / "random.parquet", sets)))
     df.createOrReplaceTempView("random_sets")
     query = "SELECT concat(CAST(ds AS STRING), '/', g) AS k, x FROM random_sets"
     sums = group_sums((spark_session, query), group="k", value="x")
