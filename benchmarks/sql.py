@@ -10,6 +10,8 @@ temporary Parquet file, then times, in the same run and on the same file:
   BY g`` (the baseline: one pass, no exactness);
 * ``oneway_sql``: :func:`sheetfuncs.oneway_sql` on the file (the user's path: the scale query,
   the exact sums, the rationals);
+* ``analyse_sql``: :func:`sheetfuncs.analyse_sql`, every analysis (the sums, then the second
+  passes: group centres, Levene, Kruskal–Wallis counts, the normality sample);
 * ``fetch``: the values fetched into numpy, sorted by group, and passed to
   :func:`sheetfuncs.oneway`;
 * ``spark``: :func:`sheetfuncs.oneway_sql` on the same file read by Spark in local mode
@@ -57,6 +59,9 @@ def var_samp():
 def pushdown():
     return oneway_sql(path, group="g", value="x")
 
+def analyse_all():
+    return sf.analyse_sql(path, group="g", value="x").analysis.oneway
+
 def fetch():
     con = quiet(duckdb.connect())
     sizes = con.execute("SELECT g, count(*) FROM read_parquet(?) GROUP BY g ORDER BY g", [path]).fetchall()
@@ -85,7 +90,8 @@ if what == "spark":
 def on_spark():
     return oneway_sql(spark.read.parquet(path), group="g", value="x")
 
-fn = {{"var_samp": var_samp, "oneway_sql": pushdown, "fetch": fetch, "spark": on_spark}}[what]
+fn = {{"var_samp": var_samp, "oneway_sql": pushdown, "analyse_sql": analyse_all, "fetch": fetch,
+       "spark": on_spark}}[what]
 seconds = best_time(fn, repeat)
 out = fn()
 peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024  # KiB on Linux -> MiB
@@ -131,7 +137,7 @@ def main() -> None:
         write_data(path, a.groups, a.size)
         print(f"{a.groups} groups x {a.size:,} rows from Parquet ({os.path.getsize(path) / 2**20:.0f} MiB), best of {a.repeat}")
         base = run(path, "var_samp", a.repeat)
-        names = ["var_samp", "oneway_sql"] + ([] if a.no_fetch else ["fetch"])
+        names = ["var_samp", "oneway_sql", "analyse_sql"] + ([] if a.no_fetch else ["fetch"])
         names += [] if a.no_spark else ["spark"]
         for name in names:
             r = base if name == "var_samp" else run(path, name, a.repeat)

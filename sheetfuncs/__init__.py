@@ -4,8 +4,9 @@ The layers, with imports running only downward: :mod:`~sheetfuncs.input` (from c
 groups), :mod:`~sheetfuncs.distributions`, :mod:`~sheetfuncs.stats` (the pure core: functions on
 numbers returning frozen result objects), then the fronts, which only convert arguments in and
 shape results out: :mod:`~sheetfuncs.worksheet` (the live worksheet functions, handed to xlwings
-by :mod:`sheetfuncs.udfs`), :mod:`~sheetfuncs.report` (the headless report writer) and
-:mod:`~sheetfuncs.cli` (the command line). This module is the public API of the library.
+by :mod:`sheetfuncs.udfs`), :mod:`~sheetfuncs.report` (the headless report writer),
+:mod:`~sheetfuncs.engines` (the analyses pushed down to DuckDB and Spark),
+:mod:`~sheetfuncs.templates` and :mod:`~sheetfuncs.cli` (the command line). This module is the public API of the library.
 """
 
 from importlib import import_module
@@ -33,6 +34,7 @@ _EXPORTS = {
     "detectable_effect": ".stats", "plan": ".stats", "power": ".stats", "sample_size": ".stats",
     "VarianceComponents": ".stats", "variance_components": ".stats",
     "oneway_sql": ".engines", "group_sums": ".engines", "GroupSums": ".engines",
+    "analyse_sql": ".engines", "SqlAnalysis": ".engines",
 }
 
 __version__ = "0.1.0"
@@ -43,8 +45,9 @@ __all__ = [
     "CellBlock", "LoadedGroups", "read_cells", "read_groups",
     # the one-way analysis, general linear test, F distribution, summaries
     "OneWayResult", "oneway", "oneway_from_summary",
-    # the same analysis pushed down to a database engine (DuckDB; pip install sheetfuncs[sql])
-    "oneway_sql", "group_sums", "GroupSums",
+    # the same analyses pushed down to a database engine (DuckDB: pip install sheetfuncs[sql];
+    # Spark: sheetfuncs[spark])
+    "oneway_sql", "group_sums", "GroupSums", "analyse_sql", "SqlAnalysis",
     "LinearTestResult", "ContrastResult", "linear_test", "contrast",
     "f_tail", "f_critical",
     "DescribeResult", "GroupSummary", "describe",
