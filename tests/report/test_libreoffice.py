@@ -157,6 +157,9 @@ def test_sums_report_has_the_sums_sheet_and_no_data_sheet(batch):
     about = {r[0]: r[1] for r in wb["About"].iter_rows(values_only=True) if r[0]}
     assert about["Engine"].startswith("DuckDB ") and about["Rows read"] == g.n_total
     assert about["SQL source (after FROM)"].startswith("read_parquet(")
+    words = [r[6] for r in wb["Audit"].iter_rows(values_only=True) if len(r) > 6 and r[6]]
+    assert "Σ of the groups' SS (from the Sums sheet)" in words
+    assert not any("SUMPRODUCT" in w or "DEVSQ" in w for w in words)  # no Data sheet to sum over
 
 
 def test_infinite_f_stays_a_word_after_recalculation(batch):

@@ -171,7 +171,8 @@ def _figures(an: ReportContext, g1: int, gk: int, d_all: str | None) -> list[_Fi
         _Figure("ss_between", "SS between", f"=SUMPRODUCT(C{g1}:C{gk},(D{g1}:D{gk}-B{{grand}})^2)", "ss_between",
                 "Σ n·(group mean − grand mean)²", square(ow.ss_between)),
         _Figure("ss_within", "SS within (residual)", f"=SUM(F{g1}:F{gk})", "ss_within",
-                "Σ of the groups' SUMPRODUCT of squared deviations", square(ow.ss_within)),
+                "Σ of the groups' SUMPRODUCT of squared deviations" if d_all is not None
+                else "Σ of the groups' SS (from the Sums sheet)", square(ow.ss_within)),
         total_fig,
         _Figure("df_between", "df between", "=B{k}-1", "df_between", "k − 1", INT_STYLE),
         _Figure("df_within", "df within", "=B{n}-B{k}", "df_within", "n − k", INT_STYLE),
