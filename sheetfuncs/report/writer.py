@@ -189,6 +189,8 @@ def write_report(
     that appears while the report is written (the last step creates the output exclusively);
     the input file (``source.path``) is never overwritten. Returns the path written. Raises
     :class:`~sheetfuncs.InputError` with a one-line message for bad input or options.
+
+    Length: the docstring documents every option; the body is a straight sequence of checks.
     """
     if isinstance(groups, LoadedGroups):  # what read_groups returned: its source and reading too
         source = groups.source if source is None else source
@@ -204,9 +206,10 @@ def write_report(
                  response=response, unit=unit, title=title, reading=reading)
     if progress is not None:
         progress("analysis", 1, 1)
-    call = _call(command, "write_report", dict(alpha=alpha, method=method, control=control, factor=factor,
-                                               response=response, unit=unit, title=title, paper=paper))
-    trace = make_trace(an, source_path=source.path if source else None, call=call, version=_version(),
+    opts = dict(alpha=alpha, method=method, control=control, factor=factor, response=response,
+                unit=unit, title=title, paper=paper)
+    trace = make_trace(an, source_path=source.path if source else None, version=_version(),
+                       call=_call(command, "write_report", opts),
                        reading_options=_check_mapping(reading_options), paper=paper)
     _write_workbook(an, target, source=source, progress=progress, row_limit=_row_limit, force=force,
                     trace=trace)
