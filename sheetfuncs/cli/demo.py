@@ -44,6 +44,7 @@ def run_demo(args: argparse.Namespace) -> int:
             demo_groups(), out,
             factor=DEMO_FACTOR, response=DEMO_RESPONSE, unit=DEMO_UNIT, title=DEMO_TITLE,
             force=replace, source=InputSource(path=None, sheet=DEMO_SHEET), progress=prog,
+            paper=args.paper, command=list(sys.argv),
         )
     finally:
         prog.finish()

@@ -202,6 +202,11 @@ def read_options(args: argparse.Namespace) -> dict[str, Any]:
     )
 
 
+def add_paper(group: Any) -> None:
+    group.add_argument("--paper", choices=("a4", "letter"), default="a4",
+                       help="paper size of every printed page (default a4)")
+
+
 def add_alpha(group: Any) -> None:
     group.add_argument("--alpha", type=real, default=0.05, metavar="A",
                        help="significance level, between 0 and 1 (default 0.05)")
@@ -277,6 +282,7 @@ def add_report_command(sub: Any) -> None:
                    help="label of a control group: adds Dunnett's comparisons with it "
                         "(default: none)")
     add_names(a, response=True)
+    add_paper(io_)
     add_other(rep, progress=True)
 
 
@@ -295,6 +301,7 @@ def add_demo_command(sub: Any) -> None:
                          "folder)")
     dg.add_argument("--force", action="store_true",
                     help="replace OUT.xlsx even when it is not a sheetfuncs demo report")
+    add_paper(dg)
     add_other(demo, progress=True)
 
 

@@ -136,13 +136,15 @@ def report_one(args: argparse.Namespace, inp: Path, out: Path, inputs: Sequence[
     """Read one input and write its report, after checking where the report goes; returns
     the one-line summary of what was read."""
     _check_out(args, out, inputs)
-    loaded = read_groups(inp, progress=prog, **read_options(args))
+    options = read_options(args)
+    loaded = read_groups(inp, progress=prog, **options)
     prog.consider_size(loaded.groups.n_total)
     write_report_file(
         loaded.groups, out,
         alpha=args.alpha, method=args.method, control=args.control,
         factor=args.factor, response=args.response, unit=args.unit, title=args.title,
         force=args.force, source=loaded.source, reading=loaded.reading, progress=prog,
+        paper=args.paper, command=list(sys.argv), reading_options=options,
         **({} if args.max_groups is None else {"max_groups": args.max_groups}),
     )
     return loaded.reading.summary(loaded.groups.labels, loaded.groups.counts)
@@ -159,7 +161,7 @@ def report_by_column(args: argparse.Namespace, inp: EngineInput, out: Path,
     write_sums_report(
         an, out, origin=res.origin,
         factor=args.factor, response=args.response, unit=args.unit, title=args.title,
-        force=args.force, progress=prog,
+        force=args.force, progress=prog, paper=args.paper, command=list(sys.argv),
         **({} if args.max_groups is None else {"max_groups": args.max_groups}),
     )
     return f"{an.n_total:,} values in {an.k} groups ({group_sizes(an.labels, an.counts)})"

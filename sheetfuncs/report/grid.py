@@ -31,7 +31,7 @@ from openpyxl.worksheet.properties import PageSetupProperties
 __all__ = [
     "Formula", "Style", "Grid", "PLAIN", "FONT", "MAX_TEXT", "INFINITE_NOTE", "UNDEFINED_NOTE",
     "safe_text", "quote_sheet", "cell_ref", "is_number", "apply_style", "make_cell", "shown_width",
-    "set_float", "setup_print",
+    "set_float", "setup_print", "Page",
 ]
 
 #: The longest text a cell holds (the host's limit).
@@ -187,6 +187,7 @@ class Grid:
     charts: list[tuple[Any, str]] = field(default_factory=list)
     landscape: bool = False
     print_rows: str | None = None
+    print_area: str | None = None
     merges: list[tuple[int, int, int, int]] = field(default_factory=list)
 
     @property
@@ -295,14 +296,16 @@ class Grid:
                 if self.widths.get(c, 9.0) < n:
                     self.widths[c] = n
 
-    def emit(self, ws: Any) -> None:
-        """Write the grid into an empty write-only worksheet."""
+    def emit(self, ws: Any, page: Page | None = None) -> None:
+        """Write the grid into an empty write-only worksheet (printed as ``page`` says)."""
         self.fit_numbers()
         for c, w in sorted(self.widths.items()):
             ws.column_dimensions[get_column_letter(c)].width = w
         if self.freeze:
             ws.freeze_panes = self.freeze
-        setup_print(ws, self.landscape, self.print_rows)
+        setup_print(ws, self.landscape, self.print_rows, page)
+        if self.print_area:
+            ws.print_area = self.print_area
         for r, h in self.row_heights().items():
             ws.row_dimensions[r].height = round(h, 1)
         for r, c, r2, c2 in self.merges:
@@ -375,9 +378,27 @@ def set_float(cell: Any, value: float) -> None:
     cell.data_type = "n"
 
 
-def setup_print(ws: Any, landscape: bool, print_rows: str | None) -> None:
-    """Printable: fit to one page wide, as many pages tall as needed."""
+@dataclass(frozen=True)
+class Page:
+    """What every printed page of a report carries: the paper (its code in the file format:
+    9 A4, 1 letter), the header's left and right texts and the footer's centre text (header
+    and footer codes such as ``&P`` already in place)."""
+
+    paper: int
+    left: str
+    right: str
+    footer: str
+
+
+def setup_print(ws: Any, landscape: bool, print_rows: str | None, page: Page | None = None) -> None:
+    """Printable: fit to one page wide, as many pages tall as needed; with ``page``, its paper,
+    header and footer."""
     ws.sheet_properties.pageSetUpPr = PageSetupProperties(fitToPage=True)
+    if page is not None:
+        ws.page_setup.paperSize = page.paper
+        ws.oddHeader.left.text = page.left
+        ws.oddHeader.right.text = page.right
+        ws.oddFooter.center.text = page.footer
     ws.page_setup.fitToWidth = 1
     ws.page_setup.fitToHeight = 0
     ws.page_setup.orientation = "landscape" if landscape else "portrait"

@@ -8,7 +8,9 @@ write-only mode, so a report of a million observations needs little memory.
 from __future__ import annotations
 
 import os
+import shlex
 import tempfile
+from collections.abc import Mapping
 from datetime import datetime, timezone
 from pathlib import Path
 from typing import Any
@@ -20,11 +22,12 @@ from ..errors import InputError
 from ..input import InputSource, LoadedGroups, Reading, RowsOrigin, as_groups, same_file
 from .context import ReportContext, prepare, prepare_sums
 from .findings import findings
-from .grid import safe_text
+from .grid import Page, safe_text
 from .sheets import (
     NAMES, DataLayout, Progress, build_about, build_audit, build_chart, build_comparisons,
     build_findings, build_groups, build_sums, build_tables, input_log, write_data,
 )
+from .trace import FOOTER_TEXT, PAPER_SIZES, Trace, check_paper, header_text, make_trace, python_call
 
 __all__ = [
     "write_report", "write_sums_report", "build_workbook", "timestamp", "ROW_LIMIT", "SHEET_ORDER", "DEFAULT_MAX_GROUPS",
@@ -91,9 +94,15 @@ def _check_target(path: Any, force: bool, source: InputSource | None) -> Path:
 
 
 def build_workbook(an: ReportContext, *, source: InputSource | None = None, progress: Progress | None = None,
-                   row_limit: int = ROW_LIMIT) -> Workbook:
-    """The report workbook for an analysis (not yet saved)."""
+                   row_limit: int = ROW_LIMIT, trace: Trace | None = None) -> Workbook:
+    """The report workbook for an analysis (not yet saved), traced and printed as ``trace``
+    says (default: A4, called from Python)."""
     source = _check_source(source)
+    if trace is None:
+        trace = make_trace(an, source_path=source.path if source else None, version=_version(),
+                           call=python_call("build_workbook", {}))
+    left, right = header_text(an.title, trace.identifier)
+    page = Page(PAPER_SIZES[trace.paper], left, right, FOOTER_TEXT)
     written = timestamp()
     find = build_findings(an, findings(an), written)
     tables, pos = build_tables(an)
@@ -113,7 +122,7 @@ def build_workbook(an: ReportContext, *, source: InputSource | None = None, prog
         audit, audit_refs = build_audit(an, layout, pos)
         data_names = layout.sheets
     chart = build_chart(an, layout)
-    about = build_about(an, source=source, written=written, version=_version(), data_sheets=data_names)
+    about = build_about(an, source=source, written=written, trace=trace, data_sheets=data_names)
 
     wb = Workbook(write_only=True)
     wb.properties.creator = "sheetfuncs"
@@ -127,9 +136,9 @@ def build_workbook(an: ReportContext, *, source: InputSource | None = None, prog
     for grid in after:
         targets[grid.name] = wb.create_sheet(grid.name)
     for grid in before + after:
-        grid.emit(targets[grid.name])
+        grid.emit(targets[grid.name], page)
     if layout is not None:
-        write_data(data_sheets, an, layout, log, progress)
+        write_data(data_sheets, an, layout, log, progress, page)
     for name in NAMES:
         wb.defined_names[name] = DefinedName(name, attr_text=pos.cells[name])
         wb.defined_names["audit_" + name] = DefinedName("audit_" + name, attr_text=audit_refs[name])
@@ -152,6 +161,9 @@ def write_report(
     reading: Reading | None = None,
     progress: Progress | None = None,
     max_groups: int = DEFAULT_MAX_GROUPS,
+    paper: str = "a4",
+    command: Any = None,
+    reading_options: Any = None,
     _row_limit: int = ROW_LIMIT,
 ) -> Path:
     """Write the formatted result workbook of a one-way analysis to ``path`` (an ``.xlsx``).
@@ -166,19 +178,26 @@ def write_report(
     ``reading`` the :class:`~sheetfuncs.input.Reading` of a file (what was read and what was
     left out: the Findings, Data and About sheets show it);
     ``progress(stage, done, total)`` is called during long work; ``max_groups`` limits the
-    number of groups (:data:`DEFAULT_MAX_GROUPS`; the comparisons grow with its square).
+    number of groups (:data:`DEFAULT_MAX_GROUPS`; the comparisons grow with its square);
+    ``paper`` ``"a4"`` or ``"letter"`` for every printed page; ``command`` the command line as
+    run (a front end passes ``sys.argv``; default: the Python call and its options) and
+    ``reading_options`` the options the data were read with (a mapping), both for the About
+    sheet. The input file, if any, is hashed (SHA-256) when the report is written.
 
     The workbook is written to a temporary file in the target folder and put into place at the
     end, so no partial file is ever left. An existing output is kept unless ``force``, also one
     that appears while the report is written (the last step creates the output exclusively);
     the input file (``source.path``) is never overwritten. Returns the path written. Raises
     :class:`~sheetfuncs.InputError` with a one-line message for bad input or options.
+
+    Length: the docstring documents every option; the body is a straight sequence of checks.
     """
     if isinstance(groups, LoadedGroups):  # what read_groups returned: its source and reading too
         source = groups.source if source is None else source
         reading = groups.reading if reading is None else reading
         groups = groups.groups
     source = _check_source(source)
+    paper = check_paper(paper)
     target = _check_target(path, force, source)
     groups = _check_group_count(as_groups(groups), max_groups)
     if progress is not None:
@@ -187,7 +206,13 @@ def write_report(
                  response=response, unit=unit, title=title, reading=reading)
     if progress is not None:
         progress("analysis", 1, 1)
-    _write_workbook(an, target, source=source, progress=progress, row_limit=_row_limit, force=force)
+    opts = dict(alpha=alpha, method=method, control=control, factor=factor, response=response,
+                unit=unit, title=title, paper=paper)
+    trace = make_trace(an, source_path=source.path if source else None, version=_version(),
+                       call=_call(command, "write_report", opts),
+                       reading_options=_check_mapping(reading_options), paper=paper)
+    _write_workbook(an, target, source=source, progress=progress, row_limit=_row_limit, force=force,
+                    trace=trace)
     return target
 
 
@@ -203,28 +228,54 @@ def write_sums_report(
     force: bool = False,
     progress: Progress | None = None,
     max_groups: int = DEFAULT_MAX_GROUPS,
+    paper: str = "a4",
+    command: Any = None,
 ) -> Path:
     """Write the report of an analysis of rows read by a database engine: ``analysis`` and
     ``origin`` are the ``analysis`` and ``origin`` of what
     :func:`sheetfuncs.engines.analyse_sql` returns (the options of the analysis were given
     there). When the values stayed in the database (``analysis.groups`` is ``None``), a Sums
     sheet with the exact per-group sums takes the place of the Data sheets and the Audit sheet
-    recomputes from it; the About sheet names the engine, the rows' source and the row count.
-    Otherwise as :func:`write_report`."""
+    recomputes from it; the About sheet names the engine, the rows' source and the row count
+    (and the file's SHA-256 when the source is a file). Otherwise as :func:`write_report`."""
     an = prepare_sums(analysis, origin=origin, factor=factor, response=response, unit=unit,
                       title=title)
+    paper = check_paper(paper)
     target = _check_target(path, force, None)
     _check_group_count(an, max_groups)
-    _write_workbook(an, target, source=None, progress=progress, row_limit=ROW_LIMIT, force=force)
+    call = _call(command, "write_sums_report", dict(factor=factor, response=response, unit=unit,
+                                                    title=title, paper=paper))
+    trace = make_trace(an, source_path=None, call=call, version=_version(), paper=paper)
+    _write_workbook(an, target, source=None, progress=progress, row_limit=ROW_LIMIT, force=force,
+                    trace=trace)
     return target
 
 
+def _call(command: Any, function: str, options: dict[str, Any]) -> str:
+    """The command line as run (a sequence of arguments, shown as a shell would take them), or
+    the Python call with its options."""
+    if command is None:
+        return python_call(function, options)
+    if isinstance(command, str) or not all(isinstance(x, str) for x in command):
+        raise InputError("command must be the command line as a list of texts (sys.argv), or None")
+    return shlex.join(command)
+
+
+def _check_mapping(options: Any) -> dict[str, Any]:
+    """The reading options as a dict (``None``: none recorded)."""
+    if options is None:
+        return {}
+    if not isinstance(options, Mapping):
+        raise InputError(f"reading_options must be a mapping of names to values, not {type(options).__name__}")
+    return dict(options)
+
+
 def _write_workbook(an: ReportContext, target: Path, *, source: InputSource | None,
-                    progress: Progress | None, row_limit: int, force: bool) -> None:
+                    progress: Progress | None, row_limit: int, force: bool, trace: Trace) -> None:
     """Build the workbook and put it at ``target`` through a temporary file."""
     tmp = _temp_file(target)
     try:
-        wb = build_workbook(an, source=source, progress=progress, row_limit=row_limit)
+        wb = build_workbook(an, source=source, progress=progress, row_limit=row_limit, trace=trace)
         if progress is not None:
             progress("saving", 0, 1)
         _save(wb, tmp, target, force)

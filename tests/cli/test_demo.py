@@ -100,3 +100,15 @@ def test_demo_help_says_what_it_replaces(capsys):
     text = " ".join(capsys.readouterr().out.split())
     assert "--force" in text and "not a sheetfuncs demo report" in text
     assert DEFAULT_DEMO_OUTPUT in text and "earlier demo report" in text
+
+
+def test_demo_on_letter_paper_has_the_identifier_in_every_header(tmp_path, capsys):
+    out = tmp_path / "d.xlsx"
+    code, _, err = run(["demo", "-o", str(out), "--paper", "letter"], capsys)
+    assert code == 0, err
+    wb = openpyxl.load_workbook(out)
+    about = {r[0]: r[1] for r in wb["About"].iter_rows(values_only=True) if r[0]}
+    assert about["Sheet"] == "Hardness"  # the sheet the Data sheet's addresses name
+    for ws in wb.worksheets:
+        assert ws.page_setup.paperSize == 1, ws.title  # letter (ECMA-376 code)
+        assert ws.oddHeader.right.text == f"Report {about['Report identifier']}", ws.title

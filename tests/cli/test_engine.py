@@ -6,6 +6,8 @@ in-memory sheetfuncs call): the exact path gives the same figures to the last pr
 
 from __future__ import annotations
 
+import hashlib
+
 import duckdb
 import openpyxl
 import pytest
@@ -138,3 +140,17 @@ def test_a_missing_database_file_is_one_line(tmp_path, capsys):
     code, _, err = run(["table", "--duckdb", str(tmp_path / "none.db"), "--query", "t",
                         "--group", "g", "--value", "x"], capsys)
     assert code == 1 and "no database file" in err and len(err.splitlines()) == 1
+
+
+def test_report_from_parquet_names_the_file_and_its_sha256(files, capsys):
+    tmp, pq, _, _, _ = files
+    out = tmp / "r.xlsx"
+    argv = ["report", str(pq), "--group", "g", "--value", "x", "-o", str(out), "--paper", "letter"]
+    code, _, err = run(argv, capsys)
+    assert code == 0, err
+    wb = openpyxl.load_workbook(out)
+    about = {r[0]: r[1] for r in wb["About"].iter_rows(values_only=True) if r[0]}
+    assert about["Input file (absolute path)"] == str(pq.resolve())
+    assert about["Input file SHA-256"] == hashlib.sha256(pq.read_bytes()).hexdigest()  # hashlib (reference library)
+    assert about["Data fingerprint (SHA-256)"] != about["Input file SHA-256"]  # the origin and sums as well
+    assert all(ws.page_setup.paperSize == 1 for ws in wb.worksheets)  # letter (ECMA-376 code)

@@ -8,6 +8,8 @@ from __future__ import annotations
 
 import math
 import os
+import shlex
+import sys
 
 import openpyxl
 
@@ -131,3 +133,20 @@ def test_report_that_appears_during_the_run_is_kept(tmp_path, capsys, monkeypatc
     code, stdout, err = run(["report", str(src), "-o", str(out), "--force"], capsys)
     assert code == 0 and stdout == f"wrote {out}\n"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["lots.csv", "r.xlsx"]
+
+
+def test_report_records_the_command_line_the_reading_options_and_the_paper(tmp_path, capsys, monkeypatch):
+    inp = small_csv(tmp_path)
+    out = tmp_path / "r.xlsx"
+    argv = ["report", str(inp), "-o", str(out), "--paper", "letter", "--layout", "wide"]
+    monkeypatch.setattr(sys, "argv", ["sheetfuncs", *argv])
+    code, _, err = run(argv, capsys)
+    assert code == 0, err
+    wb = openpyxl.load_workbook(out)
+    about = {r[0]: r[1] for r in wb["About"].iter_rows(values_only=True) if r[0]}
+    assert about["Written by"] == shlex.join(["sheetfuncs", *argv])
+    assert "layout='wide'" in about["Reading options"] and "labels='auto'" in about["Reading options"]
+    assert about["Paper"] == "Letter"
+    assert {ws.page_setup.paperSize for ws in wb.worksheets} == {1}  # letter (ECMA-376 code)
+    code, _, err = run(["report", str(inp), "-o", str(tmp_path / "s.xlsx"), "--paper", "legal"], capsys)
+    assert code == 2 and "argument --paper: invalid choice: 'legal' (choose from 'a4', 'letter')" in err

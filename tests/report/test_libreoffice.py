@@ -15,6 +15,8 @@ unequal-spreads scenario are rendered to PDF and PNG in a second one, to keep th
 from __future__ import annotations
 
 import math
+import re
+import subprocess
 
 import openpyxl
 import pytest
@@ -169,11 +171,51 @@ def test_infinite_f_stays_a_word_after_recalculation(batch):
     assert _value(wb, "audit_p_value") == 0
 
 
-def test_reports_render_to_pdf_and_png(batch):
+@pytest.fixture(scope="module")
+def pdfs(batch):
+    """The demo and the unequal-spreads report, and the demo on letter paper, rendered to PDF in
+    one LibreOffice call."""
     reports, _, tmp = batch
-    srcs = [reports["demo"][1], reports["unequal"][1]]
-    pdfs = lo.convert_many(srcs, "pdf", tmp / "pdf")
-    for pdf in pdfs:
+    letter = write_report(demo_groups(), tmp / "demo-letter.xlsx", factor=DEMO_FACTOR,
+                          response=DEMO_RESPONSE, unit=DEMO_UNIT, title=DEMO_TITLE, paper="letter")
+    srcs = [reports["demo"][1], reports["unequal"][1], letter]
+    return dict(zip(("demo", "unequal", "demo-letter"), lo.convert_many(srcs, "pdf", tmp / "pdf")))
+
+
+def _pdf_pages(pdf):
+    """Each page's size in whole points, short side first, and text (poppler's pdfinfo and
+    pdftotext)."""
+    info = subprocess.run(["pdfinfo", "-f", "1", "-l", "999", str(pdf)], capture_output=True,
+                          text=True, check=True, timeout=lo.TIMEOUT).stdout
+    sizes = [tuple(sorted(round(float(x)) for x in m)) for m in
+             re.findall(r"^Page +\d+ size: +([\d.]+) x ([\d.]+) pts", info, re.M)]
+    text = subprocess.run(["pdftotext", "-layout", str(pdf), "-"], capture_output=True, text=True,
+                          check=True, timeout=lo.TIMEOUT).stdout
+    pages = text.split("\f")
+    return sizes, pages[:len(sizes)]
+
+
+def test_letter_report_prints_letter_pages_each_with_the_identifier_and_its_number(pdfs):
+    ident = _ident(pdfs["demo-letter"])
+    sizes, pages = _pdf_pages(pdfs["demo-letter"])
+    assert len(sizes) >= 3 and set(sizes) == {(612, 792)}  # US letter, 8.5 x 11 in (common practice)
+    for i, page in enumerate(pages, 1):
+        assert f"Report {ident}" in page, i
+        assert re.search(rf"page {i} of {len(pages)}\b", page), i
+    a4_sizes, a4_pages = _pdf_pages(pdfs["demo"])  # the default paper
+    assert set(a4_sizes) == {(595, 842)}  # A4, 210 x 297 mm in whole points (common practice)
+    assert all(f"Report {_ident(pdfs['demo'])}" in p for p in a4_pages)
+
+
+def _ident(pdf):
+    """The report identifier on the About sheet of the report a PDF was made from."""
+    ws = openpyxl.load_workbook(pdf.parent.parent / f"{pdf.stem}.xlsx")["About"]
+    return next(r[1] for r in ws.iter_rows(values_only=True) if r[0] == "Report identifier")
+
+
+def test_reports_render_to_pdf_and_png(batch, pdfs):
+    _, _, tmp = batch
+    for pdf in (pdfs["demo"], pdfs["unequal"]):
         assert pdf.stat().st_size > 20_000
         assert pdf.read_bytes()[:5] == b"%PDF-"
         pages = lo.render_png(pdf, tmp / "png" / pdf.stem, first=1, last=2, dpi=50)

@@ -57,7 +57,7 @@ def test_report_of_a_file_logs_every_left_out_cell_and_counts_the_account(tmp_pa
     assert [wb["Data"][f"{c}2"].value for c in "FGHI"] == ["A3", "text in the data", '"n/a"', "left out"]
     about = {row[0]: row[1] for row in wb["About"].iter_rows(min_row=4, max_col=2, values_only=True)
              if row[0]}
-    assert about["Block read"] == "A1:B6" and about["How it was found"] == "the range given"
+    assert about["Range read"] == "A1:B6" and about["How it was found"] == "the range given"
     assert (about["Non-blank cells read"], about["Cells used (values and labels)"],
             about["Cells left out"]) == (12, 11, 1)
     assert "Read A1:B6 of lab.csv (the range given): 9 values in 2 groups (A 4, B 5)." in cells_text(

@@ -13,6 +13,7 @@ from ...stats import ExactMoments
 from ..context import ReportContext
 from ..findings import CAUTIONS
 from ..grid import Grid, Style
+from ..trace import Trace
 from .references import REFERENCES, reference_keys
 from .styles import HEADING, INT_STYLE, KEY, TEXT, put_title
 
@@ -52,21 +53,25 @@ class _Lines:
         self.r += 1
 
 
-def build_about(an: ReportContext, *, source: InputSource | None, written: str, version: str,
+def build_about(an: ReportContext, *, source: InputSource | None, written: str, trace: Trace,
                 data_sheets: tuple[str, ...]) -> Grid:
-    """The About sheet of ``an``, read from ``source``, written at ``written`` by sheetfuncs
-    ``version``, with its data on ``data_sheets``."""
+    """The About sheet of ``an``, read from ``source``, written at ``written`` as ``trace``
+    records it, with its data on ``data_sheets``."""
     g = Grid("About")
     put_title(g, "About this report", "Inputs, options, software and the methods behind every figure")
     out = _Lines(g, 4)
+    out.section("Record")
+    _record_items(out, trace, written)
+    out.gap()
     out.section("Input")
+    _file_items(out, trace)
     _input_items(out, an, source, data_sheets)
     out.gap()
     out.section("Options")
-    _option_items(out, an)
+    _option_items(out, an, trace)
     out.gap()
     out.section("Software and arithmetic")
-    _software_items(out, an, version, written)
+    _software_items(out, an, trace.version)
     out.gap()
     out.section("Method references")
     for key in reference_keys(an):
@@ -111,13 +116,15 @@ def _input_items(out: _Lines, an: ReportContext, source: InputSource | None, dat
             out.item("Data sheets", ", ".join(data_sheets))
         return
     if r is not None:
-        out.item("File", str(r.path))
-        out.item("Block read", r.where)
+        if r.sheet:
+            out.item("Sheet", str(r.sheet))
+        out.item("Range read", r.where)
         out.item("How it was found", "read from the sheet (no range given): the header, data "
                  "rows and columns found as the log on the Data sheet shows" if r.detected
                  else "the range given")
-    elif source is not None and source.path:
-        out.item("File", str(source.path))
+    elif source is not None and (source.path or source.sheet):
+        if not source.path:
+            out.item("Source", "data passed from Python (no file); cell addresses as on the sheet below")
         if source.sheet:
             out.item("Sheet", str(source.sheet))
         out.item("First cell of the range", source.address(0, 0))
@@ -140,7 +147,35 @@ def _input_items(out: _Lines, an: ReportContext, source: InputSource | None, dat
     out.item("Data sheets", ", ".join(data_sheets))
 
 
-def _option_items(out: _Lines, an: ReportContext) -> None:
+def _record_items(out: _Lines, trace: Trace, written: str) -> None:
+    """The identifier (also in every printed page's header), the call and the time."""
+    out.item("Report identifier", trace.identifier)
+    out.item("How it is made", "the first 12 hex digits of a SHA-256 of the data's fingerprint "
+             "(below), the options and the sheetfuncs version: the same inputs, options and "
+             "version give the same identifier")
+    out.item("Written by", trace.call)
+    out.item("Written (UTC)", written)
+    out.item("Paper", {"a4": "A4", "letter": "Letter"}[trace.paper])
+
+
+def _file_items(out: _Lines, trace: Trace) -> None:
+    """The input file (absolute path, size, SHA-256) and the data's fingerprint."""
+    if trace.input_path is not None:
+        out.item("Input file (absolute path)", trace.input_path)
+        if trace.input_sha256 is None:
+            out.item("Input file SHA-256", "none: the file was not found when the report was written")
+        else:
+            out.item("Input file size (bytes)", trace.input_size, INT_STYLE.but(halign="left"))
+            out.item("Input file SHA-256", trace.input_sha256)
+    if trace.data_sha256 != trace.input_sha256:
+        out.item("Data fingerprint (SHA-256)", trace.data_sha256)
+
+
+def _option_items(out: _Lines, an: ReportContext, trace: Trace) -> None:
+    if trace.reading_options:
+        out.item("Reading options", ", ".join(f"{k}={v}" for k, v in trace.reading_options))
+    else:
+        out.item("Reading options", "none recorded")
     out.item("alpha (significance level)", an.alpha, Style(num="0.####", halign="left"))
     out.item("Confidence level of intervals", an.conf, Style(num="0.##%", halign="left"))
     out.item("Pairwise method", an.method_name)
@@ -151,10 +186,15 @@ def _option_items(out: _Lines, an: ReportContext) -> None:
     out.item("Title", an.title)
 
 
-def _software_items(out: _Lines, an: ReportContext, version: str, written: str) -> None:
+def _software_items(out: _Lines, an: ReportContext, version: str) -> None:
+    import openpyxl
+    import scipy
+
     out.item("sheetfuncs version", version)
-    out.item("Python, numpy, scipy, openpyxl", _versions())
-    out.item("Written (UTC)", written)
+    out.item("numpy version", np.__version__)
+    out.item("scipy version", scipy.__version__)
+    out.item("openpyxl version", openpyxl.__version__)
+    out.item("Python version", platform.python_version())
     mom = an.moments
     if isinstance(mom, ExactMoments):  # the decimal-exact path (an.exact)
         scale = mom.scale
@@ -169,9 +209,3 @@ def _software_items(out: _Lines, an: ReportContext, version: str, written: str) 
     out.item("Centring constant (Audit)", f"{an.centre:f}")
     out.item("p-values", "upper tails from survival functions (never 1 − cdf), accurate far into the tail")
 
-
-def _versions() -> str:
-    import openpyxl
-    import scipy
-
-    return f"Python {platform.python_version()}, numpy {np.__version__}, scipy {scipy.__version__}, openpyxl {openpyxl.__version__}"

@@ -4,7 +4,8 @@ The means chart shows each group's mean with its t interval as error bars; the v
 shows the individual values of each group, spread a little sideways so that equal values stay
 visible, with the group means. Above 10,000 values a group of more than 201 values is plotted
 as 201 evenly spaced order statistics; above :data:`MAX_GROUP_SERIES` groups the values chart
-draws all groups as one series (spreadsheet programs allow 255 series per chart).
+draws all groups as one series (spreadsheet programs allow 255 series per chart). The sheet's
+print area covers the charts and their notes only: the chart data under them do not print.
 """
 
 from __future__ import annotations
@@ -52,7 +53,9 @@ def build_chart(an: ReportContext, layout: DataLayout | None) -> Grid:
     g.charts.append((_means_chart(g.name, an, top, last), "A4"))
     g.widths = {1: 10.0, 2: 18.0, 3: 14.0, 4: 12.0, 5: 12.0, 6: 10.0, 7: 10.0}
     g.freeze = None
+    g.print_area = f"A1:G{_NOTE_ROW + 1}"  # the charts and their notes: the chart data do not print
     if layout is None:
+        g.print_area = "A1:G22"
         g.put(22, 1, "The individual values stayed in the database, so no chart of them is "
               "drawn; the Sums sheet holds what the analysis was computed from.", NOTE)
         g.merge(22, 1, 22, 7)

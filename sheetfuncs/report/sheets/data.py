@@ -19,7 +19,7 @@ from openpyxl.cell import WriteOnlyCell
 from ...input import CellNote, InputSource
 from ...stats import centred_values
 from ..context import ReportContext
-from ..grid import Style, apply_style, make_cell, safe_text, setup_print
+from ..grid import Page, Style, apply_style, make_cell, safe_text, setup_print
 from .data_layout import DataLayout
 from .styles import TH
 
@@ -57,9 +57,9 @@ def input_log(an: ReportContext, source: InputSource | None) -> list[LogEntry]:
 
 
 def write_data(sheets: list[Any], an: ReportContext, layout: DataLayout, log: list[LogEntry],
-               progress: Progress | None) -> None:
+               progress: Progress | None, page: Page | None = None) -> None:
     """Stream the long-form data and the log of unused input cells (:func:`input_log`) over
-    the Data sheets."""
+    the Data sheets (printed as ``page`` says)."""
     header = _data_header(an)
     vfmt = an.precision.value_format()
     total = layout.n_values
@@ -67,7 +67,7 @@ def write_data(sheets: list[Any], an: ReportContext, layout: DataLayout, log: li
     values = _values(an)
     done = 0
     for s, ws in enumerate(sheets):
-        _start_sheet(ws, header)
+        _start_sheet(ws, header, page)
         rows_here = min(cap, max(total - s * cap, 0))
         done = _fill_sheet(ws, an, values, log[s * cap:(s + 1) * cap], rows_here, vfmt,
                            done, total, progress)
@@ -104,12 +104,12 @@ def _values(an: ReportContext) -> Iterator[tuple[int, float, float]]:
         yield from ((gi, v, c) for v, c in zip(a.tolist(), cen.tolist()))
 
 
-def _start_sheet(ws: Any, header: list[str]) -> None:
+def _start_sheet(ws: Any, header: list[str], page: Page | None) -> None:
     """Column widths, frozen header, print set-up and the header row of one Data sheet."""
     for col, w in zip("ABCDEFGHI", _WIDTHS):
         ws.column_dimensions[col].width = w
     ws.freeze_panes = "A2"
-    setup_print(ws, True, "1:1")
+    setup_print(ws, True, "1:1", page)
     ws.append([make_cell(ws, h, TH.but(wrap=False, halign="right" if j in (0, 2, 3) else None))
                if h else None for j, h in enumerate(header)])
 
