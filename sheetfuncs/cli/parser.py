@@ -329,18 +329,28 @@ def add_table_command(sub: Any) -> None:
 def add_plan_command(sub: Any) -> None:
     plan = add_command(
         sub, "plan", summary="values per group that a planned study needs",
-        usage="sheetfuncs plan --groups K --effect F [--power P] [--alpha A]",
+        usage="sheetfuncs plan --groups K (--effect F | --difference D --sd S) "
+              "[--power P | --n N] [--alpha A]",
         description="Values per group that a balanced one-way study needs to detect an "
-                    "effect of Cohen's size f with the given power (noncentral F).",
+                    "effect with the given power (noncentral F), or with --n the power of N "
+                    "values per group. Give the effect as Cohen's size f, or in the response's "
+                    "units: two group means D apart, the others midway between them (the least "
+                    "favourable configuration), with S the SD within groups.",
     )
     pg = plan.add_argument_group("study")
     pg.add_argument("--groups", type=whole, required=True, metavar="K",
                     help="number of groups, 2 or more (required)")
-    pg.add_argument("--effect", type=real, required=True, metavar="F",
-                    help="Cohen's effect size f (required; 0.10 small, 0.25 medium, "
-                         "0.40 large)")
-    pg.add_argument("--power", type=real, default=0.8, metavar="P",
+    pg.add_argument("--effect", type=real, metavar="F",
+                    help="Cohen's effect size f (0.10 small, 0.25 medium, 0.40 large)")
+    pg.add_argument("--difference", type=real, metavar="D",
+                    help="instead of --effect: the difference between two group means to "
+                         "detect, in the response's units (with --sd)")
+    pg.add_argument("--sd", type=real, metavar="S",
+                    help="the SD within groups, in the response's units (with --difference)")
+    pg.add_argument("--power", type=real, default=None, metavar="P",
                     help="chance of detecting the effect, between 0 and 1 (default 0.8)")
+    pg.add_argument("--n", type=whole, default=None, metavar="N",
+                    help="instead of --power: values per group; prints the power they give")
     add_alpha(pg)
     add_other(plan, progress=False)
 
