@@ -303,7 +303,9 @@ def add_table_command(sub: Any) -> None:
         sub, "table", summary="print the one-way table, the checks and the group summary",
         usage="sheetfuncs table INPUT [--json | --csv] [options]",
         description="Print the one-way table, the assumption checks and the group summary of "
-                    "one input file, as aligned text (default), JSON or CSV. Rows in a .parquet "
+                    "one input file, as aligned text (default), JSON or CSV; the JSON also "
+                    "holds the pairwise comparisons, the compact letters and the effect "
+                    "sizes. Rows in a .parquet "
                     "or .csv file or a DuckDB database are read by column (DATA.parquet --group "
                     "COL --value COL, or --duckdb FILE.db --query SQL --group COL --value COL).",
     )
@@ -321,6 +323,9 @@ def add_table_command(sub: Any) -> None:
     add_engine_options(tab)
     ta = tab.add_argument_group("analysis")
     add_alpha(ta)
+    ta.add_argument("--method", default=None, metavar="NAME",
+                    help="with --json: the pairwise comparison method, "
+                         + ", ".join(method_names()) + " (default tukey)")
     add_names(ta, response=False)
     add_other(tab, progress=True)
     tab.set_defaults(fmt="text")
