@@ -38,6 +38,9 @@ CAUTION = (
 
 
 DEFAULT_METHOD = "tukey"
+#: The most groups whose pairwise comparisons --json holds (the report's default limit; the
+#: comparisons grow with the square of the number of groups).
+MAX_PAIRED_GROUPS = 100
 
 
 def method_option(args: argparse.Namespace) -> str:
@@ -72,7 +75,8 @@ def run_table(args: argparse.Namespace) -> int:
         loaded = read_groups(args.input, progress=prog, **read_options(args))
     finally:
         prog.finish()
-    an = analysis(loaded, args.alpha, method, args.fmt == "json")
+    paired = args.fmt == "json" and loaded.groups.k <= MAX_PAIRED_GROUPS
+    an = analysis(loaded, args.alpha, method, paired)
     ck, desc, one = an.checks, an.describe, an.oneway.table(args.factor)
     g = loaded.groups
     print(f"{Path(args.input).name}: {loaded.reading.summary(g.labels, g.counts)}", file=sys.stderr)
