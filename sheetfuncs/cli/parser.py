@@ -310,7 +310,9 @@ def add_table_command(sub: Any) -> None:
         sub, "table", summary="print the one-way table, the checks and the group summary",
         usage="sheetfuncs table INPUT [--json | --csv] [options]",
         description="Print the one-way table, the assumption checks and the group summary of "
-                    "one input file, as aligned text (default), JSON or CSV. Rows in a .parquet "
+                    "one input file, as aligned text (default), JSON or CSV; the JSON also "
+                    "holds the pairwise comparisons, the compact letters and the effect "
+                    "sizes. Rows in a .parquet "
                     "or .csv file or a DuckDB database are read by column (DATA.parquet --group "
                     "COL --value COL, or --duckdb FILE.db --query SQL --group COL --value COL).",
     )
@@ -328,6 +330,9 @@ def add_table_command(sub: Any) -> None:
     add_engine_options(tab)
     ta = tab.add_argument_group("analysis")
     add_alpha(ta)
+    ta.add_argument("--method", default=None, metavar="NAME",
+                    help="with --json: the pairwise comparison method, "
+                         + ", ".join(method_names()) + " (default tukey)")
     add_names(ta, response=False)
     add_other(tab, progress=True)
     tab.set_defaults(fmt="text")
@@ -336,18 +341,28 @@ def add_table_command(sub: Any) -> None:
 def add_plan_command(sub: Any) -> None:
     plan = add_command(
         sub, "plan", summary="values per group that a planned study needs",
-        usage="sheetfuncs plan --groups K --effect F [--power P] [--alpha A]",
+        usage="sheetfuncs plan --groups K (--effect F | --difference D --sd S) "
+              "[--power P | --n N] [--alpha A]",
         description="Values per group that a balanced one-way study needs to detect an "
-                    "effect of Cohen's size f with the given power (noncentral F).",
+                    "effect with the given power (noncentral F), or with --n the power of N "
+                    "values per group. Give the effect as Cohen's size f, or in the response's "
+                    "units: two group means D apart, the others midway between them (the least "
+                    "favourable configuration), with S the SD within groups.",
     )
     pg = plan.add_argument_group("study")
     pg.add_argument("--groups", type=whole, required=True, metavar="K",
                     help="number of groups, 2 or more (required)")
-    pg.add_argument("--effect", type=real, required=True, metavar="F",
-                    help="Cohen's effect size f (required; 0.10 small, 0.25 medium, "
-                         "0.40 large)")
-    pg.add_argument("--power", type=real, default=0.8, metavar="P",
+    pg.add_argument("--effect", type=real, metavar="F",
+                    help="Cohen's effect size f (0.10 small, 0.25 medium, 0.40 large)")
+    pg.add_argument("--difference", type=real, metavar="D",
+                    help="instead of --effect: the difference between two group means to "
+                         "detect, in the response's units (with --sd)")
+    pg.add_argument("--sd", type=real, metavar="S",
+                    help="the SD within groups, in the response's units (with --difference)")
+    pg.add_argument("--power", type=real, default=None, metavar="P",
                     help="chance of detecting the effect, between 0 and 1 (default 0.8)")
+    pg.add_argument("--n", type=whole, default=None, metavar="N",
+                    help="instead of --power: values per group; prints the power they give")
     add_alpha(pg)
     add_other(plan, progress=False)
 

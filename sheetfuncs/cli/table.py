@@ -1,9 +1,12 @@
 """``sheetfuncs table``: the one-way table, the checks and the group summary of one input.
 
-The results come from the same core calls :func:`sheetfuncs.stats.analyse` makes for the report
-(moments, one-way table, checks, group summary; not the pairwise comparisons, which ``table``
-does not show and which grow with the square of the number of groups), and are printed as
-aligned text (default), JSON (``--json``, for pipelines) or CSV (``--csv``).
+The results come from the same core call :func:`sheetfuncs.stats.analyse` the report makes
+(moments, one-way table, checks, group summary, effect sizes), and are printed as aligned text
+(default), JSON (``--json``, for pipelines) or CSV (``--csv``). The JSON output also holds the
+pairwise comparisons (``--method``, Tukey–Kramer by default), the compact letters and the effect
+sizes with their intervals (:mod:`~sheetfuncs.cli.results`); the text and CSV outputs keep to
+the three tables, so the comparisons, which grow with the square of the number of groups, are
+computed only for ``--json``.
 """
 
 from __future__ import annotations
@@ -18,10 +21,11 @@ from typing import Any
 from ..input import LoadedGroups, group_sizes, read_groups
 from .output import aligned, cell_log, csv_safe, json_ready, records
 from .engine import by_column, engine_analysis, engine_inputs, origin_record, origin_lines
-from .parser import read_options
+from .parser import UsageError, read_options
 from .progress import Progress
+from .results import analysis_records
 
-__all__ = ["CAUTION", "LEFT_OUT_SHOWN", "read_table", "run_table"]
+__all__ = ["CAUTION", "DEFAULT_METHOD", "LEFT_OUT_SHOWN", "read_table", "run_table"]
 
 #: How many left-out entries the text output names (all are in the JSON output).
 LEFT_OUT_SHOWN = 8
@@ -33,30 +37,51 @@ CAUTION = (
 )
 
 
-def analysis(loaded: LoadedGroups, alpha: float, factor: str) -> tuple[Any, Any, list[list[Any]]]:
-    """The checks, the group summary and the one-way table (rows named by ``factor``), from the
-    core's one call; the comparisons, which table does not show, are not computed."""
+DEFAULT_METHOD = "tukey"
+#: The most groups whose pairwise comparisons --json holds (the report's default limit; the
+#: comparisons grow with the square of the number of groups).
+MAX_PAIRED_GROUPS = 100
+
+
+def method_option(args: argparse.Namespace) -> str:
+    """The pairwise method: ``--method`` (only with ``--json``, the one output that shows the
+    comparisons), else Tukey–Kramer; an unknown name is the core's one-line input error."""
+    from ..stats import parse_method
+
+    if args.method is None:
+        return DEFAULT_METHOD
+    if args.fmt != "json":
+        raise UsageError("--method chooses the pairwise comparisons, which only --json prints; "
+                         "add --json, or leave --method out")
+    return parse_method(args.method)
+
+
+def analysis(loaded: LoadedGroups, alpha: float, method: str, comparisons: bool) -> Any:
+    """Every result of the core's one call (:func:`sheetfuncs.stats.analyse`); the pairwise
+    comparisons and letters only when ``comparisons``."""
     from ..stats import analyse
 
-    # group intervals at 95 %, whatever alpha
-    an = analyse(loaded.groups, alpha=alpha, conf=0.95, comparisons=False)
-    return an.checks, an.describe, an.oneway.table(factor)
+    # group and effect-size intervals at 95 %, whatever alpha
+    return analyse(loaded.groups, alpha=alpha, method=method, conf=0.95, comparisons=comparisons)
 
 
 def run_table(args: argparse.Namespace) -> int:
+    method = method_option(args)
     if by_column(args):
-        return run_engine_table(args)
+        return run_engine_table(args, method)
     prog = Progress(args.progress, sys.stderr)
     prog.start(1, Path(args.input).name)
     try:
         loaded = read_groups(args.input, progress=prog, **read_options(args))
     finally:
         prog.finish()
-    ck, desc, one = analysis(loaded, args.alpha, args.factor)
+    paired = args.fmt == "json" and loaded.groups.k <= MAX_PAIRED_GROUPS
+    an = analysis(loaded, args.alpha, method, paired)
+    ck, desc, one = an.checks, an.describe, an.oneway.table(args.factor)
     g = loaded.groups
     print(f"{Path(args.input).name}: {loaded.reading.summary(g.labels, g.counts)}", file=sys.stderr)
     if args.fmt == "json":
-        table_json(args, loaded, ck, desc, one)
+        table_json(args, loaded, an, one)
     elif args.fmt == "csv":
         table_csv(loaded, ck, desc, one)
     else:
@@ -64,13 +89,14 @@ def run_table(args: argparse.Namespace) -> int:
     return 0
 
 
-def run_engine_table(args: argparse.Namespace) -> int:
+def run_engine_table(args: argparse.Namespace, method: str = DEFAULT_METHOD) -> int:
     """``table`` for an input read by column: the sums computed inside the engine."""
     (inp,) = engine_inputs(args)
     prog = Progress(args.progress, sys.stderr)
     prog.start(1, inp.name)
     try:
-        res = engine_analysis(args, inp, prog, comparisons=False, conf=0.95)
+        res = engine_analysis(args, inp, prog, comparisons=args.fmt == "json", conf=0.95,
+                              method=method)
     finally:
         prog.finish()
     an = res.analysis
@@ -83,6 +109,7 @@ def run_engine_table(args: argparse.Namespace) -> int:
             "oneway": oneway_record(args.factor, an.oneway, one),
             "checks": checks_record(an.checks),
             "groups": records(an.describe.table()),
+            **analysis_records(an),
             "caution": CAUTION,
         }
         sys.stdout.write(json.dumps(json_ready(doc), allow_nan=False, indent=2) + "\n")
@@ -183,13 +210,14 @@ def checks_record(ck: Any) -> dict[str, Any]:
     }
 
 
-def table_json(args: argparse.Namespace, loaded: LoadedGroups, ck: Any, desc: Any,
+def table_json(args: argparse.Namespace, loaded: LoadedGroups, an: Any,
                one: list[list[Any]]) -> None:
     doc = {
         "input": input_record(args, loaded),
-        "oneway": oneway_record(args.factor, ck.oneway, one),
-        "checks": checks_record(ck),
-        "groups": records(desc.table()),
+        "oneway": oneway_record(args.factor, an.oneway, one),
+        "checks": checks_record(an.checks),
+        "groups": records(an.describe.table()),
+        **analysis_records(an),
         "caution": CAUTION,
     }
     sys.stdout.write(json.dumps(json_ready(doc), allow_nan=False, indent=2) + "\n")

@@ -34,7 +34,7 @@ from .moments import ExactMoments, FloatMoments, compute_moments
 from .normality import SHAPIRO_WILK_MAX_N, NormalityResult, shapiro_residuals
 from .oneway import OneWayResult, oneway, oneway_from_moments, oneway_from_sums, oneway_of, oneway_from_summary, require_two_groups
 from .outcome import Unavailable, attempt
-from .planning import PowerPlan, detectable_effect, plan, power, sample_size
+from .planning import PowerPlan, cohens_f_from_difference, detectable_effect, plan, power, sample_size
 from .residuals import residuals
 from .variances import BartlettResult, LeveneResult, bartlett, bartlett_of, levene, levene_result
 from .varcomp import VarianceComponents, variance_components, variance_components_of
@@ -60,7 +60,7 @@ __all__ = [
     "ExactMoments", "FloatMoments", "compute_moments",
     "OneWayResult", "oneway", "oneway_from_moments", "oneway_from_sums", "oneway_from_summary", "require_two_groups",
     "Unavailable", "attempt",
-    "PowerPlan", "detectable_effect", "plan", "power", "sample_size",
+    "PowerPlan", "cohens_f_from_difference", "detectable_effect", "plan", "power", "sample_size",
     "VarianceComponents", "variance_components",
     "df_text", "sentence",
 ]

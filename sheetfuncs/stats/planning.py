@@ -12,6 +12,12 @@ Under that alternative the F ratio follows the noncentral F distribution with de
 
     power = P( F'(k - 1, k (n - 1); lambda) > F_crit ),  F_crit = upper alpha point of F(k - 1, k (n - 1)).
 
+A difference in the response's units: two group means ``D`` apart with the other ``k - 2``
+midway between them is the least favourable configuration for that range of means (the
+smallest f, so the largest study, among all configurations whose means span ``D``; Cohen's
+minimum-variability pattern, 1988, ch. 8), and gives ``f = D / (sigma sqrt(2 k))``
+(:func:`cohens_f_from_difference`).
+
 ``sample_size`` returns the smallest whole ``n`` per group whose power reaches the target;
 ``detectable_effect`` inverts the power in ``f``. Cohen's tables were built from approximations;
 the values here come from the noncentral F itself, so a table entry may differ by one in rare
@@ -38,6 +44,7 @@ __all__ = [
     "power",
     "sample_size",
     "detectable_effect",
+    "cohens_f_from_difference",
     "plan",
     "PowerPlan",
 ]
@@ -70,6 +77,13 @@ def _f_arg(cohens_f: Any) -> float:
             f"0.25 medium, 0.4 large), not {shown(cohens_f)}"
         )
     return v
+
+
+def _positive_arg(v: Any, what: str) -> float:
+    x = check_number(v, what)
+    if x <= 0.0:
+        raise InputError(f"{what} must be greater than 0, not {shown(v)}")
+    return x
 
 
 def _power_arg(p: Any, alpha: float) -> float:
@@ -170,6 +184,26 @@ def detectable_effect(k: Any, n: Any, power: Any = 0.8, alpha: Any = 0.05) -> fl
     return _detectable(kk, nn, target, a)
 
 
+def cohens_f_from_difference(k: Any, difference: Any, sd: Any) -> float:
+    """Cohen's f of ``k`` group means of which two lie ``difference`` apart and the other
+    ``k - 2`` midway between them, with SD ``sd`` within groups: ``D / (sd sqrt(2 k))``.
+
+    The least favourable configuration for a range ``D`` of the means (Cohen's
+    minimum-variability pattern, 1988, ch. 8): the means' SD about their mean is ``D / sqrt(2 k)``. Two groups give
+    ``D / (2 sd)``. ``difference`` and ``sd`` are in the response's units.
+    """
+    kk = _groups_arg(k)
+    d = _positive_arg(difference, "the difference to detect")
+    s = _positive_arg(sd, "the SD within groups")
+    f = d / (s * math.sqrt(2.0 * kk))
+    if not math.isfinite(f) or f == 0.0:
+        raise InputError(
+            f"a difference of {d:g} with an SD of {s:g} gives an effect size f of {f:g}, which "
+            "cannot be planned for; check the difference and the SD (same units)"
+        )
+    return f
+
+
 # --------------------------------------------------------------------------------------------
 # a richer result for reports
 
@@ -184,7 +218,10 @@ class PowerPlan:
     ``df_between = k - 1`` and ``df_within = k (n - 1)``; ``critical_f`` the upper alpha point
     of F(df_between, df_within); ``noncentrality = k n f^2``; ``solved_for`` is ``"n"``,
     ``"cohens_f"`` or
-    ``"power"``; ``notes`` plain-language remarks.
+    ``"power"``; ``notes`` plain-language remarks. When the effect was given as a difference in
+    the response's units, ``difference`` (two means that far apart, the other ``k - 2`` midway
+    between them) and ``sd`` (the SD within groups) are set and ``cohens_f`` was derived from
+    them (:func:`cohens_f_from_difference`); otherwise both are ``None``.
     """
 
     k: int
@@ -200,6 +237,8 @@ class PowerPlan:
     n_total: int
     solved_for: str
     notes: tuple[str, ...]
+    difference: float | None = None
+    sd: float | None = None
 
     #: The table's header row.
     HEADER: ClassVar[tuple[str, ...]] = ("Quantity", "Value", "Note")
@@ -213,12 +252,22 @@ class PowerPlan:
         power_note = note("power")
         if self.solved_for == "n":
             power_note = f"achieved (at least {self.target_power:g} asked)"
+        units: list[list[Any]] = []
+        f_note = note("cohens_f")
+        if self.difference is not None:
+            units = [
+                ["Difference", self.difference,
+                 "given: two means this far apart, the others midway (response units)"],
+                ["SD within groups", self.sd, "given (response units)"],
+            ]
+            f_note = "difference / (SD x sqrt(2 x groups))"
         return [
             list(self.HEADER),
             ["Groups", self.k, "given"],
             ["Values per group", self.n, note("n")],
             ["Total values", self.n_total, "groups x values per group"],
-            ["Effect size f", self.cohens_f, note("cohens_f")],
+            *units,
+            ["Effect size f", self.cohens_f, f_note],
             ["Alpha", self.alpha, "given"],
             ["Power", self.power, power_note],
             ["Critical F", self.critical_f, f"upper {self.alpha:g} point of F({self.df_between}, {self.df_within})"],
@@ -226,22 +275,52 @@ class PowerPlan:
         ]
 
 
+def _blank(v: Any) -> bool:
+    return v is None or (isinstance(v, str) and v.strip() == "")
+
+
+def _effect_in_units(kk: int, cohens_f: Any, difference: Any, sd: Any) -> Any:
+    """``cohens_f`` as given, or derived from ``difference`` and ``sd`` (both or neither)."""
+    if _blank(difference) and _blank(sd):
+        return cohens_f
+    if _blank(difference) or _blank(sd):
+        given, other = ("sd", "difference") if _blank(difference) else ("difference", "sd")
+        raise InputError(
+            f"{given} was given without {other}: a difference in the response's units needs "
+            "the SD within groups in the same units, and the other way round"
+        )
+    if not _blank(cohens_f):
+        raise InputError(
+            "give either cohens_f or difference and sd, not both: the effect size f is derived "
+            "from the difference and the SD"
+        )
+    return cohens_f_from_difference(kk, difference, sd)
+
+
 def plan(
-    k: Any, n: Any = None, cohens_f: Any = None, power: Any = None, alpha: Any = 0.05
+    k: Any, n: Any = None, cohens_f: Any = None, power: Any = None, alpha: Any = 0.05, *,
+    difference: Any = None, sd: Any = None,
 ) -> PowerPlan:
     """Solve a balanced one-way power plan: give ``k`` and exactly two of ``n``, ``cohens_f``
     and ``power``.
 
     The missing one is computed as :func:`sample_size`, :func:`detectable_effect` or
-    :func:`power` would (Cohen 1988, ch. 8); the result carries the whole design.
+    :func:`power` would (Cohen 1988, ch. 8); the result carries the whole design. Instead of
+    ``cohens_f``, the effect may be given in the response's units: ``difference`` (two group
+    means that far apart, the other ``k - 2`` midway between them, the least favourable
+    configuration) with ``sd``, the SD within groups; f is then
+    :func:`cohens_f_from_difference` and the plan solves for ``n`` or ``power``.
     """
     kk = _groups_arg(k)
     a = check_alpha(alpha)
-    missing = [name for name, v in (("n", n), ("cohens_f", cohens_f), ("power", power)) if v is None or v == ""]
+    cohens_f = _effect_in_units(kk, cohens_f, difference, sd)
+    in_units = not _blank(difference)
+    missing = [name for name, v in (("n", n), ("cohens_f", cohens_f), ("power", power)) if _blank(v)]
     if len(missing) != 1:
         raise InputError(
-            "give exactly two of n (values per group), cohens_f (effect size) and power; "
-            f"the third is solved for (missing now: {', '.join(missing) or 'none'})"
+            "give exactly two of n (values per group), cohens_f (effect size, or difference "
+            "and sd) and power; the third is solved for (missing now: "
+            f"{', '.join(missing) or 'none'})"
         )
     target: float | None = None
     notes: list[str] = []
@@ -268,4 +347,6 @@ def plan(
         k=kk, n=nn, cohens_f=ff, alpha=a, power=pw, target_power=target, df_between=d1, df_within=d2,
         critical_f=f_critical(a, d1, d2), noncentrality=kk * nn * ff * ff, n_total=kk * nn,
         solved_for=missing[0], notes=tuple(notes),
+        difference=check_number(difference, "difference") if in_units else None,
+        sd=check_number(sd, "sd") if in_units else None,
     )

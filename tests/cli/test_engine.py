@@ -54,6 +54,36 @@ def test_table_from_parquet_equals_the_sheet_reading(files, capsys):
     sums = doc["input"]["exact_sums"]
     assert len(sums["sum"]) == 3 and all(isinstance(s, str) for s in sums["sum_of_squares"])
     assert doc["groups"] == ref["groups"]
+    for key in ("pairwise", "letters", "effect_sizes", "unequal_variance_pairs"):
+        assert doc[key] == ref[key], key  # the in-memory sheetfuncs call on the same values
+
+
+def test_table_by_column_json_holds_comparisons(files, capsys):
+    # the in-memory sheetfuncs calls: pairwise, letters and effect_sizes on the same values
+    import sheetfuncs
+
+    _, pq, _, _, _ = files
+    code, out, err = run(["table", str(pq), "--group", "g", "--value", "x", "--json",
+                          "--method", "holm"], capsys)
+    assert code == 0, err
+    assert "Infinity" not in out and "NaN" not in out
+    doc = strict_json(out)
+    pw = sheetfuncs.pairwise(HEADS, "holm", 0.05)
+    assert doc["pairwise"]["method"] == "holm"
+    rows = doc["pairwise"]["rows"]
+    assert [(r["group_a"], r["group_b"]) for r in rows] == [(r.group_a, r.group_b) for r in pw.rows]
+    for got, want in zip(rows, pw.rows):
+        assert got["difference"] == pytest.approx(want.difference, rel=1e-12, abs=1e-12)
+        assert got["p"] == pytest.approx(want.p, rel=1e-9)
+        assert (got["ci_low"], got["ci_high"]) == pytest.approx(tuple(want.ci), rel=1e-12)
+        assert got["differs"] is want.differs
+    let = sheetfuncs.letters(HEADS, "holm", 0.05)
+    assert [g["letters"] for g in doc["letters"]["groups"]] == list(let.letters)
+    eff = sheetfuncs.effect_sizes(HEADS, 0.95)
+    assert doc["effect_sizes"]["eta_squared"] == pytest.approx(eff.eta_squared, rel=1e-12)
+    assert doc["effect_sizes"]["cohens_f_ci"]["low"] == pytest.approx(eff.cohens_f_ci.low, rel=1e-9)
+    code, out, _ = run(["table", str(pq), "--group", "g", "--value", "x"], capsys)
+    assert code == 0 and "Letters" not in out  # the text output keeps to its three tables
 
 
 def test_table_from_a_duckdb_query_counts_what_it_leaves_out(files, capsys):

@@ -129,7 +129,7 @@ def test_each_command_ends_its_help_with_progress_and_help(capsys):
 def test_build_parser_names_each_command_in_its_messages():
     parser = build_parser()
     args = parser.parse_args(["plan", "--groups", "3", "--effect", "0.25"])
-    assert args.command == "plan" and args.alpha == 0.05 and args.power == 0.8
+    assert args.command == "plan" and args.alpha == 0.05 and args.power is None  # the command applies DEFAULT_POWER (0.8) unless --n is given
     assert args.parser.prog == "sheetfuncs plan"
     args = parser.parse_args(["table", "x.csv"])
     assert args.fmt == "text" and args.size_limit == 512 and args.parser.prog == "sheetfuncs table"

@@ -94,3 +94,113 @@ def test_table_text_names_ignored_cells_with_quotes(tmp_path, capsys):
     assert code == 0, err
     assert '  left out A3: text in the data ("n/a")\n  left out B4: logical value in the data (TRUE)' in out
     assert "'n/a'" not in out
+
+
+# invented hardness readings of four gasket lots; lot D is more spread out than the others
+LOTS = {
+    "Lot A": [61.2, 61.9, 60.8, 61.5, 61.1],
+    "Lot B": [62.4, 62.0, 62.9, 62.2, 62.6],
+    "Lot C": [61.4, 61.0, 61.8, 61.3],
+    "Lot D": [63.9, 60.2, 65.1, 61.7, 64.4, 62.8],
+}
+
+
+def _lots_csv(tmp_path):
+    rows = [list(LOTS)]
+    longest = max(len(v) for v in LOTS.values())
+    rows += [[v[i] if i < len(v) else "" for v in LOTS.values()] for i in range(longest)]
+    return write_csv(tmp_path / "lots.csv", rows)
+
+
+def _pair_records(res):
+    return [
+        {"group_a": r.group_a, "group_b": r.group_b, "difference": r.difference, "se": r.se,
+         "ci_low": r.ci.low, "ci_high": r.ci.high, "statistic": r.statistic, "p": r.p,
+         "differs": r.differs, "df": df}
+        for r, df in zip(res.rows, res.row_df)
+    ]
+
+
+@pytest.mark.parametrize("method", [None, "bonferroni", "games-howell", "scheffe"])
+def test_table_json_holds_the_comparisons_letters_and_effect_sizes(tmp_path, capsys, method):
+    # the in-memory sheetfuncs calls (pairwise, letters, effect_sizes) on the same values
+    import sheetfuncs
+
+    path = _lots_csv(tmp_path)
+    code, out, err = run(["table", str(path), "--json", *(["--method", method] if method else [])], capsys)
+    assert code == 0, err
+    doc = strict_json(out)
+    m = method or "tukey"
+    pw = sheetfuncs.pairwise(LOTS, m, 0.05)
+    assert doc["pairwise"]["available"] is True
+    assert doc["pairwise"]["method"] == m and doc["pairwise"]["method_name"] == pw.method_name
+    assert doc["pairwise"]["interval"] == pw.interval and doc["pairwise"]["statistic_name"] == pw.statistic_name
+    assert doc["pairwise"]["rows"] == _pair_records(pw)
+    assert [(r["group_a"], r["group_b"]) for r in doc["pairwise"]["rows"]] == [
+        ("Lot A", "Lot B"), ("Lot A", "Lot C"), ("Lot A", "Lot D"), ("Lot B", "Lot C"),
+        ("Lot B", "Lot D"), ("Lot C", "Lot D")]
+    let = sheetfuncs.letters(LOTS, m, 0.05)
+    assert doc["letters"]["groups"] == [
+        {"group": g, "mean": mean, "letters": x} for g, mean, x in zip(let.labels, let.means, let.letters)]
+    eff = sheetfuncs.effect_sizes(LOTS, 0.95)
+    es = doc["effect_sizes"]
+    assert (es["eta_squared"], es["omega_squared"], es["epsilon_squared"], es["cohens_f"]) == (
+        eff.eta_squared, eff.omega_squared, eff.epsilon_squared, eff.cohens_f)
+    assert es["eta_squared_ci"] == {"low": eff.eta_squared_ci.low, "high": eff.eta_squared_ci.high}
+    assert es["cohens_f_ci"] == {"low": eff.cohens_f_ci.low, "high": eff.cohens_f_ci.high}
+    assert es["conf"] == 0.95
+
+
+def test_table_json_adds_games_howell_when_spreads_differ(tmp_path, capsys):
+    # the in-memory sheetfuncs calls: analyse's checks and pairwise(..., "games-howell")
+    import sheetfuncs
+
+    path = _lots_csv(tmp_path)
+    code, out, err = run(["table", str(path), "--json"], capsys)
+    doc = strict_json(out)
+    assert code == 0, err
+    assert sheetfuncs.checks(LOTS).variances_unequal is True  # lot D's SD is 5.5 times lot C's
+    assert doc["checks"]["variances_unequal"] is True
+    gh = sheetfuncs.pairwise(LOTS, "games-howell", 0.05)
+    assert doc["unequal_variance_pairs"]["rows"] == _pair_records(gh)
+    assert doc["unequal_variance_pairs"]["method"] == "games-howell"
+    code, out, err = run(["table", str(path), "--json", "--method", "games-howell"], capsys)
+    assert strict_json(out)["unequal_variance_pairs"] is None  # the chosen method already allows for it
+
+
+def test_table_text_and_csv_keep_to_their_three_tables(tmp_path, capsys):
+    path = _lots_csv(tmp_path)
+    code, out, err = run(["table", str(path)], capsys)
+    assert code == 0 and "Lot A  Lot B" not in out and "Letters" not in out and "Eta squared" not in out
+    code, out, err = run(["table", str(path), "--csv"], capsys)
+    assert code == 0 and len(out.strip("\n").split("\n\n")) == 4 and "Letters" not in out
+
+
+def test_table_method_problems(tmp_path, capsys):
+    path = _lots_csv(tmp_path)
+    code, out, err = run(["table", str(path), "--method", "holm"], capsys)
+    assert code == 2 and out == ""
+    assert err.splitlines()[1] == (
+        "sheetfuncs: table: --method chooses the pairwise comparisons, which only --json prints; "
+        "add --json, or leave --method out (see: sheetfuncs table --help)")
+    code, out, err = run(["table", str(path), "--json", "--method", "fastest"], capsys)
+    assert code == 1 and out == "" and err.count("\n") == 1
+    assert err.startswith('sheetfuncs: unknown comparison method "fastest"; use one of "tukey"')
+
+
+def test_table_json_comparisons_stay_strict_json_when_f_is_infinite(tmp_path, capsys):
+    # zero within-group variation and different means: F = +inf (project guide); no NaN/Infinity tokens
+    path = write_csv(tmp_path / "flat.csv", [["A", "B", "C"], [1, 2, 4], [1, 2, 4], [1, 2, 4]])
+    code, out, err = run(["table", str(path), "--json"], capsys)
+    assert code == 0, err
+    assert "Infinity" not in out and "NaN" not in out
+    doc = strict_json(out)
+    for key in ("pairwise", "letters", "effect_sizes"):
+        rec = doc[key]
+        assert isinstance(rec["available"], bool)
+        if not rec["available"]:
+            assert rec["reason"] and rec["what"]
+    assert [r["statistic"] for r in doc["pairwise"]["rows"]] == ["inf", "inf", "inf"]
+    assert [r["se"] for r in doc["pairwise"]["rows"]] == [0.0, 0.0, 0.0]
+    assert doc["effect_sizes"]["cohens_f"] == "inf"
+    assert doc["effect_sizes"]["cohens_f_ci"] == {"low": "inf", "high": "inf"}

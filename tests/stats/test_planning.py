@@ -8,6 +8,7 @@ from scipy import stats
 
 from sheetfuncs import InputError
 from sheetfuncs.stats.planning import (
+    cohens_f_from_difference,
     detectable_effect,
     plan,
     power,
@@ -123,3 +124,84 @@ def test_plan_table_layout():
     by = {row[0]: row for row in t[1:]}
     assert by["Values per group"][2] == "solved for"
     assert by["Critical F"][1] == pytest.approx(stats.f.isf(0.05, 3, 176), rel=1e-12)  # scipy.stats.f
+
+
+# --------------------------------------------------------------------------------------------
+# the effect as a difference in the response's units
+
+
+def _f_of_means(means: list[float], sd: float) -> float:
+    # Cohen's definition, computed from the means themselves: SD of the means (divisor k) / SD within
+    m = np.asarray(means, dtype=float)
+    return float(np.sqrt(np.mean((m - m.mean()) ** 2)) / sd)
+
+
+def test_f_from_difference_by_hand():
+    # from memory: two groups D apart give f = D / (2 S)
+    assert cohens_f_from_difference(2, 3.0, 1.5) == pytest.approx(1.0, rel=1e-15)
+    assert cohens_f_from_difference(2, 1.0, 1.0) == pytest.approx(0.5, rel=1e-15)
+    # hand check, K = 4, D = 2, S = 1: means -1, 0, 0, 1 -> SD of the means sqrt(2/4) -> f = 0.70711
+    assert cohens_f_from_difference(4, 2.0, 1.0) == pytest.approx(0.7071067811865476, rel=1e-15)
+    assert cohens_f_from_difference(4, 2.0, 1.0) == pytest.approx(_f_of_means([-1, 0, 0, 1], 1.0))
+    # whole numbers may arrive as floats, as from a spreadsheet
+    assert cohens_f_from_difference(5.0, 0.8, 0.4) == pytest.approx(_f_of_means([0, 0.4, 0.4, 0.4, 0.8], 0.4))
+
+
+@pytest.mark.parametrize("k", [3, 4, 6])
+def test_difference_midway_is_the_least_favourable_configuration(k):
+    # common practice (Cohen 1988, ch. 8): among means spanning D, the others midway give the smallest f
+    rng = np.random.default_rng(k)
+    least = cohens_f_from_difference(k, 1.0, 1.0)
+    for _ in range(50):
+        inner = rng.uniform(0.0, 1.0, k - 2).tolist()
+        assert _f_of_means([0.0, 1.0, *inner], 1.0) >= least - 1e-15
+    assert _f_of_means([0.0, 1.0, *[0.5] * (k - 2)], 1.0) == pytest.approx(least, rel=1e-14)
+
+
+@pytest.mark.parametrize(("k", "d", "s", "n"), [(2, 1.0, 1.0, 20), (3, 2.5, 1.8, 7), (4, 0.3, 0.2, 11), (8, 4.0, 3.0, 30)])
+def test_plan_in_units_agrees_with_statsmodels(k, d, s, n):
+    # reference library: statsmodels FTestAnovaPower (noncentral F, nobs = k n) with f from the means
+    from statsmodels.stats.power import FTestAnovaPower
+
+    f_means = _f_of_means([0.0, d, *[d / 2] * (k - 2)], s)
+    ref = FTestAnovaPower().power(effect_size=f_means, nobs=k * n, alpha=0.05, k_groups=k)
+    r = plan(k, n=n, difference=d, sd=s)
+    assert r.solved_for == "power" and (r.difference, r.sd) == (d, s)
+    assert r.power == pytest.approx(ref, rel=1e-9)
+    q = plan(k, power=0.8, difference=d, sd=s)
+    assert q.solved_for == "n" and q.power >= 0.8
+    at_n = FTestAnovaPower().power(effect_size=f_means, nobs=k * q.n, alpha=0.05, k_groups=k)
+    assert q.power == pytest.approx(at_n, rel=1e-9)
+    if q.n > 2:  # one fewer per group falls short (statsmodels)
+        assert FTestAnovaPower().power(effect_size=f_means, nobs=k * (q.n - 1), alpha=0.05, k_groups=k) < 0.8
+
+
+def test_plan_in_units_table_says_what_was_given():
+    t = plan(4, power=0.8, difference=2.5, sd=1.8).table()
+    by = {row[0]: row for row in t[1:]}
+    assert by["Difference"][1:] == [2.5, "given: two means this far apart, the others midway (response units)"]
+    assert by["SD within groups"][1:] == [1.8, "given (response units)"]
+    assert by["Effect size f"][2] == "difference / (SD x sqrt(2 x groups))"
+    assert "Difference" not in {row[0] for row in plan(4, power=0.8, cohens_f=0.3).table()}
+
+
+@pytest.mark.parametrize(
+    ("call", "match"),
+    [
+        (lambda: cohens_f_from_difference(3, 0, 1), "the difference to detect must be greater than 0, not 0"),
+        (lambda: cohens_f_from_difference(3, -2, 1), "the difference to detect must be greater than 0, not -2"),
+        (lambda: cohens_f_from_difference(3, 1, -0.5), "the SD within groups must be greater than 0, not -0.5"),
+        (lambda: cohens_f_from_difference(3, "wide", 1), "the difference to detect must be a number"),
+        (lambda: cohens_f_from_difference(3, 1e300, 1e-300), "cannot be planned for; check the difference and the SD"),
+        (lambda: cohens_f_from_difference(1, 1, 1), "k \\(the number of groups\\)"),
+        (lambda: plan(3, power=0.8, difference=1.0), "difference was given without sd"),
+        (lambda: plan(3, power=0.8, sd=1.0), "sd was given without difference"),
+        (lambda: plan(3, power=0.8, cohens_f=0.2, difference=1.0, sd=1.0), "either cohens_f or difference and sd"),
+        (lambda: plan(3, n=10, power=0.8, difference=1.0, sd=1.0), "exactly two of"),
+    ],
+)
+def test_bad_difference_is_one_clear_line(call, match):
+    with pytest.raises(InputError, match=match) as info:
+        call()
+    msg = str(info.value)
+    assert msg.startswith("sheetfuncs: ") and "\n" not in msg
