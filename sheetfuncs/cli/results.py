@@ -80,13 +80,19 @@ def effects_record(eff: Any) -> dict[str, Any]:
     }
 
 
-def analysis_records(an: Any) -> dict[str, Any]:
+def analysis_records(an: Any, skipped: str | None = None) -> dict[str, Any]:
     """The comparisons (and Games–Howell's when the checks find unequal spreads and the chosen
-    method pools them; else ``null``), the letters and the effect sizes of ``an``."""
-    return {
+    method pools them; else ``null``), the letters and the effect sizes of ``an``; ``skipped``
+    is why the comparisons and letters were not computed, when they were left out."""
+    out = {
         "pairwise": pairwise_record(an.pairwise),
         "unequal_variance_pairs": (None if an.unequal_pairs is None
                                    else pairwise_record(an.unequal_pairs)),
         "letters": letters_record(an.letters),
         "effect_sizes": effects_record(an.effects),
     }
+    if skipped is not None:
+        for key in ("pairwise", "letters"):
+            if not out[key]["available"]:
+                out[key]["reason"] = skipped
+    return out

@@ -129,12 +129,16 @@ def run_engine_table(args: argparse.Namespace, method: str = DEFAULT_METHOD) -> 
 
 def _engine_text(inp: Any, res: Any, one: list[list[Any]]) -> None:
     an = res.analysis
-    ck = an.checks
-    path = "decimal-exact" if an.oneway.exact else "floating-point"
-    out = [
-        *origin_lines(inp, res),
-        "",
-        f"One-way analysis of variance: {an.n_total} values in {an.k} groups, {path} arithmetic",
+    out = [*origin_lines(inp, res), "", *result_lines(an.checks, an.describe, one), "", CAUTION]
+    sys.stdout.write("\n".join(out) + "\n")
+
+
+def result_lines(ck: Any, desc: Any, one: list[list[Any]]) -> list[str]:
+    """The text output's one-way table, checks with their reasons, and group summary."""
+    ow = ck.oneway
+    path = "decimal-exact" if ow.exact else "floating-point"
+    return [
+        f"One-way analysis of variance: {ow.n_total} values in {ow.k} groups, {path} arithmetic",
         "",
         *aligned(one),
         "",
@@ -144,11 +148,8 @@ def _engine_text(inp: Any, res: Any, one: list[list[Any]]) -> None:
         *("  - " + r for r in ck.reasons),
         "",
         "Groups",
-        *aligned(an.describe.table()),
-        "",
-        CAUTION,
+        *aligned(desc.table()),
     ]
-    sys.stdout.write("\n".join(out) + "\n")
 
 
 def input_record(args: argparse.Namespace, loaded: LoadedGroups) -> dict[str, Any]:
@@ -212,12 +213,16 @@ def checks_record(ck: Any) -> dict[str, Any]:
 
 def table_json(args: argparse.Namespace, loaded: LoadedGroups, an: Any,
                one: list[list[Any]]) -> None:
+    k = loaded.groups.k
+    skipped = (f"not computed: {k:,} groups, more than the {MAX_PAIRED_GROUPS} whose pairwise "
+               "comparisons table --json holds (they grow with the square of the number of "
+               "groups); compare fewer groups at a time" if k > MAX_PAIRED_GROUPS else None)
     doc = {
         "input": input_record(args, loaded),
         "oneway": oneway_record(args.factor, an.oneway, one),
         "checks": checks_record(an.checks),
         "groups": records(an.describe.table()),
-        **analysis_records(an),
+        **analysis_records(an, skipped),
         "caution": CAUTION,
     }
     sys.stdout.write(json.dumps(json_ready(doc), allow_nan=False, indent=2) + "\n")
@@ -246,9 +251,7 @@ def table_csv(loaded: LoadedGroups, ck: Any, desc: Any, one: list[list[Any]]) ->
 def table_text(args: argparse.Namespace, loaded: LoadedGroups, ck: Any, desc: Any,
                one: list[list[Any]]) -> None:
     g = loaded.groups
-    ow = ck.oneway
     r = loaded.reading
-    path = "decimal-exact" if ow.exact else "floating-point"
     out = [
         f"Read {r.where} of {Path(args.input).name}"
         + (" (found on the sheet; no range given)" if r.detected else "")
@@ -259,18 +262,7 @@ def table_text(args: argparse.Namespace, loaded: LoadedGroups, ck: Any, desc: An
           if len(r.left_out) > LEFT_OUT_SHOWN else []),
         *(f"  note: {n}" for n in r.notes if n not in g.notes),
         "",
-        f"One-way analysis of variance: {g.n_total} values in {g.k} groups, "
-        f"{path} arithmetic",
-        "",
-        *aligned(one),
-        "",
-        f"Checks (alpha = {ck.alpha:g}); read: {ck.read_name}",
-        *aligned(ck.table()),
-        "",
-        *("  - " + r for r in ck.reasons),
-        "",
-        "Groups",
-        *aligned(desc.table()),
+        *result_lines(ck, desc, one),
     ]
     for note in g.notes:
         out += [f"Note: {note}"]

@@ -6,6 +6,8 @@ Numeric checks name their source: NIST StRD certified values.
 
 from __future__ import annotations
 
+import json
+
 import math
 import os
 import shlex
@@ -100,6 +102,10 @@ def test_three_thousand_groups_are_answered_in_one_line(tmp_path):
     table = measure_cli("table", str(src), "--json", cwd=tmp_path)  # no comparisons: quick
     assert table.code == 0, table.err
     assert table.seconds < 30 and table.peak_mb < 1024
+    doc = json.loads(table.out)
+    assert doc["pairwise"]["available"] is False and doc["letters"]["available"] is False
+    assert doc["pairwise"]["reason"].startswith(
+        "not computed: 3,000 groups, more than the 100 whose pairwise comparisons table --json holds")
 
 
 def test_max_groups_option_and_its_default(tmp_path, capsys):
