@@ -31,7 +31,7 @@ _EXPORTS = {
     "shapiro_residuals": ".stats", "PairRow": ".stats", "PairwiseResult": ".stats",
     "dunnett": ".stats", "pairwise": ".stats", "LettersResult": ".stats", "letters": ".stats",
     "EffectSizes": ".stats", "effect_sizes": ".stats", "PowerPlan": ".stats",
-    "detectable_effect": ".stats", "plan": ".stats", "power": ".stats", "sample_size": ".stats",
+    "detectable_effect": ".stats", "plan": ".stats", "cohens_f_from_difference": ".stats", "power": ".stats", "sample_size": ".stats",
     "VarianceComponents": ".stats", "variance_components": ".stats",
     "oneway_sql": ".engines", "group_sums": ".engines", "GroupSums": ".engines",
     "analyse_sql": ".engines", "SqlAnalysis": ".engines",
@@ -59,6 +59,7 @@ __all__ = [
     "PairRow", "PairwiseResult", "pairwise", "dunnett", "LettersResult", "letters",
     # effect sizes, planning, variance components
     "EffectSizes", "effect_sizes", "PowerPlan", "power", "sample_size", "detectable_effect", "plan",
+    "cohens_f_from_difference",
     "VarianceComponents", "variance_components",
     "__version__",
 ]
