@@ -12,6 +12,7 @@ digits no exact sum can hold it: the values are then fetched and the in-memory a
 
 from __future__ import annotations
 
+import os
 from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
@@ -48,13 +49,15 @@ def _version(rel: Relation) -> str:
     return str(getattr(rel.con, "version", "?"))
 
 
-def _origin(rel: Relation, where: str | None, sums: GroupSums, fetched: bool) -> RowsOrigin:
+def _origin(rel: Relation, where: str | None, sums: GroupSums, fetched: bool,
+            source: Any) -> RowsOrigin:
     return RowsOrigin(
         engine=rel.dialect.name, engine_version=_version(rel), source=rel.name,
         from_sql=rel.src, where=where,
         rows_read=sum(sums.n) + sum(sums.missing) + sums.null_labels,
         null_labels=sums.null_labels, missing=sums.missing, notes=tuple(sums_notes(sums)),
         fetched=fetched,
+        path=os.path.abspath(os.fspath(source)) if isinstance(source, (str, os.PathLike)) else None,
     )
 
 
@@ -87,12 +90,12 @@ def analyse_sql(
             base = plain_sums(rel, missing)
             check_sums_groups(base)
             an = analyse(fetched_groups(rel, base), **opts)
-            return SqlAnalysis(an, None, _origin(rel, where, base, True))
+            return SqlAnalysis(an, None, _origin(rel, where, base, True, source))
         check_sums_groups(sums)
         gm = moments_only(sums.labels, sums.moments(), sums.missing)
         analyse_of(gm, **{**opts, "comparisons": False})  # the options' and the one-way analysis's messages before any second pass
         an = _second_passes(rel, sums, gm, opts, seed, max_distinct)
-        return SqlAnalysis(an, sums, _origin(rel, where, sums, False))
+        return SqlAnalysis(an, sums, _origin(rel, where, sums, False, source))
 
 
 def _second_passes(rel: Relation, sums: GroupSums, gm: Any, opts: dict[str, Any], seed: int,

@@ -39,8 +39,9 @@ class RowsOrigin:
     SQL text after ``FROM``: the file reader, the table or the query), ``where`` (the filter, or
     ``None``), ``rows_read`` (rows inside the filter, those left out included),
     ``null_labels`` (rows left out for a NULL group label), ``missing`` (NULL or NaN values left
-    out, per group, with ``missing="drop"``), ``notes`` (the same in words) and ``fetched``
-    (whether the values had to be fetched for the in-memory analysis)."""
+    out, per group, with ``missing="drop"``), ``notes`` (the same in words), ``fetched``
+    (whether the values had to be fetched for the in-memory analysis) and ``path`` (the
+    absolute path of the Parquet or CSV file read, ``None`` for a table or a query)."""
 
     engine: str
     engine_version: str
@@ -52,3 +53,4 @@ class RowsOrigin:
     missing: tuple[int, ...]
     notes: tuple[str, ...]
     fetched: bool = False
+    path: str | None = None

@@ -14,7 +14,6 @@ from __future__ import annotations
 import hashlib
 import json
 import os
-import re
 import struct
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
@@ -36,7 +35,6 @@ PAPER_SIZES = {"a4": 9, "letter": 1}
 FOOTER_TEXT = "page &P of &N"
 
 _CHUNK = 1 << 20
-_FILE_READER = re.compile(r"read_(?:parquet|csv)\('((?:[^']|'')*)'\)")
 
 
 @dataclass(frozen=True)
@@ -124,17 +122,10 @@ def python_call(function: str, options: Mapping[str, Any]) -> str:
     return f"{function}(...) called from Python" + (f" with {given}" if given else "")
 
 
-def _origin_file(from_sql: str) -> str | None:
-    """The file a database engine read the rows from (its ``read_parquet('...')`` or
-    ``read_csv('...')`` source), or ``None`` for a table or a query."""
-    m = _FILE_READER.fullmatch(from_sql.strip())
-    return m.group(1).replace("''", "'") if m else None
-
-
 def _input_file(an: ReportContext, source_path: str | None) -> Path | None:
     """The file the data came from (absolute), when there is one."""
     if an.origin is not None:
-        path = _origin_file(an.origin.from_sql)
+        path = an.origin.path
     elif an.reading is not None and an.reading.path:
         path = an.reading.path
     else:
